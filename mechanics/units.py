@@ -1,0 +1,100 @@
+"""Quantities at the edge: strings with units in, SI floats out (pint).
+
+Inside bendlife every number is SI (m, N, Pa, J, kg, s). A dimensional value
+must come with its unit (``"0.8 mm"``, ``"45 lbf"``, ``"38.6 GPa"``); a bare
+number for a dimensional quantity is an error, never a guess. Ratios (strain,
+Poisson's ratio, counts) are bare numbers; a strain may also be written with a
+percent sign (``"2.1 %"``).
+"""
+from __future__ import annotations
+
+import math
+
+import pint
+
+from mechanics.errors import InputError
+
+UREG = pint.UnitRegistry()
+UREG.define("percent = 0.01 = %")  # strain given in percent, e.g. "2.1 %"
+
+# Quantity kinds used in design and material files, with the pint dimensionality
+# each must have and the SI unit it is reduced to.
+KINDS = {
+    "length": ("[length]", "m"),
+    "force": ("[force]", "N"),
+    "stress": ("[pressure]", "Pa"),
+    "density": ("[mass] / [length] ** 3", "kg/m**3"),
+    "energy": ("[energy]", "J"),
+    "strain": ("", ""),
+}
+EXAMPLES = {
+    "length": '"0.8 mm" or "2 in"',
+    "force": '"45 N" or "10 lbf"',
+    "stress": '"38.6 GPa" or "1062 MPa"',
+    "density": '"1800 kg/m^3"',
+    "energy": '"1.5 J"',
+    "strain": '0.021 or "2.1 %"',
+}
+
+
+def _quantity(value: object, where: str) -> pint.Quantity:
+    if isinstance(value, bool):
+        raise InputError(f"{where}: expected a quantity, got {value!r}")
+    if isinstance(value, (int, float)):
+        return UREG.Quantity(float(value), "")
+    if not isinstance(value, str):
+        raise InputError(f"{where}: expected a quantity as a string with a unit, got {value!r}")
+    text = value.strip().replace("^", "**")
+    try:
+        return UREG.Quantity(text)
+    except (pint.errors.PintError, ValueError, TypeError, SyntaxError, AttributeError) as exc:
+        raise InputError(f"{where}: cannot read {value!r} as a quantity ({exc})") from None
+
+
+def parse_quantity(value: object, kind: str, where: str) -> float:
+    """Convert a design-file value to an SI float.
+
+    Parameters
+    ----------
+    value : str or number — ``"0.8 mm"``; a bare number only where ``kind`` is ``"strain"``
+    kind : str — one of ``KINDS`` (``"length"``, ``"force"``, ``"stress"``, ``"density"``,
+        ``"energy"``, ``"strain"``)
+    where : str — file and key for the error message, e.g. ``"design.toml [beam] span"``
+
+    Returns
+    -------
+    float — the value in SI units (m, N, Pa, kg/m³, J, or a bare strain ratio)
+    """
+    dims, si_unit = KINDS[kind]
+    q = _quantity(value, where)
+    if kind == "strain":
+        if not q.dimensionless:
+            raise InputError(f"{where}: a strain is a ratio, got {value!r}; write e.g. {EXAMPLES[kind]}")
+        number = float(q.to("").magnitude)
+    else:
+        if q.dimensionless:
+            raise InputError(
+                f"{where}: {value!r} has no unit; a {kind} needs one, e.g. {EXAMPLES[kind]}"
+            )
+        if q.dimensionality != UREG.Quantity(1, si_unit).dimensionality:
+            raise InputError(
+                f"{where}: {value!r} is not a {kind} (its unit is {q.units:~}); write e.g. {EXAMPLES[kind]}"
+            )
+        number = float(q.to(si_unit).magnitude)
+    if not math.isfinite(number):
+        raise InputError(f"{where}: {value!r} is not a finite number")
+    return number
+
+
+def unit_factor(unit: str, where: str) -> float:
+    """SI value of one ``unit`` (``"mm"`` → 0.001, ``"lbf"`` → 4.448…); for scaling a data column."""
+    try:
+        q = UREG.Quantity(1.0, unit.strip().replace("^", "**"))
+    except (pint.errors.PintError, ValueError, TypeError, SyntaxError, AttributeError) as exc:
+        raise InputError(f"{where}: unknown unit {unit!r} ({exc})") from None
+    return float(q.to_base_units().magnitude) if not q.dimensionless else float(q.to("").magnitude)
+
+
+def is_dimensionless(value: object, where: str) -> bool:
+    """True when ``value`` is a bare number or a dimensionless quantity (a strain)."""
+    return bool(_quantity(value, where).dimensionless)
