@@ -1,0 +1,477 @@
+"""Beams: supports, stations, width taper, ply drops, stiffness, and the ply response per unit drive.
+
+A part is a straight beam of span L with one laminate per segment between ply drops. Each support is
+reduced to the part of the beam that runs from its *root* to its load point or support:
+
+=============  ================================  ==================================================
+support        stations run                       bending moment per unit drive force, m(x)
+=============  ================================  ==================================================
+cantilever     clamp (x = 0) → end load (x = L)   m = L − x
+three-point    mid-span (x = 0) → support (L/2)   m = (L/2 − x)/2
+four-point     mid-span (x = 0) → support (L/2)   m = a/2 inside the loads, (L/2 − x)/2 outside,
+                                                  a = (L − s)/2, s = load spacing; drive = total force
+guided         clamp (x = 0) → guided end (L)     m = (L − x) − m₀, the guided end not rotating
+=============  ================================  ==================================================
+
+m > 0 puts the first ply (the bottom, z = −h/2) in tension. Three- and four-point beams are symmetric:
+their stations cover one half and integrals over the span are twice those over the half; a width taper
+and ply drops run from mid-span outward. The free overhang beyond the supports is not modelled.
+
+Formulas: moments and deflections of Roark's Formulas for Stress and Strain, 7th ed. (Young & Budynas),
+Table 8.1 cases 1a (cantilever, end load), 1e (simply supported, centre load) and 1e superposed (two
+symmetric loads), 2a (fixed-guided); the load-point compliance by the unit-load method (virtual work)
+with Timoshenko shear deformation: C = ∫ m²/(b·Db) dx + ∫ v²/(b·S) dx, Db = bending stiffness per width,
+S = transverse shear stiffness per width (κs = 5/6). Linear, small deflection (valid while the
+deflection stays below about 10 % of the span: a warning says when it does not).
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Sequence
+
+import numpy as np
+from scipy import integrate
+
+from mechanics.errors import InputError
+from mechanics.laminate import (
+    SECTIONS,
+    Layer,
+    Laminate,
+    ShearFlow,
+    UnitBending,
+    laminate,
+    ply_field,
+    reduced_stiffness,
+    transformed_stiffness,
+    shear_flow,
+    transverse_shear_stiffness,
+    unit_bending,
+)
+from mechanics.materials import Material
+
+SUPPORTS = ("cantilever", "three-point", "four-point", "guided")
+DEFAULT_STATIONS = 40
+LARGE_DEFLECTION = 0.10  # deflection/span beyond which small-deflection theory is doubtful (common practice)
+# Searle parameter β = b²/(R·h): narrow-beam (anticlastic) behaviour below about 1, cylindrical (plate)
+# bending above about 20 (Searle 1908; Ashwell 1950, J. R. Aeronaut. Soc. — thresholds recalled).
+SEARLE_BEAM_MAX = 1.0
+SEARLE_PLATE_MIN = 20.0
+
+
+@dataclass(frozen=True)
+class Ply:
+    """One ply of the design's stack (each repeat of ``count`` is its own ply).
+
+    material : Material — the ply material
+    angle : float — fibre angle to the beam axis [deg]
+    thickness : float — ply thickness [m]
+    ends_at : float | None — distance from the root where the ply stops (ply drop) [m]; None: full length
+    """
+
+    material: Material
+    angle: float
+    thickness: float
+    ends_at: float | None = None
+
+
+@dataclass(frozen=True)
+class Beam:
+    """A beam-like part.
+
+    support : str — one of ``SUPPORTS``
+    span : float — cantilever/guided: clamp to load point; three/four-point: between supports [m]
+    width_root : float — width at the root (clamp, or mid-span) [m]
+    width_tip : float — width at the load point (or support) end; equal to width_root for no taper [m]
+    plies : tuple[Ply, ...] — from the tension face (under positive drive) to the other face
+    load_spacing : float | None — four-point only: distance between the two load points [m]
+    section : str — ``"beam"`` (narrow beam) or ``"plate"`` (cylindrical bending)
+    stations : int — about this many stations per span (discontinuities add their own)
+    """
+
+    support: str
+    span: float
+    width_root: float
+    width_tip: float
+    plies: tuple[Ply, ...]
+    load_spacing: float | None = None
+    section: str = "beam"
+    stations: int = DEFAULT_STATIONS
+
+    @property
+    def length(self) -> float:
+        """Length of the root-to-end stretch the stations cover [m]."""
+        return self.span / 2.0 if self.support in ("three-point", "four-point") else self.span
+
+    @property
+    def halves(self) -> int:
+        """How many copies of the root-to-end stretch make up the part (2 for symmetric supports)."""
+        return 2 if self.support in ("three-point", "four-point") else 1
+
+    def width(self, x: np.ndarray) -> np.ndarray:
+        """Width at distance x from the root, linear taper [m]."""
+        return self.width_root + (self.width_tip - self.width_root) * np.asarray(x, float) / self.length
+
+
+def validate(beam: Beam) -> None:
+    """Reject what the model cannot represent, with the key and what would be right."""
+    if beam.support not in SUPPORTS:
+        raise InputError(f"[beam] support: must be one of {', '.join(SUPPORTS)}, got {beam.support!r}")
+    if beam.section not in SECTIONS:
+        raise InputError(f"[beam] section: must be one of {', '.join(SECTIONS)}, got {beam.section!r}")
+    if not beam.span > 0:
+        raise InputError(f"[beam] span: must be > 0 [m], got {beam.span:g} m")
+    if not (beam.width_root > 0 and beam.width_tip > 0):
+        raise InputError(
+            f"[beam] width: must be > 0 at root and tip [m], got root {beam.width_root:g} m, tip {beam.width_tip:g} m"
+        )
+    if beam.support == "four-point":
+        s = beam.load_spacing
+        if s is None or not (0 < s < beam.span):
+            raise InputError(
+                f"[beam] load_spacing: four-point needs 0 < load_spacing < span ({beam.span:g} m), got {s}"
+            )
+    elif beam.load_spacing is not None:
+        raise InputError(f"[beam] load_spacing: only for support = \"four-point\", not {beam.support!r}")
+    if beam.stations < 2:
+        raise InputError(f"stations: need at least 2, got {beam.stations}")
+    if not beam.plies:
+        raise InputError("[[ply]]: the stack needs at least one ply")
+    for k, p in enumerate(beam.plies, start=1):
+        if not p.thickness > 0:
+            raise InputError(f"[[ply]] {k}: thickness must be > 0 [m], got {p.thickness:g} m")
+        if p.ends_at is not None and not p.ends_at > 0:
+            raise InputError(f"[[ply]] {k}: ends_at must be > 0 [m] from the root, got {p.ends_at:g} m")
+
+
+@dataclass(frozen=True)
+class Segment:
+    """A stretch of constant laminate between discontinuities.
+
+    x0, x1 : float — its ends, from the root [m]
+    active : tuple[int, ...] — 0-based indices (into Beam.plies) of the plies present
+    lam : Laminate — the laminate re-formed from those plies (own mid-plane)
+    bending : UnitBending — response to a unit moment per width
+    shear_stiffness : float — transverse shear stiffness per width [N/m]
+    shear : ShearFlow — τxz per unit shear force per width
+    """
+
+    x0: float
+    x1: float
+    active: tuple[int, ...]
+    lam: Laminate
+    bending: UnitBending
+    shear_stiffness: float
+    shear: ShearFlow
+
+
+def _breakpoints(beam: Beam) -> list[float]:
+    L = beam.length
+    cuts = {0.0, L}
+    for p in beam.plies:
+        if p.ends_at is not None and p.ends_at < L:
+            cuts.add(float(p.ends_at))
+    if beam.support == "four-point":
+        cuts.add(beam.load_spacing / 2.0)
+    return sorted(cuts)
+
+
+def segments(beam: Beam) -> tuple[Segment, ...]:
+    """The beam's constant-laminate segments from root to end, each laminate built once."""
+    cuts = _breakpoints(beam)
+    cache: dict[tuple[int, ...], tuple] = {}
+    out = []
+    for x0, x1 in zip(cuts[:-1], cuts[1:]):
+        mid = 0.5 * (x0 + x1)
+        active = tuple(i for i, p in enumerate(beam.plies) if p.ends_at is None or p.ends_at > mid)
+        if not active:
+            raise InputError(
+                f"[[ply]] ends_at: no ply is left beyond x = {x0 * 1e3:g} mm from the root; at least one ply must run "
+                f"the full length ({beam.length * 1e3:g} mm)"
+            )
+        if active not in cache:
+            lam = laminate([Layer(beam.plies[i].material, beam.plies[i].angle, beam.plies[i].thickness) for i in active])
+            bend = unit_bending(lam, beam.section)
+            if not bend.flexural_compliance > 0:
+                raise InputError("the laminate has no bending stiffness (its compliance d11 is not positive)")
+            cache[active] = (lam, bend, transverse_shear_stiffness(lam), shear_flow(lam, bend))
+        out.append(Segment(x0, x1, active, *cache[active]))
+    return tuple(out)
+
+
+def moment_shear(beam: Beam, x: np.ndarray, m0: float = 0.0) -> tuple[np.ndarray, np.ndarray]:
+    """Bending moment m(x) [N·m per N] and shear force v(x) = −dm/dx [N per N] per unit drive force.
+
+    x : np.ndarray — distance from the root [m] (for the shear force, a point inside a segment)
+    m0 : float — guided support only: the moment the guide puts at the free end [N·m per N]
+
+    Notes
+    -----
+    Roark, 7th ed., Table 8.1: cantilever end load M = F(L − x); simply supported centre load M = F(L/2 − x)/2
+    from mid-span; two loads F/2 at a = (L − s)/2 from the supports: M = F·a/2 between them; fixed-guided:
+    M = F(L − x) − M₀ with M₀ from zero rotation at the guide (M₀ = FL/2 for a uniform beam).
+    """
+    x = np.asarray(x, float)
+    L = beam.span
+    if beam.support == "cantilever":
+        return L - x, np.ones_like(x)
+    if beam.support == "three-point":
+        return (L / 2 - x) / 2, np.full_like(x, 0.5)
+    if beam.support == "four-point":
+        a = (L - beam.load_spacing) / 2
+        inside = x < beam.load_spacing / 2
+        return np.where(inside, a / 2, (L / 2 - x) / 2), np.where(inside, 0.0, 0.5)
+    return (L - x) - m0, np.ones_like(x)
+
+
+def _integral(fun, segs: Sequence[Segment]) -> float:
+    """Σ over segments of ∫ fun(x, seg) dx by adaptive Gauss–Kronrod quadrature (QUADPACK via scipy)."""
+    total = 0.0
+    for seg in segs:
+        value, _ = integrate.quad(lambda x: fun(x, seg), seg.x0, seg.x1, epsabs=0.0, epsrel=1e-11, limit=200)
+        total += value
+    return total
+
+
+def guided_end_moment(beam: Beam, segs: Sequence[Segment]) -> float:
+    """Moment at the guided end per unit drive force, from zero rotation there [N·m per N].
+
+    Notes
+    -----
+    The slope at the guide is ∫ M/(EI) dx = 0 (bending rotation; shear strain does not rotate the section in
+    Timoshenko theory), with M = (L − x) − M₀ and EI = b·Db: M₀ = ∫(L − x)/EI dx / ∫ 1/EI dx. Uniform beam:
+    M₀ = L/2 (Roark, 7th ed., Table 8.1 case 2a).
+    """
+    L = beam.span
+
+    def flex(x, seg):
+        return seg.bending.flexural_compliance / float(beam.width(x))
+
+    return _integral(lambda x, s: (L - x) * flex(x, s), segs) / _integral(flex, segs)
+
+
+@dataclass(frozen=True)
+class BeamResponse:
+    """Every ply's response per unit drive force at every station, and the beam's global figures.
+
+    Shapes: n = stations, p = plies of the design's whole stack, faces = 2 (0 bottom = smaller z, 1 top).
+
+    x : np.ndarray — station distance from the root, shape (n,) [m]; a discontinuity appears twice
+    segment : np.ndarray — index of the segment each station belongs to, shape (n,)
+    width : np.ndarray — width at each station, shape (n,) [m]
+    moment : np.ndarray — bending moment per unit drive force, shape (n,) [N·m per N]
+    shear : np.ndarray — shear force per unit drive force, shape (n,) [N per N]
+    present : np.ndarray — ply present at the station, shape (n, p) bool
+    z : np.ndarray — ply face coordinates in the local laminate, shape (n, p, 2) [m]; 0 where absent
+    strain_12 : np.ndarray — [ε1, ε2, γ12] per unit force, shape (n, p, 2, 3) [1/N]
+    stress_12 : np.ndarray — [σ1, σ2, τ12] per unit force, shape (n, p, 2, 3) [Pa/N]
+    strain_x : np.ndarray — axial strain εx per unit force, shape (n, p, 2) [1/N]
+    tau_xz : np.ndarray — interlaminar shear at the ply faces per unit force, shape (n, p, 2) [Pa/N]
+    tau_xz_peak : np.ndarray — largest |τxz| inside each ply per unit force, shape (n, p) [Pa/N]
+    z_tau_peak : np.ndarray — where that peak is, shape (n, p) [m]
+    curvature : np.ndarray — κx per unit force, shape (n,) [1/(m·N)]
+    thickness : np.ndarray — laminate thickness at each station, shape (n,) [m]
+    compliance : float — load-point deflection per unit drive force, bending + shear [m/N]
+    bending_compliance : float — its bending part [m/N]
+    mass : float — mass of the part between root(s) and end(s) [kg]
+    guided_moment : float — guided support: the end moment per unit force [N·m per N], else 0
+    reference_energy : float — ½·Σ E_x,k V_k per unit strain², for the energy-storage efficiency [J]
+    """
+
+    beam: Beam
+    x: np.ndarray
+    segment: np.ndarray
+    width: np.ndarray
+    moment: np.ndarray
+    shear: np.ndarray
+    present: np.ndarray
+    z: np.ndarray
+    strain_12: np.ndarray
+    stress_12: np.ndarray
+    strain_x: np.ndarray
+    tau_xz: np.ndarray
+    tau_xz_peak: np.ndarray
+    z_tau_peak: np.ndarray
+    curvature: np.ndarray
+    thickness: np.ndarray
+    compliance: float
+    bending_compliance: float
+    mass: float
+    guided_moment: float
+    reference_energy: float
+
+    @property
+    def stiffness(self) -> float:
+        """Drive force per load-point deflection [N/m]."""
+        return 1.0 / self.compliance
+
+
+def _station_positions(beam: Beam, segs: Sequence[Segment]) -> tuple[np.ndarray, np.ndarray]:
+    """About ``beam.stations`` stations over the length, both ends of every segment included."""
+    L = beam.length
+    xs, idx = [], []
+    for k, seg in enumerate(segs):
+        n = max(2, int(np.ceil(beam.stations * (seg.x1 - seg.x0) / L)) + 1)
+        xs.append(np.linspace(seg.x0, seg.x1, n))
+        idx.append(np.full(n, k))
+    return np.concatenate(xs), np.concatenate(idx)
+
+
+def _axial_modulus(layer: Layer) -> float:
+    """Ply modulus along the beam axis, 1/S̄11 with S̄ = Q̄⁻¹ [Pa] (Kaw, 2nd ed., Eq. 2.112 form)."""
+    m = layer.material
+    Qbar = transformed_stiffness(reduced_stiffness(m.E1, m.E2, m.nu12, m.G12), layer.angle)
+    return float(1.0 / np.linalg.inv(Qbar)[0, 0])
+
+
+def respond(beam: Beam) -> BeamResponse:
+    """Build the response map of a beam per unit drive force.
+
+    Each distinct laminate is analysed once (classical laminate theory), then scaled by the local moment
+    per width Mx = −m(x)/b(x) (negative: the first ply, at z = −h/2, in tension under positive drive) and by
+    the local shear force per width.
+    """
+    validate(beam)
+    segs = segments(beam)
+    m0 = guided_end_moment(beam, segs) if beam.support == "guided" else 0.0
+
+    def bend_integrand(x, seg):
+        m, _ = moment_shear(beam, np.array([x]), m0)
+        return float(m[0]) ** 2 * seg.bending.flexural_compliance / float(beam.width(x))
+
+    def shear_integrand(x, seg):
+        _, v = moment_shear(beam, np.array([0.5 * (seg.x0 + seg.x1)]), m0)
+        return float(v[0]) ** 2 / (float(beam.width(x)) * seg.shear_stiffness)
+
+    c_bend = beam.halves * _integral(bend_integrand, segs)
+    c_shear = beam.halves * _integral(shear_integrand, segs)
+
+    x, seg_index = _station_positions(beam, segs)
+    b = beam.width(x)
+    m, _ = moment_shear(beam, x, m0)
+    mids = np.array([0.5 * (s.x0 + s.x1) for s in segs])
+    v = moment_shear(beam, mids, m0)[1][seg_index]
+
+    n, p = x.size, len(beam.plies)
+    present = np.zeros((n, p), bool)
+    z = np.zeros((n, p, 2))
+    strain_12 = np.zeros((n, p, 2, 3))
+    stress_12 = np.zeros((n, p, 2, 3))
+    strain_x = np.zeros((n, p, 2))
+    tau_xz = np.zeros((n, p, 2))
+    tau_peak = np.zeros((n, p))
+    z_peak = np.zeros((n, p))
+    curvature = np.zeros(n)
+    thickness = np.zeros(n)
+    Mx = -m / b  # moment per width per unit drive force [N·m/m per N]
+    Vx = v / b  # shear force per width per unit drive force [N/m per N]
+    for k, seg in enumerate(segs):
+        rows = np.flatnonzero(seg_index == k)
+        cols = np.array(seg.active)
+        field = ply_field(seg.lam, seg.bending.eps0, seg.bending.kappa)
+        r, c = np.ix_(rows, cols)
+        present[r, c] = True
+        z[r, c] = field.z[None]
+        strain_12[r, c] = Mx[rows, None, None, None] * field.strain_12[None]
+        stress_12[r, c] = Mx[rows, None, None, None] * field.stress_12[None]
+        strain_x[r, c] = Mx[rows, None, None] * field.strain_xy[None, :, :, 0]
+        faces = np.stack([seg.shear.tau_interfaces[:-1], seg.shear.tau_interfaces[1:]], axis=1)
+        tau_xz[r, c] = Vx[rows, None, None] * faces[None]
+        tau_peak[r, c] = Vx[rows, None] * seg.shear.tau_peak[None]
+        z_peak[r, c] = seg.shear.z_peak[None]
+        curvature[rows] = Mx[rows] * seg.bending.kappa[0]
+        thickness[rows] = seg.lam.thickness
+
+    # mass and the reference energy ½·E_x·V per unit strain²: b is linear, so ∫b dx = mean width × length
+    mass = 0.0
+    reference = 0.0
+    moduli = {}
+    for seg in segs:
+        area = 0.5 * float(beam.width(seg.x0) + beam.width(seg.x1)) * (seg.x1 - seg.x0)
+        for i in seg.active:
+            ply = beam.plies[i]
+            key = (ply.material.name, ply.angle)
+            if key not in moduli:
+                moduli[key] = _axial_modulus(Layer(ply.material, ply.angle, ply.thickness))
+            mass += ply.material.density * ply.thickness * area
+            reference += 0.5 * moduli[key] * ply.thickness * area
+    mass *= beam.halves
+    reference *= beam.halves
+
+    return BeamResponse(
+        beam=beam,
+        x=x,
+        segment=seg_index,
+        width=b,
+        moment=m,
+        shear=v,
+        present=present,
+        z=z,
+        strain_12=strain_12,
+        stress_12=stress_12,
+        strain_x=strain_x,
+        tau_xz=tau_xz,
+        tau_xz_peak=tau_peak,
+        z_tau_peak=z_peak,
+        curvature=curvature,
+        thickness=thickness,
+        compliance=c_bend + c_shear,
+        bending_compliance=c_bend,
+        mass=mass,
+        guided_moment=m0,
+        reference_energy=reference,
+    )
+
+
+def range_warnings(resp: BeamResponse, peak_force: float) -> list[str]:
+    """Warnings when the peak drive takes the beam past the linear, narrow-beam / plate model.
+
+    peak_force : float — the largest |drive force| of the duty [N]
+
+    Notes
+    -----
+    Small-deflection beam theory: deflection below about 10 % of the span (common practice, as in the
+    ASTM D790 limit of 5 % strain-rate tests). Searle parameter β = b²/(R·h) at the peak curvature 1/R:
+    narrow-beam (free anticlastic) behaviour for β ≲ 1, cylindrical bending for β ≳ 20 (Searle 1908;
+    Ashwell 1950; recalled thresholds).
+    """
+    out = []
+    beam = resp.beam
+    deflection = resp.compliance * abs(peak_force)
+    if deflection > LARGE_DEFLECTION * beam.span:
+        out.append(
+            f"the load-point deflection {deflection * 1e3:.1f} mm passes 10 % of the span ({beam.span * 1e3:.0f} mm): "
+            "linear small-deflection theory no longer holds; stresses and stiffness are estimates only"
+        )
+    kappa = np.abs(resp.curvature) * abs(peak_force)
+    i = int(np.argmax(kappa))
+    if kappa[i] > 0:
+        searle = resp.width[i] ** 2 * kappa[i] / resp.thickness[i]
+        if beam.section == "beam" and searle > SEARLE_PLATE_MIN:
+            out.append(
+                f"Searle parameter b²/(R·h) = {searle:.3g} at x = {resp.x[i] * 1e3:.0f} mm: the section bends like a "
+                'plate (cylindrical bending); consider section = "plate" (stiffer, by 1/(1 − ν12·ν21) for a UD ply)'
+            )
+        elif beam.section == "plate" and searle < SEARLE_BEAM_MAX:
+            out.append(
+                f"Searle parameter b²/(R·h) = {searle:.3g} at x = {resp.x[i] * 1e3:.0f} mm: the section bends like a "
+                'narrow beam (free anticlastic curvature); consider section = "beam"'
+            )
+        elif SEARLE_BEAM_MAX <= searle <= SEARLE_PLATE_MIN:
+            out.append(
+                f"Searle parameter b²/(R·h) = {searle:.3g} at x = {resp.x[i] * 1e3:.0f} mm lies between beam (≲ 1) and "
+                "plate (≳ 20) behaviour: the true bending stiffness lies between the two section models"
+            )
+    return out
+
+
+def core_warnings(beam: Beam) -> list[str]:
+    """A core in a part meant to flex raises stiffness with the square of the face separation and adds a
+    face/core bond-line failure mode (common practice in sandwich design)."""
+    cores = sorted({p.material.name for p in beam.plies if p.material.kind == "core"})
+    if not cores:
+        return []
+    return [
+        f"the stack has a core ({', '.join(cores)}): bending stiffness grows with the square of the face separation, "
+        "so the faces strain more for a given deflection, and the face/core bond line is a further failure mode — "
+        "a core is unwelcome in a part meant to flex; core shear is checked against its shear strength"
+    ]
