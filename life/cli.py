@@ -1,0 +1,110 @@
+"""The ``bendlife`` command: parse arguments, call the library, print. Nothing else lives here.
+
+Exit codes: 0 done; 2 the input is wrong (one message on stderr, no traceback); 1 an internal fault.
+"""
+from __future__ import annotations
+
+import os
+import sys
+import traceback
+from importlib import resources
+from pathlib import Path
+from typing import Optional
+
+import numpy as np
+import typer
+
+from life import terminal
+from life.design import load_design
+from life.errors import InputError as LifeInputError
+from life.estimate import CAUTION, estimate
+from life.outputs import render, write_files
+from mechanics.errors import InputError as MechanicsInputError
+from mechanics.materials import describe, library
+from mechanics.units import unit_factor
+from spectra.counting import merge_identical, rainflow_cycles
+from spectra.errors import InputError as SpectraInputError
+from spectra.profiles import read_time_history
+
+INPUT_ERRORS = (LifeInputError, MechanicsInputError, SpectraInputError)
+EXAMPLE = "cargo-bike-rear-spring.toml"
+
+app = typer.Typer(
+    add_completion=False,
+    no_args_is_help=True,
+    help="Fatigue life and stored energy of flexing composite beams. " + CAUTION,
+)
+
+
+def example_design() -> Path:
+    """Path of the bundled example design (invented demo data)."""
+    return Path(str(resources.files("life") / "examples" / EXAMPLE))
+
+
+@app.command()
+def run(
+    design: Optional[Path] = typer.Argument(None, help="design file (TOML); without it, the bundled example"),
+    out: Path = typer.Option(Path("bendlife-out"), "--out", "-o", help="folder for summary.json, cycles.csv, locations.csv, report.html"),
+) -> None:
+    """Estimate the fatigue life, stiffness, mass and stored energy of a design."""
+    path = design if design is not None else example_design()
+    result = estimate(load_design(path))
+    files = render(result)
+    written = write_files(files, out)
+    typer.echo(terminal.summary_text(result, example=design is None))
+    typer.echo(f"\nwrote {', '.join(p.name for p in written)} to {out}")
+
+
+@app.command()
+def check(design: Path = typer.Argument(..., help="design file (TOML)")) -> None:
+    """Validate a design file without running the estimate."""
+    typer.echo(terminal.design_text(load_design(design)))
+    typer.echo("the design file is valid")
+
+
+@app.command()
+def count(
+    profile: Path = typer.Argument(..., help="time history (CSV)"),
+    column: str = typer.Option(..., "--column", "-c", help="column to count"),
+    unit: str = typer.Option(..., "--unit", "-u", help="unit of that column, e.g. mm, N, lbf"),
+    top: int = typer.Option(25, "--top", help="rows to show, largest ranges first (0: all)"),
+) -> None:
+    """Rainflow-count a time history (ASTM E1049-85) and print the cycle table."""
+    scale = unit_factor(unit, "--unit")
+    history = read_time_history(profile, column, scale, f"{profile}")
+    cycles = merge_identical(rainflow_cycles(history.values))
+    typer.echo(terminal.cycle_text(cycles, unit, scale, top, history.values.size))
+
+
+@app.command()
+def materials(name: Optional[str] = typer.Argument(None, help="a material to show in full")) -> None:
+    """List the bundled materials, or show one with the source of every value."""
+    lib = library()
+    if name is None:
+        typer.echo(terminal.materials_text(lib))
+        return
+    if name not in lib:
+        raise LifeInputError(f"materials: unknown material {name!r}; bundled: {', '.join(sorted(lib))}")
+    typer.echo(describe(lib[name]))
+
+
+def main() -> None:
+    """Console entry point: turn input errors into exit 2 with one message, faults into exit 1."""
+    np.seterr(all="ignore")  # the library handles inf/NaN explicitly; no floating-point chatter on the terminal
+    try:
+        app(standalone_mode=False)
+    except INPUT_ERRORS as exc:
+        typer.echo(f"bendlife: {exc}", err=True)
+        sys.exit(2)
+    except typer.Exit as exc:
+        sys.exit(exc.exit_code)
+    except typer.Abort:
+        sys.exit(1)
+    except typer.TyperException as exc:  # a wrong option or argument
+        typer.echo(f"bendlife: {exc.format_message()}", err=True)
+        sys.exit(exc.exit_code)
+    except Exception as exc:
+        typer.echo(f"bendlife: internal fault: {type(exc).__name__}: {exc}", err=True)
+        if os.environ.get("BENDLIFE_DEBUG"):
+            traceback.print_exc()
+        sys.exit(1)

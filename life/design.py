@@ -1,0 +1,295 @@
+"""The design file (TOML, DESIGN.md "Design file v1"): read, convert units, validate, build a Design.
+
+Every dimensional value is a string with its unit (pint, ``mechanics.units``); a missing unit, an unknown
+key, a wrong type or an impossible value is an ``InputError`` naming the file, the key (and row) and what
+would be right. Nothing is guessed.
+"""
+from __future__ import annotations
+
+import difflib
+import tomllib
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any, Mapping
+
+import numpy as np
+
+from life.errors import InputError
+from life.meanstress import RULES
+from mechanics import errors as mechanics_errors
+from mechanics.beam import DEFAULT_STATIONS, SUPPORTS, Beam, Ply, validate
+from mechanics.energy import DRIVES
+from mechanics.laminate import SECTIONS
+from mechanics.materials import Material, resolve_materials
+from mechanics.units import parse_quantity, unit_factor
+from spectra import errors as spectra_errors
+from spectra.counting import Cycles, rainflow_cycles
+from spectra.profiles import block_table, bundled_profile, read_time_history
+
+BUNDLED_PREFIX = "bundled:"  # profile = "bundled:NAME" reads a demo profile shipped with bendlife
+
+TOP_KEYS = {"title", "beam", "ply", "duty", "fatigue", "material"}
+BEAM_KEYS = {"support", "span", "width", "load_spacing", "section", "stations"}
+PLY_KEYS = {"material", "angle", "thickness", "count", "ends_at"}
+DUTY_KEYS = {"drive", "profile", "column", "unit", "cycles", "blocks_per_day"}
+FATIGUE_KEYS = {"mean_stress", "miner_limit", "stress_factor"}
+CYCLE_KEYS = {"min", "max", "count"}
+
+
+@dataclass(frozen=True)
+class Duty:
+    """The drive at the load point over one block of the duty.
+
+    drive : str — ``"force"`` or ``"deflection"``
+    cycles : Cycles — counted (time history) or tabulated cycles [N or m]
+    source : str — where they came from, for reports
+    signal : np.ndarray | None — the time history in SI, when one was given [N or m]
+    blocks_per_day : float | None — repeats of the whole duty per day [1/day]
+    """
+
+    drive: str
+    cycles: Cycles
+    source: str
+    signal: np.ndarray | None
+    blocks_per_day: float | None
+
+    @property
+    def extremes(self) -> tuple[float, float]:
+        """Smallest and largest drive of the duty [N or m]."""
+        return float(self.cycles.lo.min()), float(self.cycles.hi.max())
+
+
+@dataclass(frozen=True)
+class Design:
+    """A validated design, SI throughout.
+
+    title : str; path : Path | None — the design file
+    beam : Beam — the part, stack expanded (each repeat of ``count`` its own ply, numbered from 1 at the tension face)
+    duty : Duty
+    mean_stress : str — one of life.meanstress.RULES
+    miner_limit : float — Miner sum taken as failure [-]
+    stress_factor : float — partial factor on every local stress and strain [-]
+    materials : dict[str, Material] — the materials the stack uses
+    document : dict — the parsed TOML as read (for writing modified designs)
+    """
+
+    title: str
+    path: Path | None
+    beam: Beam
+    duty: Duty
+    mean_stress: str
+    miner_limit: float
+    stress_factor: float
+    materials: dict[str, Material]
+    document: dict = field(repr=False)
+
+
+def _unknown(table: Mapping, allowed: set, where: str) -> None:
+    for key in table:
+        if key not in allowed:
+            close = difflib.get_close_matches(str(key), sorted(allowed), n=1)
+            hint = f"; did you mean {close[0]!r}?" if close else f"; allowed: {', '.join(sorted(allowed))}"
+            raise InputError(f"{where}: unknown key {key!r}{hint}")
+
+
+def _table(doc: Mapping, key: str, where: str, required: bool = True) -> Mapping:
+    value = doc.get(key)
+    if value is None:
+        if required:
+            raise InputError(f"{where}: missing table [{key}]")
+        return {}
+    if not isinstance(value, Mapping):
+        raise InputError(f"{where}: [{key}] must be a table, got {type(value).__name__}")
+    return value
+
+
+def _require(table: Mapping, key: str, where: str) -> Any:
+    if key not in table:
+        raise InputError(f"{where}: missing key {key!r}")
+    return table[key]
+
+
+def _number(value: Any, where: str, positive: bool = True) -> float:
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        raise InputError(f"{where}: must be a bare number, got {value!r}")
+    value = float(value)
+    if not np.isfinite(value) or (positive and value <= 0):
+        raise InputError(f"{where}: must be a finite number > 0, got {value!r}")
+    return value
+
+
+def _choice(value: Any, choices: tuple, where: str) -> str:
+    if value not in choices:
+        raise InputError(f"{where}: must be one of {', '.join(map(repr, choices))}, got {value!r}")
+    return value
+
+
+def _beam(doc: Mapping, plies: tuple[Ply, ...], name: str) -> Beam:
+    t = _table(doc, "beam", name)
+    _unknown(t, BEAM_KEYS, f"{name} [beam]")
+    support = _choice(_require(t, "support", f"{name} [beam]"), SUPPORTS, f"{name} [beam] support")
+    span = parse_quantity(_require(t, "span", f"{name} [beam]"), "length", f"{name} [beam] span")
+    width = _require(t, "width", f"{name} [beam]")
+    if isinstance(width, Mapping):
+        _unknown(width, {"root", "tip"}, f"{name} [beam] width")
+        root = parse_quantity(_require(width, "root", f"{name} [beam] width"), "length", f"{name} [beam] width.root")
+        tip = parse_quantity(_require(width, "tip", f"{name} [beam] width"), "length", f"{name} [beam] width.tip")
+    else:
+        root = tip = parse_quantity(width, "length", f"{name} [beam] width")
+    spacing = t.get("load_spacing")
+    spacing = None if spacing is None else parse_quantity(spacing, "length", f"{name} [beam] load_spacing")
+    section = _choice(t.get("section", "beam"), SECTIONS, f"{name} [beam] section")
+    stations = t.get("stations", DEFAULT_STATIONS)
+    if isinstance(stations, bool) or not isinstance(stations, int) or not 2 <= stations <= 2000:
+        raise InputError(f"{name} [beam] stations: must be a whole number from 2 to 2000, got {stations!r}")
+    beam = Beam(support, span, root, tip, plies, spacing, section, stations)
+    try:
+        validate(beam)
+    except mechanics_errors.InputError as exc:
+        raise InputError(f"{name} {exc}") from None
+    for k, p in enumerate(plies, start=1):
+        if p.ends_at is not None and p.ends_at > beam.length * (1 + 1e-12):
+            raise InputError(
+                f"{name} [[ply]] ply {k}: ends_at = {p.ends_at * 1e3:g} mm lies beyond the beam's "
+                f"{beam.length * 1e3:g} mm from the root; leave ends_at out for a full-length ply"
+            )
+    return beam
+
+
+def _plies(doc: Mapping, materials: Mapping[str, Material], name: str) -> tuple[Ply, ...]:
+    rows = doc.get("ply")
+    if not rows:
+        raise InputError(f"{name}: no [[ply]] given; list the plies from the tension face to the other face")
+    if not isinstance(rows, list):
+        raise InputError(f"{name}: [[ply]] must be an array of tables (write [[ply]] for every ply)")
+    out: list[Ply] = []
+    for row_no, row in enumerate(rows, start=1):
+        where = f"{name} [[ply]] #{row_no}"
+        if not isinstance(row, Mapping):
+            raise InputError(f"{where}: must be a table")
+        _unknown(row, PLY_KEYS, where)
+        mat_name = _require(row, "material", where)
+        if mat_name not in materials:
+            close = difflib.get_close_matches(str(mat_name), sorted(materials), n=1)
+            hint = f"did you mean {close[0]!r}?" if close else "see `bendlife materials`"
+            raise InputError(f"{where} material: unknown material {mat_name!r}; {hint}")
+        mat = materials[mat_name]
+        angle = row.get("angle", 0)
+        if isinstance(angle, bool) or not isinstance(angle, (int, float)) or not -90 <= angle <= 180:
+            raise InputError(f"{where} angle: a fibre angle in degrees as a bare number (-90 … 180), got {angle!r}")
+        if "thickness" in row:
+            thickness = parse_quantity(row["thickness"], "length", f"{where} thickness")
+        elif mat.thickness is not None:
+            thickness = mat.thickness
+        else:
+            raise InputError(f"{where}: missing key 'thickness' (material {mat_name!r} has no nominal ply thickness)")
+        if not thickness > 0:
+            raise InputError(f"{where} thickness: must be > 0 [m], got {row.get('thickness')!r}")
+        count = row.get("count", 1)
+        if isinstance(count, bool) or not isinstance(count, int) or count < 1:
+            raise InputError(f"{where} count: must be a whole number >= 1, got {count!r}")
+        ends_at = row.get("ends_at")
+        if ends_at is not None:
+            ends_at = parse_quantity(ends_at, "length", f"{where} ends_at")
+            if not ends_at > 0:
+                raise InputError(f"{where} ends_at: must be > 0 [m] from the root, got {row['ends_at']!r}")
+        out.extend(Ply(mat, float(angle), thickness, ends_at) for _ in range(count))
+    return tuple(out)
+
+
+def _duty(doc: Mapping, name: str, base_dir: Path) -> Duty:
+    t = _table(doc, "duty", name)
+    where = f"{name} [duty]"
+    _unknown(t, DUTY_KEYS, where)
+    drive = _choice(_require(t, "drive", where), DRIVES, f"{where} drive")
+    kind = "length" if drive == "deflection" else "force"
+    has_profile, has_cycles = "profile" in t, "cycles" in t
+    if has_profile == has_cycles:
+        raise InputError(f"{where}: give exactly one of 'profile' (a time history) or 'cycles' (a block table)")
+    per_day = t.get("blocks_per_day")
+    per_day = None if per_day is None else _number(per_day, f"{where} blocks_per_day")
+    try:
+        if has_profile:
+            profile = _require(t, "profile", where)
+            if not isinstance(profile, str):
+                raise InputError(f"{where} profile: a file path as a string, got {profile!r}")
+            column = _require(t, "column", where)
+            unit = _require(t, "unit", where)
+            if not isinstance(unit, str):
+                raise InputError(f"{where} unit: the unit of column {column!r} as a string, e.g. \"mm\"")
+            # the unit must be of the drive's kind: check it through a one-unit quantity
+            parse_quantity(f"1 {unit}", kind, f"{where} unit")
+            scale = unit_factor(unit, f"{where} unit")
+            if profile.startswith(BUNDLED_PREFIX):
+                path = bundled_profile(profile[len(BUNDLED_PREFIX):])
+            else:
+                path = (base_dir / profile).resolve()
+            history = read_time_history(path, str(column), scale, f"{where} profile")
+            cycles = rainflow_cycles(history.values)
+            source = f"time history {profile} column {column!r} [{unit}], {history.values.size} samples"
+            signal = history.values
+        else:
+            rows = t["cycles"]
+            if not isinstance(rows, list) or not rows:
+                raise InputError(f"{where} cycles: a list of {{ min, max, count }} tables, e.g. "
+                                 "cycles = [ { min = \"5 mm\", max = \"40 mm\", count = 1000 } ]")
+            parsed = []
+            for k, row in enumerate(rows, start=1):
+                rw = f"{where} cycles row {k}"
+                if not isinstance(row, Mapping):
+                    raise InputError(f"{rw}: must be a table {{ min, max, count }}")
+                _unknown(row, CYCLE_KEYS, rw)
+                lo = parse_quantity(_require(row, "min", rw), kind, f"{rw} min")
+                hi = parse_quantity(_require(row, "max", rw), kind, f"{rw} max")
+                parsed.append((lo, hi, _number(_require(row, "count", rw), f"{rw} count")))
+            cycles = block_table(parsed, f"{where} cycles")
+            source = f"block table, {len(rows)} rows"
+            signal = None
+    except (mechanics_errors.InputError, spectra_errors.InputError) as exc:
+        raise InputError(str(exc)) from None
+    if cycles.lo.size == 0 or (np.abs(cycles.lo).max() == 0 and np.abs(cycles.hi).max() == 0):
+        raise InputError(f"{where}: the duty never loads the part (no cycles, or every drive is zero)")
+    return Duty(drive, cycles, source, signal, per_day)
+
+
+def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = None) -> Design:
+    """Build a Design from a parsed TOML document.
+
+    name : str — the file name used in messages
+    base_dir : Path — folder that relative profile paths start from
+    """
+    _unknown(doc, TOP_KEYS, name)
+    title = doc.get("title", "untitled design")
+    if not isinstance(title, str):
+        raise InputError(f"{name} title: must be a string, got {title!r}")
+    user = _table(doc, "material", name, required=False)
+    try:
+        materials = resolve_materials(user, f"{name} [material]")
+    except mechanics_errors.InputError as exc:
+        raise InputError(str(exc)) from None
+    plies = _plies(doc, materials, name)
+    beam = _beam(doc, plies, name)
+    duty = _duty(doc, name, base_dir)
+    fat = _table(doc, "fatigue", name, required=False)
+    _unknown(fat, FATIGUE_KEYS, f"{name} [fatigue]")
+    rule = _choice(fat.get("mean_stress", "goodman"), RULES, f"{name} [fatigue] mean_stress")
+    miner = _number(fat.get("miner_limit", 1.0), f"{name} [fatigue] miner_limit")
+    factor = _number(fat.get("stress_factor", 1.0), f"{name} [fatigue] stress_factor")
+    if factor < 1.0:
+        raise InputError(f"{name} [fatigue] stress_factor: a partial factor is >= 1, got {factor:g}")
+    used = {p.material.name: p.material for p in plies}
+    return Design(title, path, beam, duty, rule, miner, factor, used, dict(doc))
+
+
+def load_design(path: Path) -> Design:
+    """Read and validate a design file."""
+    path = Path(path)
+    if not path.is_file():
+        raise InputError(f"{path}: no such design file")
+    try:
+        doc = tomllib.loads(path.read_text(encoding="utf-8"))
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(f"{path.name}: not valid TOML ({exc})") from None
+    except UnicodeDecodeError:
+        raise InputError(f"{path.name}: not a UTF-8 text file") from None
+    return parse_design(doc, path.name, path.parent, path)

@@ -1,0 +1,253 @@
+"""The life estimate: design → response map → counted cycles → damage → LifeResult.
+
+The one orchestrator of bendlife (DESIGN.md, data flow). Mechanics gives every location's response per
+unit drive force; the duty's cycles are counted once; ``life.damage`` maps each cycle's extremes to every
+location; Miner's sum per block gives the life; mechanics gives stiffness, mass, static reserve and energy.
+"""
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, fields, replace
+
+import numpy as np
+
+from life.damage import FACES, DamageResult, Locations, build_models, locations, miner_damage
+from life.design import Design
+from mechanics.beam import BeamResponse, core_warnings, range_warnings, respond
+from mechanics.energy import StorageFigures, cycle_energy, force_per_drive, storage_figures
+from mechanics.strength import interlaminar_reserve, max_stress_reserve, strengths_of, tsai_wu_reserve
+
+CAUTION = (
+    "Estimates, not certification: confirm by fatigue tests of prototypes, apply environmental knock-downs "
+    "(moisture, temperature, UV), and let local codes and licensed engineering practice decide. "
+    "A flexing part that fails releases its stored energy suddenly."
+)
+
+
+@dataclass(frozen=True)
+class Critical:
+    """Where the part fails first.
+
+    x_m : float — distance from the root [m]
+    ply : int — the ply's number in the whole stack, 1-based from the tension face
+    z_m : float — through-thickness position in the local laminate, from its mid-plane [m]
+    mode : str — failure mode (fibre-tension, fibre-compression, transverse, shear, interlaminar, core-shear)
+    face : str — bottom (toward ply 1), top, or interior
+    station : int — station index
+    """
+
+    x_m: float
+    ply: int
+    z_m: float
+    mode: str
+    face: str
+    station: int
+
+
+@dataclass(frozen=True)
+class StaticCheck:
+    """First-ply-failure reserve at the extremes of the duty.
+
+    reserve : float — smallest reserve factor (load multiplier to first failure) [-]
+    criterion : str — which check gives it (max-stress, Tsai-Wu, interlaminar)
+    drive : float — the duty extreme it occurs at [N or m]
+    x_m : float; ply : int — where [m], 1-based ply number
+    by_criterion : dict[str, float] — the smallest reserve of each criterion
+    """
+
+    reserve: float
+    criterion: str
+    drive: float
+    x_m: float
+    ply: int
+    by_criterion: dict
+
+
+@dataclass(frozen=True)
+class LifeResult:
+    """Everything an estimate gives; ``summary()`` is the summary.json contract."""
+
+    design: Design
+    response: BeamResponse
+    locations: Locations
+    damage: DamageResult
+    life_cycles: float | None
+    life_blocks: float | None
+    life_days: float | None
+    damage_per_block: float
+    life_unbounded: bool
+    critical: Critical
+    static: StaticCheck
+    storage: StorageFigures
+    peak_strain: float
+    cycle_energy: float
+    force_per_drive: float
+    warnings: tuple[str, ...]
+
+    def summary(self) -> dict:
+        """The summary.json object (DESIGN.md, outputs contract): SI numbers, strict JSON."""
+        d, r = self.design, self.response
+        c = self.critical
+        return {
+            "title": d.title,
+            "life_cycles": _finite(self.life_cycles),
+            "life_blocks": _finite(self.life_blocks),
+            "life_days": _finite(self.life_days),
+            "life_unbounded": self.life_unbounded,
+            "damage_per_block": _finite(self.damage_per_block),
+            "critical": {"x_m": c.x_m, "ply": c.ply, "z_m": c.z_m, "mode": c.mode, "face": c.face},
+            "stiffness_n_per_m": r.stiffness,
+            "mass_kg": r.mass,
+            "peak_strain": self.peak_strain,
+            "peak_energy_j": self.storage.energy,
+            "cycle_energy_j": self.cycle_energy,
+            "specific_energy_j_per_kg": self.storage.specific_energy,
+            "energy_efficiency": self.storage.efficiency,
+            "static_reserve": _finite(self.static.reserve),
+            "static_criterion": self.static.criterion,
+            "static_reserve_by_criterion": {k: _finite(v) for k, v in self.static.by_criterion.items()},
+            "drive": d.duty.drive,
+            "support": d.beam.support,
+            "cycles_per_block": float(d.duty.cycles.n_total),
+            "blocks_per_day": d.duty.blocks_per_day,
+            "mean_stress": d.mean_stress,
+            "miner_limit": d.miner_limit,
+            "stress_factor": d.stress_factor,
+            "warnings": list(self.warnings),
+            "caution": CAUTION,
+        }
+
+
+def _finite(value: float | None) -> float | None:
+    """Strict JSON has no NaN or Infinity: an unbounded figure is written as null."""
+    if value is None or not math.isfinite(value):
+        return None
+    return float(value)
+
+
+def _static_check(design: Design, resp: BeamResponse, fpd: float) -> tuple[StaticCheck, list[str]]:
+    """Max-stress, Tsai-Wu and interlaminar reserves at both extremes of the duty."""
+    plies = design.beam.plies
+    strengths = strengths_of([p.material for p in plies])  # arrays of shape (p,)
+    # a ply without S13 is not checked for interlaminar shear (an infinite strength; the note says so)
+    s13 = np.array([np.inf if p.material.S13 is None else p.material.S13 for p in plies])
+    notes = []
+    missing = sorted({p.material.name for p in plies if p.material.S13 is None})
+    if missing:
+        notes.append(f"no interlaminar strength S13 for {', '.join(missing)}: interlaminar shear not checked there")
+    best = None
+    by = {"max-stress": math.inf, "Tsai-Wu": math.inf, "interlaminar": math.inf}
+    for drive in design.duty.extremes:
+        force = drive * fpd * design.stress_factor
+        if force == 0.0:
+            continue
+        stress = resp.stress_12 * force  # (n, p, 2, 3)
+        per = {
+            "max-stress": max_stress_reserve(stress, _expand(strengths)).factor,
+            "Tsai-Wu": tsai_wu_reserve(stress, _expand(strengths)),
+        }
+        tau = np.concatenate([resp.tau_xz, resp.tau_xz_peak[..., None]], axis=2) * force  # (n, p, 3)
+        per["interlaminar"] = interlaminar_reserve(np.abs(tau), np.broadcast_to(s13[None, :, None], tau.shape))
+        for name, factor in per.items():
+            factor = np.where(resp.present[..., None], factor, np.inf)
+            k = np.unravel_index(int(np.argmin(factor)), factor.shape)
+            value = float(factor[k])
+            by[name] = min(by[name], value)
+            if best is None or value < best.reserve:
+                best = StaticCheck(value, name, drive, float(resp.x[k[0]]), int(k[1]) + 1, {})
+    assert best is not None  # the loader rejects a duty that never loads the part
+    check = StaticCheck(best.reserve, best.criterion, best.drive, best.x_m, best.ply, by)
+    if check.reserve < 1.0:
+        notes.append(
+            f"static strength exceeded: reserve {check.reserve:.2f} ({check.criterion}) at x = {check.x_m * 1e3:.0f} mm, "
+            f"ply {check.ply}, at the duty extreme {check.drive:g} (SI)"
+        )
+    return check, notes
+
+
+def _expand(s):
+    """Strength arrays of shape (p,) broadcast over (n, p, 2)."""
+    return replace(s, **{f.name: np.asarray(getattr(s, f.name))[None, :, None] for f in fields(s)})
+
+
+def estimate(design: Design) -> LifeResult:
+    """Run the whole estimate for a validated design."""
+    beam = design.beam
+    resp = respond(beam)
+    fpd = force_per_drive(resp.compliance, design.duty.drive)
+    cycles = design.duty.cycles
+    lo, hi = design.duty.extremes
+    dominant = 1.0 if abs(hi) >= abs(lo) else -1.0
+    peak_drive = max(abs(lo), abs(hi))
+    peak_force = peak_drive * fpd
+
+    models = build_models(list(design.materials.values()), design.mean_stress)
+    locs = locations(resp, models, dominant)
+    dmg = miner_damage(locs, cycles, fpd, design.stress_factor)
+    static, static_notes = _static_check(design, resp, fpd)
+
+    warnings = list(range_warnings(resp, peak_force)) + core_warnings(beam) + list(models.warnings) + static_notes
+    failed = bool(dmg.static_failure.any())
+    d_block = float(dmg.damage.max()) if dmg.damage.size else 0.0
+    if failed:
+        k = int(np.argmax(np.where(dmg.static_failure, dmg.amplitude + np.abs(dmg.mean), -np.inf)))
+        life_blocks = life_cycles = 0.0
+        life_days = 0.0 if design.duty.blocks_per_day else None
+        unbounded = False
+        warnings.append(
+            f"a cycle of the duty exceeds the static strength ({locs.mode[k]}, ply {locs.ply[k] + 1}, "
+            f"x = {resp.x[locs.station[k]] * 1e3:.0f} mm): life is zero"
+        )
+    elif d_block > 0:
+        k = int(np.argmax(dmg.damage))
+        life_blocks = design.miner_limit / d_block
+        life_cycles = life_blocks * float(cycles.n_total)
+        life_days = life_blocks / design.duty.blocks_per_day if design.duty.blocks_per_day else None
+        unbounded = False
+    else:
+        # no cycle does damage: name the most utilised fatigue-checked location (largest local amplitude
+        # relative to its static strength in the curve's basis)
+        k = _most_utilised(locs, dmg)
+        life_blocks = life_cycles = life_days = None
+        unbounded = True
+        warnings.append("no counted cycle does fatigue damage (all below the fatigue limits): life unbounded")
+
+    critical = Critical(
+        x_m=float(resp.x[locs.station[k]]),
+        ply=int(locs.ply[k]) + 1,
+        z_m=float(locs.z[k]),
+        mode=str(locs.mode[k]),
+        face=FACES[int(locs.face[k])],
+        station=int(locs.station[k]),
+    )
+    storage = storage_figures(resp, peak_force)
+    peak_strain = float(np.abs(resp.strain_12[..., 0]).max()) * peak_force
+    big = int(np.lexsort((cycles.hi, cycles.hi - cycles.lo))[-1])
+    e_cycle = float(cycle_energy(resp.compliance, cycles.lo[big] * fpd, cycles.hi[big] * fpd))
+    return LifeResult(
+        design=design,
+        response=resp,
+        locations=locs,
+        damage=dmg,
+        life_cycles=life_cycles,
+        life_blocks=life_blocks,
+        life_days=life_days,
+        damage_per_block=d_block,
+        life_unbounded=unbounded,
+        critical=critical,
+        static=static,
+        storage=storage,
+        peak_strain=peak_strain,
+        cycle_energy=e_cycle,
+        force_per_drive=fpd,
+        warnings=tuple(dict.fromkeys(warnings)),
+    )
+
+
+def _most_utilised(locs: Locations, dmg: DamageResult) -> int:
+    """Location with the largest amplitude relative to its model's strengths (fatigue-checked ones first)."""
+    ratio = np.zeros(locs.response.size)
+    for m, model in enumerate(locs.models):
+        rows = locs.model == m
+        ratio[rows] = (dmg.amplitude[rows] + np.abs(dmg.mean[rows])) / min(model.Xt, model.Xc)
+    return int(np.argmax(ratio))

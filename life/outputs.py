@@ -1,0 +1,114 @@
+"""Output files of a run (DESIGN.md, outputs contract): summary.json, cycles.csv, locations.csv, report.html.
+
+Every file is rendered in memory first, then written beside its final name and moved into place, so a
+failing run leaves the output folder as it was.
+"""
+from __future__ import annotations
+
+import io
+import json
+import os
+import tempfile
+from pathlib import Path
+from typing import Mapping
+
+import numpy as np
+import pandas as pd
+
+from life.damage import FACES
+from life.errors import InputError
+from life.estimate import LifeResult
+from life.report import report_html
+from mechanics.energy import cycle_energy
+from spectra.counting import Cycles, merge_identical
+
+MAX_CYCLE_ROWS = 20_000  # beyond this many distinct cycles, cycles.csv holds them binned (said in the report)
+BIN_RESOLUTION = 1e-4  # bin width as a fraction of the largest |drive| when binning
+
+
+def cycle_table(result: LifeResult) -> tuple[pd.DataFrame, str]:
+    """Counted drive cycles, identical ones merged; binned at scale. Returns the table and a note on its form."""
+    cycles: Cycles = merge_identical(result.design.duty.cycles)
+    note = f"{cycles.lo.size} distinct cycles, identical cycles merged"
+    if cycles.lo.size > MAX_CYCLE_ROWS:
+        peak = float(max(np.abs(cycles.lo).max(), np.abs(cycles.hi).max()))
+        width = BIN_RESOLUTION * peak
+        binned = Cycles(np.round(cycles.lo / width) * width, np.round(cycles.hi / width) * width, cycles.count)
+        cycles = merge_identical(binned)
+        note = (
+            f"{cycles.lo.size} binned cycles: min and max rounded to {width:.3g} (SI), "
+            f"1e-4 of the largest drive, as the duty has more than {MAX_CYCLE_ROWS} distinct cycles"
+        )
+    fpd = result.force_per_drive
+    energy = cycle_energy(result.response.compliance, cycles.lo * fpd, cycles.hi * fpd)
+    table = pd.DataFrame({"min": cycles.lo, "max": cycles.hi, "count": cycles.count, "energy_j": energy})
+    return table, note
+
+
+def location_table(result: LifeResult) -> pd.DataFrame:
+    """Damage per block at every location (station, ply, face, mode)."""
+    locs, dmg, resp = result.locations, result.damage, result.response
+    plies = result.design.beam.plies
+    basis = np.array(
+        ["none" if m < 0 else locs.models[m].curves[0].basis for m in locs.model], dtype=object
+    )
+    with np.errstate(divide="ignore"):
+        life = np.where(dmg.damage > 0, result.design.miner_limit / np.where(dmg.damage > 0, dmg.damage, 1.0), np.nan)
+    table = pd.DataFrame(
+        {
+            "station": locs.station,
+            "x_m": resp.x[locs.station],
+            "ply": locs.ply + 1,
+            "material": [plies[i].material.name for i in locs.ply],
+            "angle_deg": [plies[i].angle for i in locs.ply],
+            "face": [FACES[i] for i in locs.face],
+            "z_m": locs.z,
+            "mode": locs.mode,
+            "basis": basis,
+            "amplitude": dmg.amplitude,
+            "mean": dmg.mean,
+            "damage_per_block": dmg.damage,
+            "life_blocks": life,
+        }
+    )
+    return table.sort_values(["station", "ply", "face", "mode"], kind="stable").reset_index(drop=True)
+
+
+def render(result: LifeResult) -> dict[str, str]:
+    """All output files as text, keyed by file name."""
+    cycles, note = cycle_table(result)
+    summary = result.summary()
+    summary["cycles_csv"] = note
+    locations = location_table(result)
+    files = {
+        "summary.json": json.dumps(summary, indent=2, allow_nan=False) + "\n",
+        "cycles.csv": cycles.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
+        "locations.csv": locations.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
+    }
+    files["report.html"] = report_html(result, cycles, note, locations)
+    return files
+
+
+def write_files(files: Mapping[str, str], out: Path) -> list[Path]:
+    """Write rendered files into ``out`` (created if absent), each replaced whole or not at all."""
+    out = Path(out)
+    if out.exists() and not out.is_dir():
+        raise InputError(f"--out {out}: exists and is not a folder")
+    staged: list[tuple[str, Path]] = []
+    try:
+        out.mkdir(parents=True, exist_ok=True)
+        for name, text in files.items():
+            fd, tmp = tempfile.mkstemp(prefix=f".{name}.", dir=out)
+            with io.open(fd, "w", encoding="utf-8", newline="") as fh:
+                fh.write(text)
+            staged.append((tmp, out / name))
+    except OSError as exc:
+        for tmp, _ in staged:
+            Path(tmp).unlink(missing_ok=True)
+        raise InputError(f"--out {out}: cannot write there ({exc.strerror})") from None
+    umask = os.umask(0)
+    os.umask(umask)
+    for tmp, final in staged:
+        os.chmod(tmp, 0o666 & ~umask)  # mkstemp makes private files; outputs get the usual permissions
+        os.replace(tmp, final)
+    return [final for _, final in staged]

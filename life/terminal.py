@@ -1,0 +1,92 @@
+"""Plain-text views for the terminal: the run summary, a design, a cycle table, the material list."""
+from __future__ import annotations
+
+from typing import Mapping
+
+import numpy as np
+
+from life.design import Design
+from life.estimate import CAUTION, LifeResult
+from mechanics.materials import Material
+from spectra.counting import Cycles
+
+
+def _life(value: float | None, unit: str) -> str:
+    if value is None:
+        return "unbounded (no damaging cycle)"
+    if value == 0:
+        return f"0 {unit} (fails at first loading)"
+    return f"{value:.3g} {unit}"
+
+
+def summary_text(result: LifeResult, example: bool = False) -> str:
+    """The run summary: life, critical place and mode, stiffness, mass, energies, static reserve, warnings."""
+    d, c, s = result.design, result.critical, result.summary()
+    unit = "m" if d.duty.drive == "deflection" else "N"
+    lines = [f"bendlife — {d.title}" + ("  [bundled example, invented demo data]" if example else "")]
+    lines.append(f"  part        {d.beam.support}, span {d.beam.span * 1e3:.0f} mm, {len(d.beam.plies)} plies, "
+                 f"section {d.beam.section}")
+    lines.append(f"  duty        {d.duty.source}; {d.duty.cycles.n_total:g} cycles per block, drive {d.duty.drive} [{unit}]")
+    lines.append("")
+    lines.append(f"  life        {_life(result.life_cycles, 'cycles')}")
+    lines.append(f"              {_life(result.life_blocks, 'blocks of the duty')}")
+    if d.duty.blocks_per_day:
+        lines.append(f"              {_life(result.life_days, 'days')} at {d.duty.blocks_per_day:g} blocks per day")
+    lines.append(f"  damage      {result.damage_per_block:.3g} per block (Miner limit {d.miner_limit:g}, "
+                 f"mean stress {d.mean_stress}, stress factor {d.stress_factor:g})")
+    lines.append(f"  critical    {c.mode} in ply {c.ply} ({d.beam.plies[c.ply - 1].material.name}, "
+                 f"{d.beam.plies[c.ply - 1].angle:g}°), {c.face} face, x = {c.x_m * 1e3:.1f} mm from the root, "
+                 f"z = {c.z_m * 1e3:+.2f} mm")
+    lines.append(f"  stiffness   {s['stiffness_n_per_m'] / 1e3:.4g} N/mm at the load point")
+    lines.append(f"  mass        {s['mass_kg'] * 1e3:.4g} g")
+    lines.append(f"  peak strain {s['peak_strain'] * 100:.3g} % along the fibres")
+    lines.append(f"  energy      {s['peak_energy_j']:.4g} J at peak drive, {s['cycle_energy_j']:.4g} J in the largest cycle, "
+                 f"{s['specific_energy_j_per_kg']:.4g} J/kg, storage efficiency {s['energy_efficiency']:.3f}")
+    reserve = s["static_reserve"]
+    lines.append(f"  static      reserve factor {reserve:.3g} ({result.static.criterion}) at x = "
+                 f"{result.static.x_m * 1e3:.0f} mm, ply {result.static.ply}")
+    if result.warnings:
+        lines.append("")
+        lines.append("warnings:")
+        lines.extend(f"  - {w}" for w in result.warnings)
+    lines.append("")
+    lines.append("caution: " + CAUTION)
+    return "\n".join(lines)
+
+
+def design_text(design: Design) -> str:
+    """A short account of a validated design."""
+    b = design.beam
+    width = (f"{b.width_root * 1e3:g} mm" if b.width_root == b.width_tip
+             else f"{b.width_root * 1e3:g} → {b.width_tip * 1e3:g} mm")
+    lines = [f"{design.title}", f"  {b.support}, span {b.span * 1e3:g} mm, width {width}, section {b.section}"]
+    for k, p in enumerate(b.plies, start=1):
+        drop = f", ends at {p.ends_at * 1e3:g} mm" if p.ends_at is not None else ""
+        lines.append(f"  ply {k:3d}  {p.material.name:20s} {p.angle:6.1f}°  {p.thickness * 1e3:.3f} mm{drop}")
+    lines.append(f"  duty: {design.duty.source}, {design.duty.cycles.n_total:g} cycles per block")
+    return "\n".join(lines)
+
+
+def cycle_text(cycles: Cycles, unit: str, scale: float, top: int, samples: int) -> str:
+    """Rainflow table in the user's unit, largest ranges first."""
+    order = np.argsort(-(cycles.hi - cycles.lo), kind="stable")
+    if top:
+        order = order[:top]
+    lines = [f"{samples} samples, {cycles.n_total:g} cycles ({cycles.lo.size} distinct), ASTM E1049-85 rainflow",
+             f"{'range':>12s} {'mean':>12s} {'min':>12s} {'max':>12s} {'count':>8s}   [{unit}]"]
+    for i in order:
+        lo, hi = cycles.lo[i] / scale, cycles.hi[i] / scale
+        lines.append(f"{hi - lo:12.5g} {(hi + lo) / 2:12.5g} {lo:12.5g} {hi:12.5g} {cycles.count[i]:8g}")
+    if top and cycles.lo.size > top:
+        lines.append(f"… {cycles.lo.size - top} more (--top 0 shows all)")
+    return "\n".join(lines)
+
+
+def materials_text(lib: Mapping[str, Material]) -> str:
+    """One line per bundled material."""
+    lines = [f"{'name':20s} {'kind':5s} {'E1 GPa':>7s} {'Xt MPa':>7s} {'rho':>6s}  description"]
+    for name in sorted(lib):
+        m = lib[name]
+        lines.append(f"{name:20s} {m.kind:5s} {m.E1 / 1e9:7.1f} {m.Xt / 1e6:7.0f} {m.density:6.0f}  {m.description}")
+    lines.append("\n`bendlife materials NAME` shows every value with its source.")
+    return "\n".join(lines)

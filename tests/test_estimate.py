@@ -1,0 +1,117 @@
+"""End-to-end estimate against a hand calculation (closed-form beam and fatigue formulas)."""
+from __future__ import annotations
+
+import math
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from life.design import parse_design
+from life.estimate import estimate
+
+GLASS = {
+    "E1": "40 GPa", "E2": "10 GPa", "G12": "4 GPa", "nu12": 0.3, "density": "1900 kg/m^3",
+    "Xt": "1000 MPa", "Xc": "600 MPa", "Yt": "40 MPa", "Yc": "140 MPa", "S12": "70 MPa",
+    "fatigue": {"form": "power", "R": -1, "S1": "800 MPa", "m": 10},
+}
+
+
+def _design(cycles, support="cantilever", **beam):
+    doc = {
+        "title": "hand check",
+        "beam": {"support": support, "span": "200 mm", "width": "20 mm", **beam},
+        "material": {"hand-glass": GLASS},
+        "ply": [{"material": "hand-glass", "angle": 0, "thickness": "0.5 mm", "count": 10}],
+        "duty": {"drive": "force", "cycles": cycles},
+    }
+    return parse_design(doc, "hand.toml", Path("."))
+
+
+def test_cantilever_block_table_hand_calculation():
+    """Cantilever, L = 200 mm, b = 20 mm, ten 0° plies of 0.5 mm (h = 5 mm), E1 = 40 GPa, Xt = 1000 MPa,
+    Xc = 600 MPa; S-N at R = −1: σa = 800 MPa·N^(−1/10); Goodman; 1000 cycles of 0 → 50 N per block.
+
+    Hand calculation (Roark, 7th ed., Table 8.1 case 1a; σ = 6M/(bh²)):
+    - root moment M = PL = 50 N × 0.2 m = 10 N·m; σ = 6·10/(0.02·0.005²) = 120 MPa at both faces.
+    - narrow beam of one orthotropic material: 1/d11 = E1·h³/12 exactly (Q11 − Q12²/Q22 = E1), so EI = E1·b·h³/12
+      = 40e9·0.02·0.005³/12 = 8.3333 N·m².
+    - tension face (ply 1, z = −2.5 mm), cycle 0 → 120 MPa: σa = σm = 60 MPa; Goodman σa0 = 60/(1 − 60/1000)
+      = 63.830 MPa; N = (800/63.830)^10 = 9.55e10.
+    - compression face (ply 10, z = +2.5 mm), cycle −120 → 0 MPa: σa = 60, σm = −60; σa0 = 60/(1 − 60/600) = 66.667 MPa;
+      N = (800/66.667)^10 = 12^10 = 6.1917e10 → it governs: life 6.1917e10 cycles = 6.1917e7 blocks.
+    - transverse and in-plane shear stresses of a homogeneous 0° narrow beam are zero (σ2 = (Q12 − ν12·Q22)·εx = 0).
+    - compliance C = L³/(3EI) + L/(κ·G13·b·h) = 0.008/25 + 0.2/(5/6·4e9·0.02·0.005) = 3.2e-4 + 6.0e-7 m/N,
+      k = 1/C = 3119.15 N/m; U(50 N) = ½·C·P² = 0.40075 J; mass = 1900·0.02·0.005·0.2 = 0.038 kg.
+    - static reserve (max stress and Tsai-Wu agree for uniaxial σ1): compression 600/120 = 5.0.
+    """
+    design = _design([{"min": "0 N", "max": "50 N", "count": 1000}])
+    r = estimate(design)
+    s = r.summary()
+
+    # local stresses and strain (rel 1e-9: closed forms, no rounding)
+    assert r.response.stress_12[0, 0, 0, 0] * 50 == pytest.approx(120e6, rel=1e-9)
+    assert r.response.stress_12[0, 9, 1, 0] * 50 == pytest.approx(-120e6, rel=1e-9)
+    assert s["peak_strain"] == pytest.approx(120e6 / 40e9, rel=1e-9)
+    assert np.abs(r.response.stress_12[..., 1:]).max() * 50 < 1e-3  # σ2, τ12 vanish (to round-off) [Pa]
+
+    # lives of the two faces at the root
+    locs, dmg = r.locations, r.damage
+    root_fibre = (locs.station == 0) & (locs.family == "fibre")
+    tension = root_fibre & (locs.ply == 0) & (locs.face == 0)
+    compression = root_fibre & (locs.ply == 9) & (locs.face == 1)
+    n_tension = (800 / (60 / (1 - 60 / 1000))) ** 10
+    n_compression = 12.0**10
+    assert 1000 / dmg.damage[tension][0] == pytest.approx(n_tension, rel=1e-9)
+    assert 1000 / dmg.damage[compression][0] == pytest.approx(n_compression, rel=1e-9)
+    assert locs.mode[tension][0] == "fibre-tension"
+    assert locs.mode[compression][0] == "fibre-compression"
+
+    assert s["life_cycles"] == pytest.approx(n_compression, rel=1e-9)
+    assert s["life_blocks"] == pytest.approx(n_compression / 1000, rel=1e-9)
+    assert s["life_days"] is None  # no blocks_per_day
+    assert s["damage_per_block"] == pytest.approx(1000 / n_compression, rel=1e-9)
+    assert s["critical"] == {"x_m": 0.0, "ply": 10, "z_m": pytest.approx(0.0025, rel=1e-12),
+                             "mode": "fibre-compression", "face": "top"}
+
+    C = 0.2**3 / (3 * 40e9 * 0.02 * 0.005**3 / 12) + 0.2 / (5 / 6 * 4e9 * 0.02 * 0.005)
+    assert s["stiffness_n_per_m"] == pytest.approx(1 / C, rel=1e-9)
+    assert s["peak_energy_j"] == pytest.approx(0.5 * C * 50**2, rel=1e-9)
+    assert s["cycle_energy_j"] == pytest.approx(0.5 * C * 50**2, rel=1e-9)  # the cycle starts at zero drive
+    assert s["mass_kg"] == pytest.approx(0.038, rel=1e-12)
+    assert s["specific_energy_j_per_kg"] == pytest.approx(0.5 * C * 2500 / 0.038, rel=1e-9)
+    assert s["static_reserve"] == pytest.approx(5.0, rel=1e-9)
+    assert any("S13" in w for w in s["warnings"])  # no interlaminar strength given: said, not guessed
+
+
+def test_reversed_drive_swaps_the_critical_face():
+    """The same block with the drive reversed (−50 → 0 N) puts the 1000 MPa/600 MPa asymmetry on the other face:
+    ply 1 now sees −120 → 0 MPa and governs with N = 12^10 (hand calculation of the test above, mirrored)."""
+    r = estimate(_design([{"min": "-50 N", "max": "0 N", "count": 1000}]))
+    s = r.summary()
+    assert s["critical"]["ply"] == 1
+    assert s["critical"]["mode"] == "fibre-compression"
+    assert s["life_cycles"] == pytest.approx(12.0**10, rel=1e-9)
+
+
+def test_miner_sum_of_a_two_row_block_table():
+    """Miner's rule over two rows (Palmgren–Miner, D = Σ n/N): 1000 × (0 → 50 N) and 10 × (0 → 100 N).
+    Compression face at the root: row 1 N₁ = 12^10 (above); row 2 σ = −240 → 0 MPa, σa0 = 120/(1 − 120/600) = 150 MPa,
+    N₂ = (800/150)^10 = 1.8190e7. D = 1000/N₁ + 10/N₂ per block; life = 1/D blocks, × 1010 cycles per block."""
+    r = estimate(_design([{"min": "0 N", "max": "50 N", "count": 1000}, {"min": "0 N", "max": "100 N", "count": 10}]))
+    s = r.summary()
+    D = 1000 / 12.0**10 + 10 / (800 / 150) ** 10
+    assert s["damage_per_block"] == pytest.approx(D, rel=1e-9)
+    assert s["life_blocks"] == pytest.approx(1 / D, rel=1e-9)
+    assert s["life_cycles"] == pytest.approx(1010 / D, rel=1e-9)
+
+
+def test_a_cycle_beyond_static_strength_gives_zero_life():
+    """700 N gives σ = 6·700·0.2/(0.02·0.005²) = 1680 MPa > Xt and Xc: the first load fails the part —
+    life 0 with a warning, never a number."""
+    r = estimate(_design([{"min": "0 N", "max": "700 N", "count": 1}]))
+    s = r.summary()
+    assert s["life_cycles"] == 0 and s["life_blocks"] == 0
+    assert s["static_reserve"] == pytest.approx(600 / 1680, rel=1e-9)
+    assert any("exceeds the static strength" in w for w in s["warnings"])
+    assert all(math.isfinite(s[k]) for k in ("damage_per_block", "stiffness_n_per_m", "peak_energy_j"))
