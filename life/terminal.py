@@ -72,7 +72,8 @@ def cycle_text(cycles: Cycles, unit: str, scale: float, top: int, samples: int) 
     order = np.argsort(-(cycles.hi - cycles.lo), kind="stable")
     if top:
         order = order[:top]
-    lines = [f"{samples} samples, {cycles.n_total:g} cycles ({cycles.lo.size} distinct), ASTM E1049-85 rainflow",
+    lines = [f"{samples} samples → {cycles.n_total:g} cycles (half cycles of the residue count ½) in "
+             f"{cycles.lo.size} distinct (min, max) rows; ASTM E1049-85 rainflow",
              f"{'range':>12s} {'mean':>12s} {'min':>12s} {'max':>12s} {'count':>8s}   [{unit}]"]
     for i in order:
         lo, hi = cycles.lo[i] / scale, cycles.hi[i] / scale
