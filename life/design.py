@@ -17,7 +17,7 @@ import numpy as np
 from life.errors import InputError
 from life.meanstress import RULES
 from mechanics import errors as mechanics_errors
-from mechanics.beam import DEFAULT_STATIONS, SUPPORTS, Beam, Ply, validate
+from mechanics.beam import DEFAULT_STATIONS, SUPPORTS, Beam, Ply, segments, validate
 from mechanics.energy import DRIVES
 from mechanics.laminate import SECTIONS
 from mechanics.materials import Material, resolve_materials
@@ -147,12 +147,18 @@ def _beam(doc: Mapping, plies: tuple[Ply, ...], name: str) -> Beam:
         validate(beam)
     except mechanics_errors.InputError as exc:
         raise InputError(f"{name} {exc}") from None
+    # the [[ply]] row each ply of the expanded stack comes from (rows already checked by _plies)
+    row_of = [row_no for row_no, row in enumerate(doc["ply"], start=1) for _ in range(row.get("count", 1))]
     for k, p in enumerate(plies, start=1):
         if p.ends_at is not None and p.ends_at > beam.length * (1 + 1e-12):
             raise InputError(
-                f"{name} [[ply]] ply {k}: ends_at = {p.ends_at * 1e3:g} mm lies beyond the beam's "
-                f"{beam.length * 1e3:g} mm from the root; leave ends_at out for a full-length ply"
+                f"{name} [[ply]] #{row_of[k - 1]} ends_at: {p.ends_at * 1e3:g} mm (ply {k} of the stack) lies "
+                f"beyond the beam's {beam.length * 1e3:g} mm from the root; leave ends_at out for a full-length ply"
             )
+    try:
+        segments(beam)  # every stretch of the beam keeps at least one ply and has bending stiffness
+    except mechanics_errors.InputError as exc:
+        raise InputError(f"{name} {exc}") from None
     return beam
 
 
@@ -267,8 +273,11 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
         materials = resolve_materials(user, f"{name} [material]")
     except mechanics_errors.InputError as exc:
         raise InputError(str(exc)) from None
-    plies = _plies(doc, materials, name)
-    beam = _beam(doc, plies, name)
+    try:
+        plies = _plies(doc, materials, name)
+        beam = _beam(doc, plies, name)
+    except mechanics_errors.InputError as exc:  # a missing unit or wrong dimension (mechanics.units)
+        raise InputError(str(exc)) from None
     duty = _duty(doc, name, base_dir)
     fat = _table(doc, "fatigue", name, required=False)
     _unknown(fat, FATIGUE_KEYS, f"{name} [fatigue]")

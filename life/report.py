@@ -19,7 +19,7 @@ METHODS = [
      "2.103, 4.28; Jones, 2nd ed., ch. 2 and 4); narrow beam: bending stiffness per width 1/d11 of the full ABD "
      "inverse; plate: cylindrical bending (εy⁰ = κy = 0)"),
     ("Beam", "moments and deflections of Roark's Formulas for Stress and Strain, 7th ed., Table 8.1; load-point "
-     "compliance by the unit-load method with Timoshenko shear deformation (shear correction 5/6, ply G13/G23), "
+     "compliance by the unit-load method with Timoshenko shear deformation (shear stiffness from the energy of the equilibrium τxz with the plies' G13/G23: the 5/6 correction for a homogeneous section), "
      "integrated exactly over taper and ply drops"),
     ("Interlaminar shear", "τxz from equilibrium of the ply stresses, ∂τxz/∂z = −∂σx/∂x (Whitney 1987, ch. 6)"),
     ("Static strength", "first-ply failure by maximum stress and by Tsai-Wu with F12* = −1/2 (Tsai & Hahn 1980), "

@@ -21,7 +21,8 @@ Formulas: moments and deflections of Roark's Formulas for Stress and Strain, 7th
 Table 8.1 cases 1a (cantilever, end load), 1e (simply supported, centre load) and 1e superposed (two
 symmetric loads), 2a (fixed-guided); the load-point compliance by the unit-load method (virtual work)
 with Timoshenko shear deformation: C = ∫ m²/(b·Db) dx + ∫ v²/(b·S) dx, Db = bending stiffness per width,
-S = transverse shear stiffness per width (κs = 5/6). Linear, small deflection (valid while the
+S = transverse shear stiffness per width (energy-consistent with the equilibrium τxz: (5/6)·G·h for a
+homogeneous section, Timoshenko's shear correction). Linear, small deflection (valid while the
 deflection stays below about 10 % of the span: a warning says when it does not).
 """
 from __future__ import annotations
@@ -193,7 +194,7 @@ def segments(beam: Beam) -> tuple[Segment, ...]:
             bend = unit_bending(lam, beam.section)
             if not bend.flexural_compliance > 0:
                 raise InputError("the laminate has no bending stiffness (its compliance d11 is not positive)")
-            cache[active] = (lam, bend, transverse_shear_stiffness(lam), shear_flow(lam, bend))
+            cache[active] = (lam, bend, transverse_shear_stiffness(lam, beam.section), shear_flow(lam, bend))
         out.append(Segment(x0, x1, active, *cache[active]))
     return tuple(out)
 
@@ -389,11 +390,10 @@ def respond(beam: Beam) -> BeamResponse:
         area = 0.5 * float(beam.width(seg.x0) + beam.width(seg.x1)) * (seg.x1 - seg.x0)
         for i in seg.active:
             ply = beam.plies[i]
-            key = (ply.material.name, ply.angle)
-            if key not in moduli:
-                moduli[key] = _axial_modulus(Layer(ply.material, ply.angle, ply.thickness))
+            if i not in moduli:
+                moduli[i] = _axial_modulus(Layer(ply.material, ply.angle, ply.thickness))
             mass += ply.material.density * ply.thickness * area
-            reference += 0.5 * moduli[key] * ply.thickness * area
+            reference += 0.5 * moduli[i] * ply.thickness * area
     mass *= beam.halves
     reference *= beam.halves
 

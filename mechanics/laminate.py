@@ -253,23 +253,6 @@ def ply_field(lam: Laminate, eps0: np.ndarray, kappa: np.ndarray) -> PlyField:
     return PlyField(zf, strain_xy, strain_12, stress_xy, stress_12)
 
 
-def transverse_shear_stiffness(lam: Laminate, correction: float = 5.0 / 6.0) -> float:
-    """Transverse shear stiffness per unit width of the laminate, κ_s·Σ G_xz,k t_k [N/m].
-
-    Notes
-    -----
-    Ply transverse shear modulus in the x–z plane G_xz = G13 cos²θ + G23 sin²θ (tensor rotation of the
-    out-of-plane shear moduli about z; Jones, 2nd ed., sec. 2.6), summed through the thickness, times the
-    shear correction factor κ_s = 5/6 of a homogeneous rectangle (Timoshenko; Reissner). For a laminate with
-    very different ply shear moduli (a core) 5/6 is an approximation (common practice).
-    """
-    total = 0.0
-    for p in lam.layers:
-        t = np.radians(p.angle)
-        total += (p.material.G13 * np.cos(t) ** 2 + p.material.G23 * np.sin(t) ** 2) * p.thickness
-    return correction * total
-
-
 @dataclass(frozen=True)
 class ShearFlow:
     """Interlaminar shear τxz per unit transverse shear force per width, Vx = 1 N/m.
@@ -315,3 +298,35 @@ def shear_flow(lam: Laminate, bending: UnitBending) -> ShearFlow:
     z_peak = np.where(inside, zs, np.where(np.abs(tau[:-1]) >= np.abs(tau[1:]), z0, z1))
     tau_peak = tau[:-1] - (s0 * (z_peak - z0) + s1 * (z_peak**2 - z0**2) / 2.0)
     return ShearFlow(lam.z.copy(), tau, z_peak, tau_peak)
+
+
+GAUSS_3 = np.polynomial.legendre.leggauss(3)  # 3-point Gauss–Legendre: exact for polynomials up to degree 5
+
+
+def transverse_shear_stiffness(lam: Laminate, section: str = "beam") -> float:
+    """Transverse shear stiffness per unit width S [N/m], energy-consistent with the equilibrium τxz.
+
+    Notes
+    -----
+    The shear strain energy per length of the equilibrium distribution τxz(z) = V·t(z) equals V²/(2S), so
+    1/S = ∫ t(z)²/G_xz(z) dz (Whitney, *Structural Analysis of Laminated Anisotropic Plates*, 1987, ch. 6,
+    shear correction from the energy of the equilibrium stresses). The ply modulus in the x–z plane is
+    G_xz = G13 cos²θ + G23 sin²θ (tensor rotation about z; Jones, 2nd ed., sec. 2.6). For a homogeneous
+    section t(z) is the parabola 3/(2h)(1 − 4z²/h²) and this gives exactly S = (5/6)·G·h, Timoshenko's
+    shear correction 5/6; for a sandwich it gives G_core·d²/c (Allen 1969, thin faces), where 5/6·ΣG·t
+    would overstate it many times. t(z) is quadratic within a ply, so 3-point Gauss–Legendre is exact.
+    """
+    bending = unit_bending(lam, section)
+    flow = shear_flow(lam, bending)
+    s_coef = lam.Qbar[:, 0, :]
+    s0, s1 = s_coef @ bending.eps0, s_coef @ bending.kappa
+    nodes, weights = GAUSS_3
+    compliance = 0.0
+    for k, p in enumerate(lam.layers):
+        z0, z1 = lam.z[k], lam.z[k + 1]
+        z = 0.5 * (z1 - z0) * nodes + 0.5 * (z1 + z0)
+        tau = flow.tau_interfaces[k] - (s0[k] * (z - z0) + s1[k] * (z**2 - z0**2) / 2.0)
+        t = np.radians(p.angle)
+        G = p.material.G13 * np.cos(t) ** 2 + p.material.G23 * np.sin(t) ** 2
+        compliance += 0.5 * (z1 - z0) * float(weights @ tau**2) / G
+    return 1.0 / compliance
