@@ -19,6 +19,7 @@ from life.damage import FACES
 from life.errors import InputError
 from life.estimate import LifeResult
 from life.report import report_html
+from life.sizing import SizingResult
 from mechanics.energy import cycle_energy
 from spectra.counting import Cycles, merge_identical
 
@@ -89,26 +90,45 @@ def render(result: LifeResult) -> dict[str, str]:
     return files
 
 
+def sizing_json(answer: SizingResult) -> str:
+    """sizing.json: the scale found, the target, the sized design's summary and every evaluation."""
+    doc = {
+        "vary": answer.vary,
+        "target_life_blocks": answer.target_blocks,
+        "scale": answer.scale,
+        "life_grows_with_scale": answer.grows,
+        "note": answer.note,
+        "evaluations": [{"scale": s, "life_blocks": None if not np.isfinite(v) else v} for s, v in answer.history],
+        "sized": answer.result.summary(),
+    }
+    return json.dumps(doc, indent=2, allow_nan=False) + "\n"
+
+
 def write_files(files: Mapping[str, str], out: Path) -> list[Path]:
     """Write rendered files into ``out`` (created if absent), each replaced whole or not at all."""
     out = Path(out)
     if out.exists() and not out.is_dir():
         raise InputError(f"--out {out}: exists and is not a folder")
+    for name in files:  # a folder (or other non-file) in the way would fail only after others were replaced
+        target = out / name
+        if target.exists() and not target.is_file():
+            raise InputError(f"--out {out}: {name} there is not a file; move it away or choose another --out folder")
     staged: list[tuple[str, Path]] = []
     try:
         out.mkdir(parents=True, exist_ok=True)
         for name, text in files.items():
             fd, tmp = tempfile.mkstemp(prefix=f".{name}.", dir=out)
+            staged.append((tmp, out / name))
             with io.open(fd, "w", encoding="utf-8", newline="") as fh:
                 fh.write(text)
-            staged.append((tmp, out / name))
+        umask = os.umask(0)
+        os.umask(umask)
+        for tmp, _ in staged:
+            os.chmod(tmp, 0o666 & ~umask)  # mkstemp makes private files; outputs get the usual permissions
     except OSError as exc:
         for tmp, _ in staged:
             Path(tmp).unlink(missing_ok=True)
         raise InputError(f"--out {out}: cannot write there ({exc.strerror})") from None
-    umask = os.umask(0)
-    os.umask(umask)
     for tmp, final in staged:
-        os.chmod(tmp, 0o666 & ~umask)  # mkstemp makes private files; outputs get the usual permissions
         os.replace(tmp, final)
     return [final for _, final in staged]

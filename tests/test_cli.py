@@ -1,0 +1,416 @@
+"""The ``bendlife`` command, life/cli.py (DESIGN.md, outputs contract and exit codes).
+
+The bundled example and one wrong design run through the installed console script (a subprocess, as a
+user runs it); everything else runs in-process through ``life.cli.main`` with ``sys.argv`` patched, which
+is the same entry point without the ~1.5 s start-up of a new interpreter.
+
+Designs here are small cantilevers of a UD laminate, for which the rectangular-section formulas hold at
+the root (REFERENCES.md, Roark 7th ed. / rectangular section): σ = 6FL/(bh²), δ = 4FL³/(Ebh³), so the
+fibre strain per tip deflection is ε = 3δh/(2L²) when shear deflection is ignored (with it the strain
+per deflection is smaller, which keeps the bounds below on the safe side).
+"""
+from __future__ import annotations
+
+import json
+import math
+import re
+import subprocess
+import sys
+from dataclasses import dataclass
+from pathlib import Path
+
+import numpy as np
+import pandas as pd
+import pytest
+import rainflow
+
+from life import cli
+from spectra.profiles import bundled_profile
+
+BENDLIFE = Path(sys.executable).parent / "bendlife"  # the console script of this environment
+
+CONTRACT_KEYS = {
+    "title", "life_cycles", "life_blocks", "life_days", "damage_per_block", "critical", "stiffness_n_per_m",
+    "mass_kg", "peak_strain", "peak_energy_j", "cycle_energy_j", "specific_energy_j_per_kg", "static_reserve",
+    "warnings", "life_unbounded",
+}  # DESIGN.md, outputs contract, summary.json
+CRITICAL_KEYS = {"x_m", "ply", "z_m", "mode"}
+MODES = {"fibre-tension", "fibre-compression", "transverse", "shear", "interlaminar", "core-shear"}
+BUNDLED_MATERIALS = {"e-glass-epoxy", "carbon-epoxy", "aramid-epoxy", "glass-epoxy-woven", "sugar-maple",
+                     "structural-foam"}
+
+# my-glass of DESIGN.md's design-file example, plus (in some tests) a fatigue limit on its curve.
+MY_GLASS = """\
+[material.my-glass]
+E1 = "40 GPa"
+E2 = "10 GPa"
+G12 = "4 GPa"
+nu12 = 0.28
+density = "1900 kg/m^3"
+Xt = "1000 MPa"
+Xc = "600 MPa"
+Yt = "40 MPa"
+Yc = "140 MPa"
+S12 = "70 MPa"
+[material.my-glass.fatigue]
+form = "power"
+R = -1
+S1 = "800 MPa"
+m = 10
+"""
+
+
+def cantilever(duty: str, material: str = "e-glass-epoxy", extra: str = "", title: str = "test cantilever",
+               span: str = "200 mm", thickness: str = "0.5 mm", count: int = 4) -> str:
+    """A cantilever 20 mm wide of ``count`` 0° plies, by default 200 mm of 4 × 0.5 mm (h = 2 mm); few stations."""
+    return f"""\
+title = "{title}"
+[beam]
+support = "cantilever"
+span = "{span}"
+width = "20 mm"
+stations = 4
+
+[[ply]]
+material = "{material}"
+angle = 0
+thickness = "{thickness}"
+count = {count}
+
+[duty]
+{duty}
+{extra}"""
+
+
+@dataclass(frozen=True)
+class Ran:
+    """What a command gave: exit code, stdout, stderr."""
+
+    code: int
+    out: str
+    err: str
+
+
+def bendlife(args: list[str], monkeypatch, capsys) -> Ran:
+    """Run ``bendlife ARGS`` in-process through the console entry point ``life.cli.main``."""
+    monkeypatch.setattr(sys, "argv", ["bendlife", *map(str, args)])
+    saved = np.geterr()  # main() silences numpy's floating-point warnings process-wide; give them back
+    try:
+        cli.main()
+        code = 0
+    except SystemExit as exc:
+        code = 0 if exc.code is None else int(exc.code)
+    finally:
+        np.seterr(**saved)
+    captured = capsys.readouterr()
+    return Ran(code, captured.out, captured.err)
+
+
+def strict_json(text: str) -> dict:
+    """json.loads that refuses NaN and ±Infinity (not JSON, RFC 8259)."""
+    def refuse(name):
+        raise ValueError(f"not strict JSON: {name}")
+    return json.loads(text, parse_constant=refuse)
+
+
+def snapshot(folder: Path) -> dict[str, bytes]:
+    """Every file under ``folder`` with its bytes, hidden ones included."""
+    return {str(p.relative_to(folder)): p.read_bytes() for p in sorted(folder.rglob("*")) if p.is_file()}
+
+
+def ride_cycles_reference() -> list[tuple[float, float]]:
+    """The `rainflow` package's count (ASTM E1049-85 reference implementation) of the bundled ride [mm]."""
+    column = pd.read_csv(bundled_profile("cargo-bike-ride"), comment="#", skipinitialspace=True)["deflection_mm"]
+    return rainflow.count_cycles(column.to_numpy(dtype=float))
+
+
+# ---------------------------------------------------------------------------------------------
+# The bundled example through the console script
+
+
+@pytest.fixture(scope="module")
+def example_run(tmp_path_factory):
+    """`bendlife run --out DIR` with no design: the bundled example, run once for the tests below."""
+    out = tmp_path_factory.mktemp("example") / "out"
+    proc = subprocess.run([str(BENDLIFE), "run", "--out", str(out)], capture_output=True, text=True, timeout=120)
+    return proc, out
+
+
+def test_example_run_exits_0_and_writes_the_four_files(example_run):
+    proc, out = example_run
+    assert proc.returncode == 0, proc.stderr
+    assert proc.stderr == ""
+    for name in ("summary.json", "cycles.csv", "locations.csv", "report.html"):
+        assert (out / name).is_file(), name
+
+
+def test_example_summary_has_every_contract_key_finite_strict_json(example_run):
+    """Every key of DESIGN.md's summary.json contract; numbers finite (strict JSON has no NaN/Infinity)."""
+    _, out = example_run
+    s = strict_json((out / "summary.json").read_text(encoding="utf-8"))
+    assert CONTRACT_KEYS <= set(s)
+    assert CRITICAL_KEYS <= set(s["critical"])
+    assert isinstance(s["title"], str) and s["title"]
+    for key in CONTRACT_KEYS - {"title", "critical", "warnings", "life_unbounded"}:
+        value = s[key]
+        assert isinstance(value, (int, float)) and not isinstance(value, bool), key
+        assert math.isfinite(value), key
+    for key in ("x_m", "z_m"):
+        assert isinstance(s["critical"][key], float) and math.isfinite(s["critical"][key])
+    # the example's stack: 1 + 6 + 2 + 6 + 1 plies (life/examples/cargo-bike-rear-spring.toml)
+    assert isinstance(s["critical"]["ply"], int) and 1 <= s["critical"]["ply"] <= 16
+    assert s["critical"]["mode"] in MODES
+    assert 0.0 <= s["critical"]["x_m"] <= 0.300  # within the 300 mm span
+    assert s["life_unbounded"] is False
+    assert isinstance(s["warnings"], list) and all(isinstance(w, str) for w in s["warnings"])
+
+
+def test_example_summary_values_by_hand(example_run):
+    """Hand checks on the bundled example (cargo-bike-rear-spring.toml, invented demo data).
+
+    mass: width 60 → 36 mm over 300 mm, mean 48 mm, planform 0.3 × 0.048 = 0.0144 m²; the two dropped
+    plies run to 210 mm where the width is 60 − 24·0.21/0.3 = 43.2 mm, mean 51.6 mm, planform 0.010836 m².
+    Areal masses: 2 woven plies 0.25 mm × 1900 kg/m³ + 12 UD plies 0.8 mm × 1800 kg/m³ = 18.23 kg/m²;
+    dropped plies 2 × 0.8 mm × 1800 = 2.88 kg/m² (densities: the library's, "recalled").
+    m = 0.0144 × 18.23 + 0.010836 × 2.88 = 0.29371968 kg.
+    The definitions of the contract: life_cycles = life_blocks × cycles per block, life_days = life_blocks
+    / blocks_per_day (4 in the example), specific energy = peak_energy_j / mass_kg, damage per block =
+    miner_limit (1) / life_blocks; cycles per block = the `rainflow` package's total count of the ride.
+    """
+    _, out = example_run
+    s = strict_json((out / "summary.json").read_text(encoding="utf-8"))
+    assert s["mass_kg"] == pytest.approx(0.29371968, rel=1e-9)  # rel 1e-9: exact geometry, float rounding
+    per_block = sum(n for _, n in ride_cycles_reference())
+    assert s["life_cycles"] == pytest.approx(s["life_blocks"] * per_block, rel=1e-12)
+    assert s["life_days"] == pytest.approx(s["life_blocks"] / 4.0, rel=1e-12)
+    assert s["specific_energy_j_per_kg"] == pytest.approx(s["peak_energy_j"] / s["mass_kg"], rel=1e-12)
+    assert s["damage_per_block"] == pytest.approx(1.0 / s["life_blocks"], rel=1e-12)
+    assert s["stiffness_n_per_m"] > 0 and s["peak_strain"] > 0 and s["static_reserve"] > 0
+    assert 0 < s["cycle_energy_j"] <= s["peak_energy_j"] * (1 + 1e-12)  # a cycle cannot hold more than the peak
+
+
+def test_example_cycles_csv(example_run):
+    """cycles.csv: header min,max,count (SI); its counts add up to the `rainflow` package's total for the ride,
+    and Σ (max − min)·count to its Σ range·count [mm → m]."""
+    _, out = example_run
+    text = (out / "cycles.csv").read_text(encoding="utf-8")
+    assert text.splitlines()[0].split(",")[:3] == ["min", "max", "count"]
+    table = pd.read_csv(out / "cycles.csv")
+    reference = ride_cycles_reference()
+    assert table["count"].sum() == pytest.approx(sum(n for _, n in reference), abs=1e-9)  # counts are k/2
+    # rel 1e-8: cycles.csv writes 9 significant digits
+    assert float(((table["max"] - table["min"]) * table["count"]).sum()) == pytest.approx(
+        sum(r * n for r, n in reference) * 1e-3, rel=1e-8)
+
+
+def test_example_terminal_summary(example_run):
+    """The terminal shows life in cycles, blocks and days, the critical mode, stiffness, mass, energy, the
+    static reserve and a caution line, with the values of summary.json (to the digits it prints)."""
+    proc, out = example_run
+    s = strict_json((out / "summary.json").read_text(encoding="utf-8"))
+    text = proc.stdout
+
+    def number(pattern: str) -> float:
+        """The number in front of ``pattern`` (a regex) at its first match."""
+        found = re.search(r"(?<![\w.])([-+]?\d[\d.]*(?:e[-+]?\d+)?)\s*" + pattern, text, re.MULTILINE)
+        assert found, f"no number before {pattern!r} in the terminal output"
+        return float(found.group(1))
+
+    # rel 5e-3: the terminal prints lives to 3 significant digits
+    assert re.search(r"^\s*life\s", text, re.MULTILINE)
+    assert number(r"cycles\s*$") == pytest.approx(s["life_cycles"], rel=5e-3)
+    assert number(r"blocks of the duty") == pytest.approx(s["life_blocks"], rel=5e-3)
+    assert number(r"days") == pytest.approx(s["life_days"], rel=5e-3)
+    assert s["critical"]["mode"] in text
+    # rel 1e-3: stiffness, mass and energy to 4 significant digits
+    assert number(r"N/mm") == pytest.approx(s["stiffness_n_per_m"] / 1e3, rel=1e-3)
+    assert number(r"g\s*$") == pytest.approx(s["mass_kg"] * 1e3, rel=1e-3)
+    assert number(r"J at peak") == pytest.approx(s["peak_energy_j"], rel=1e-3)
+    assert "reserve" in text and f"{s['static_reserve']:.3g}" in text
+    assert re.search(r"^caution: .*fatigue tests", text, re.MULTILINE)
+
+
+# ---------------------------------------------------------------------------------------------
+# Wrong input: exit 2, one message, nothing touched
+
+
+WRONG = cantilever('drive = "deflection"\ncycles = [ { min = "0 mm", max = "5 mm", count = 10 } ]').replace(
+    'thickness = "0.5 mm"', 'thickness = "0.5"')
+
+
+def test_wrong_design_exits_2_with_one_message_and_leaves_out_untouched(tmp_path):
+    """Through the console script: exit 2, one line on stderr naming the file and the key, no traceback;
+    the existing --out folder and the file in it are byte-identical afterwards."""
+    design = tmp_path / "wrong.toml"
+    design.write_text(WRONG, encoding="utf-8")
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / "notes.txt").write_bytes(b"my notes\n")
+    before = snapshot(out)
+    proc = subprocess.run([str(BENDLIFE), "run", str(design), "--out", str(out)], capture_output=True, text=True,
+                          timeout=120)
+    assert proc.returncode == 2
+    assert "Traceback" not in proc.stderr and "Traceback" not in proc.stdout
+    lines = proc.stderr.strip().splitlines()
+    assert len(lines) == 1, proc.stderr
+    assert lines[0].startswith("bendlife: wrong.toml [[ply]] #1 thickness")
+    assert "no unit" in lines[0]
+    assert snapshot(out) == before
+
+
+def test_check_good_and_bad(tmp_path, monkeypatch, capsys):
+    good = tmp_path / "good.toml"
+    good.write_text(cantilever('drive = "deflection"\ncycles = [ { min = "0 mm", max = "5 mm", count = 10 } ]'))
+    ran = bendlife(["check", good], monkeypatch, capsys)
+    assert ran.code == 0 and "valid" in ran.out and ran.err == ""
+    bad = tmp_path / "bad.toml"
+    bad.write_text(WRONG)
+    ran = bendlife(["check", bad], monkeypatch, capsys)
+    assert ran.code == 2
+    assert ran.err.startswith("bendlife: bad.toml") and len(ran.err.strip().splitlines()) == 1
+    assert "Traceback" not in ran.err
+
+
+def test_missing_design_file_exits_2(tmp_path, monkeypatch, capsys):
+    ran = bendlife(["run", tmp_path / "none.toml", "--out", tmp_path / "out"], monkeypatch, capsys)
+    assert ran.code == 2 and "none.toml" in ran.err
+    assert not (tmp_path / "out").exists()  # nothing is created when the input is wrong
+
+
+# ---------------------------------------------------------------------------------------------
+# count and materials
+
+
+def test_count_matches_the_rainflow_package(monkeypatch, capsys):
+    """`bendlife count` on a bundled CSV: its table's counts add up to the `rainflow` package's count_cycles
+    total on the same column (reference implementation of ASTM E1049-85 §5.4.4), and Σ range·count agrees
+    (rel 1e-4: the table prints ranges to 5 significant digits)."""
+    path = bundled_profile("feeder-flexure")
+    ran = bendlife(["count", path, "--column", "deflection_mm", "--unit", "mm", "--top", "0"], monkeypatch, capsys)
+    assert ran.code == 0, ran.err
+    lines = ran.out.splitlines()
+    start = next(k for k, line in enumerate(lines) if line.split()[:2] == ["range", "mean"]) + 1
+    rows = np.array([[float(v) for v in line.split()] for line in lines[start:] if line.strip()])
+    rng, count = rows[:, 0], rows[:, 4]
+    column = pd.read_csv(path, comment="#", skipinitialspace=True)["deflection_mm"].to_numpy(dtype=float)
+    reference = rainflow.count_cycles(column)
+    assert count.sum() == pytest.approx(sum(n for _, n in reference), abs=1e-9)  # counts are k/2, exact
+    assert float((rng * count).sum()) == pytest.approx(sum(r * n for r, n in reference), rel=1e-4)
+    assert np.all(rows[:, 3] - rows[:, 2] >= 0)  # max >= min on every row
+
+
+def test_count_with_a_missing_column_exits_2(monkeypatch, capsys):
+    ran = bendlife(["count", bundled_profile("feeder-flexure"), "--column", "nope", "--unit", "mm"],
+                   monkeypatch, capsys)
+    assert ran.code == 2 and "'nope'" in ran.err and "deflection_mm" in ran.err
+
+
+def test_materials_lists_the_six_bundled(monkeypatch, capsys):
+    ran = bendlife(["materials"], monkeypatch, capsys)
+    assert ran.code == 0
+    listed = {line.split()[0] for line in ran.out.splitlines() if line.strip()}
+    assert BUNDLED_MATERIALS <= listed
+    assert len(BUNDLED_MATERIALS & listed) == 6
+
+
+def test_materials_shows_e_glass_with_its_source(monkeypatch, capsys):
+    """E-glass/epoxy E1 = 38.6 GPa, Tsai & Hahn 1980 (REFERENCES.md; also Kaw Table 2.1)."""
+    ran = bendlife(["materials", "e-glass-epoxy"], monkeypatch, capsys)
+    assert ran.code == 0
+    assert re.search(r"^\s*E1\s+38\.6 GPa\s+.*Tsai & Hahn", ran.out, re.MULTILINE), ran.out
+
+
+def test_unknown_material_exits_2(monkeypatch, capsys):
+    ran = bendlife(["materials", "e-glass-epoxi"], monkeypatch, capsys)
+    assert ran.code == 2
+    assert "'e-glass-epoxi'" in ran.err and "e-glass-epoxy" in ran.err
+    assert "Traceback" not in ran.err
+
+
+# ---------------------------------------------------------------------------------------------
+# Physics through the command
+
+
+def run_design(tmp_path: Path, name: str, text: str, monkeypatch, capsys) -> dict:
+    design = tmp_path / f"{name}.toml"
+    design.write_text(text, encoding="utf-8")
+    ran = bendlife(["run", design, "--out", tmp_path / name], monkeypatch, capsys)
+    assert ran.code == 0, ran.err
+    return strict_json((tmp_path / name / "summary.json").read_text(encoding="utf-8"))
+
+
+def test_deflection_and_force_drives_agree(tmp_path, monkeypatch, capsys):
+    """Linearity: a force duty equal to stiffness × the deflection duty gives the same life, damage, peak
+    strain and energies (rel 1e-9: the two paths differ only by float rounding of F = k·δ). The stiffness
+    is read from the deflection run's summary. Without blocks_per_day life_days is null (contract).
+
+    A 100 mm cantilever of 4 × 1.5 mm (h = 6 mm), so that fibre fatigue sets the life: ε = 3δh/(2L²) =
+    9e-4 per mm of tip deflection, the −4 → 8 mm row runs −0.36 % → 0.72 %, amplitude 0.54 %, and on
+    the compression face Goodman gives 0.54/(1 − 0.18/1.58) = 0.61 % at R = −1, N = (2.75/0.61)^10 ≈ 3e6
+    (Burton et al. p. 387, m = 10): D ≈ 6e-5 per block, far above anything else.
+    """
+    table = [(-4.0, 8.0, 200), (1.0, 4.0, 5000)]  # mm, mm, count
+    beam = {"span": "100 mm", "thickness": "1.5 mm", "count": 4}
+    rows = ", ".join(f'{{ min = "{lo} mm", max = "{hi} mm", count = {n} }}' for lo, hi, n in table)
+    by_deflection = run_design(tmp_path, "deflection", cantilever(f'drive = "deflection"\ncycles = [ {rows} ]',
+                                                                  **beam), monkeypatch, capsys)
+    k = by_deflection["stiffness_n_per_m"]
+    rows = ", ".join(f'{{ min = "{lo * 1e-3 * k!r} N", max = "{hi * 1e-3 * k!r} N", count = {n} }}'
+                     for lo, hi, n in table)
+    by_force = run_design(tmp_path, "force", cantilever(f'drive = "force"\ncycles = [ {rows} ]', **beam),
+                          monkeypatch, capsys)
+    assert by_deflection["life_cycles"] is not None and by_deflection["life_days"] is None
+    assert by_deflection["critical"]["mode"] == "fibre-compression"  # the hand estimate's place
+    assert 1e-5 < by_deflection["damage_per_block"] < 1e-3  # hand value 6e-5 within the shear-deflection margin
+    for key in ("life_cycles", "life_blocks", "damage_per_block", "peak_strain", "peak_energy_j", "cycle_energy_j",
+                "specific_energy_j_per_kg", "static_reserve", "stiffness_n_per_m", "mass_kg"):
+        assert by_force[key] == pytest.approx(by_deflection[key], rel=1e-9), key
+    assert by_force["critical"] == by_deflection["critical"]
+
+
+def test_life_unbounded_below_the_fatigue_limit(tmp_path, monkeypatch, capsys):
+    """my-glass with a fatigue limit of 100 MPa amplitude at R = −1; a fully reversed ±2 mm tip deflection.
+    Hand bound: ε ≤ 3δh/(2L²) = 3 × 0.002 × 0.002/(2 × 0.2²) = 1.5e-4, σ1 ≤ E1 ε = 40 GPa × 1.5e-4 = 6 MPa,
+    mean 0, far below the limit. The fibre curve is the only one the material has, so no cycle does damage:
+    life values null, damage_per_block 0, life_unbounded true, and a warning says so."""
+    material = MY_GLASS.replace("m = 10\n", 'm = 10\nlimit = "100 MPa"\n')
+    s = run_design(tmp_path, "unbounded", cantilever('drive = "deflection"\ncycles = [ { min = "-2 mm", max = "2 mm", '
+                                                      'count = 1000 } ]\nblocks_per_day = 10\n',
+                                                      material="my-glass", extra=material), monkeypatch, capsys)
+    assert s["life_cycles"] is None and s["life_blocks"] is None and s["life_days"] is None
+    assert s["damage_per_block"] == 0
+    assert s["life_unbounded"] is True
+    assert any("unbounded" in w for w in s["warnings"])
+    assert s["peak_strain"] <= 1.5e-4 * (1 + 1e-9)  # the pure-bending bound above
+
+
+def test_life_zero_beyond_static_strength(tmp_path, monkeypatch, capsys):
+    """A 100 N tip force on my-glass: σ = 6FL/(bh²) = 6 × 100 × 0.2/(0.02 × 0.002²) = 1500 MPa at the root,
+    past Xt = 1000 MPa on the tension face and Xc = 600 MPa on the compression face. The first load fails
+    the part: life 0, with a warning; the max-stress reserve is Xc/σ = 600/1500 = 0.4 (rel 1e-9: statics
+    of a rectangular UD section, exact; no transverse or shear stress in 0° plies of a narrow beam)."""
+    s = run_design(tmp_path, "overload", cantilever('drive = "force"\ncycles = [ { min = "0 N", max = "100 N", '
+                                                     'count = 10 } ]\n', material="my-glass", extra=MY_GLASS),
+                   monkeypatch, capsys)
+    assert s["life_cycles"] == 0 and s["life_blocks"] == 0
+    assert s["life_unbounded"] is False
+    assert any("static strength" in w for w in s["warnings"])
+    assert s["static_reserve_by_criterion"]["max-stress"] == pytest.approx(0.4, rel=1e-9)
+    assert s["static_reserve"] <= 0.4 * (1 + 1e-9)  # the smallest reserve of all criteria
+
+
+def test_a_stress_that_is_zero_by_theory_does_no_damage(tmp_path, monkeypatch, capsys):
+    """Three 0° e-glass/epoxy plies of 0.6 mm (h = 1.8 mm), 200 mm cantilever, tip deflection 2 → 10 mm × 1000
+    and 0 → 4 mm × 250.5 per block. In 0° plies of a narrow beam σ2 = τ12 = 0 (D = Q h³/12 for a UD stack,
+    so the ply stress is Q·D⁻¹·M·z = (12Mz/h³, 0, 0); Kaw 2nd ed. ch. 4), so only the fibre curve can do damage.
+    Hand value, compression face at the root (the larger row; the other is smaller by orders):
+    ε = 3δh/(2L²): 6.75e-4 at 10 mm, 1.35e-4 at 2 mm, amplitude 2.7e-4, mean 4.05e-4; Goodman with
+    eps1c = Xc/E1 = 610/38600 = 1.580 % (Tsai & Hahn 1980): ε_a0 = 2.7e-4/(1 − 4.05e-4/0.0158) = 2.771e-4;
+    Burton et al. p. 387, S1 = 2.75 %, m = 10: N = (0.0275/2.771e-4)^10 = 9.3e19, so D ≈ 1000/9.3e19 = 1.1e-17
+    per block. Bound used: D < 1e-15 (a factor 100 above the hand value, for shear deflection and the
+    second row), and the critical mode is a fibre mode."""
+    s = run_design(tmp_path, "low-strain", cantilever(
+        'drive = "deflection"\ncycles = [ { min = "2 mm", max = "10 mm", count = 1000 }, '
+        '{ min = "0 mm", max = "4 mm", count = 250.5 } ]\n', thickness="0.6 mm", count=3), monkeypatch, capsys)
+    assert s["critical"]["mode"].startswith("fibre"), s["critical"]
+    assert s["damage_per_block"] < 1e-15
