@@ -15,10 +15,12 @@ import numpy as np
 import typer
 
 from life import terminal
+from life.compare import comparison_html, comparison_table
 from life.design import load_design
 from life.errors import InputError as LifeInputError
 from life.estimate import CAUTION, estimate
-from life.outputs import render, write_files
+from life.outputs import render, sizing_json, write_files
+from life.sizing import size as size_design
 from mechanics.errors import InputError as MechanicsInputError
 from mechanics.materials import describe, library
 from mechanics.units import unit_factor
@@ -53,6 +55,34 @@ def run(
     written = write_files(files, out)
     typer.echo(terminal.summary_text(result, example=design is None))
     typer.echo(f"\nwrote {', '.join(p.name for p in written)} to {out}")
+
+
+@app.command()
+def compare(
+    designs: list[Path] = typer.Argument(..., help="two or more design files (TOML)"),
+    out: Path = typer.Option(Path("bendlife-compare"), "--out", "-o", help="folder for comparison.csv and comparison.html"),
+) -> None:
+    """Run several candidate designs and set their figures side by side."""
+    results = [estimate(load_design(path)) for path in designs]
+    table = comparison_table(results)
+    write_files({"comparison.csv": table.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
+                 "comparison.html": comparison_html(table, results)}, out)
+    typer.echo(terminal.comparison_text(table))
+    typer.echo(f"\nwrote comparison.csv, comparison.html to {out}\ncaution: {CAUTION}")
+
+
+@app.command()
+def size(
+    design: Path = typer.Argument(..., help="design file (TOML)"),
+    life: float = typer.Option(..., "--life", help="target life in blocks of the duty"),
+    vary: str = typer.Option("thickness", "--vary", help="thickness (every ply) or width"),
+    out: Path = typer.Option(Path("bendlife-size"), "--out", "-o", help="folder for sized.toml and sizing.json"),
+) -> None:
+    """Find the thinnest (or narrowest) version of a design whose life reaches a target."""
+    answer = size_design(load_design(design), life, vary)
+    write_files({"sized.toml": answer.text, "sizing.json": sizing_json(answer)}, out)
+    typer.echo(terminal.sizing_text(answer))
+    typer.echo(f"\nwrote sized.toml, sizing.json to {out}\ncaution: {CAUTION}")
 
 
 @app.command()

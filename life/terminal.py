@@ -5,8 +5,11 @@ from typing import Mapping
 
 import numpy as np
 
+import pandas as pd
+
 from life.design import Design
 from life.estimate import CAUTION, LifeResult
+from life.sizing import SizingResult
 from mechanics.materials import Material
 from spectra.counting import Cycles
 
@@ -91,3 +94,31 @@ def materials_text(lib: Mapping[str, Material]) -> str:
         lines.append(f"{name:20s} {m.kind:5s} {m.E1 / 1e9:7.1f} {m.Xt / 1e6:7.0f} {m.density:6.0f}  {m.description}")
     lines.append("\n`bendlife materials NAME` shows every value with its source.")
     return "\n".join(lines)
+
+
+def comparison_text(table: pd.DataFrame) -> str:
+    """The comparison as a fixed-width table."""
+    def fmt(v, scale=1.0):
+        return "unbounded" if v is None or v != v else f"{v * scale:.4g}"
+
+    lines = [f"{'design':34s} {'life blocks':>12s} {'life cycles':>12s} {'mass g':>8s} {'k N/mm':>8s} "
+             f"{'U peak J':>9s} {'J/kg':>8s}  critical"]
+    for r in table.astype(object).where(table.notna(), None).itertuples(index=False):
+        lines.append(f"{r.title[:34]:34s} {fmt(r.life_blocks):>12s} {fmt(r.life_cycles):>12s} {fmt(r.mass_kg, 1e3):>8s} "
+                     f"{fmt(r.stiffness_n_per_m, 1e-3):>8s} {fmt(r.peak_energy_j):>9s} "
+                     f"{fmt(r.specific_energy_j_per_kg):>8s}  {r.critical_mode}")
+    return "\n".join(lines)
+
+
+def sizing_text(answer: SizingResult) -> str:
+    """The sizing answer in a few lines."""
+    s = answer.result.summary()
+    life = "unbounded" if s["life_blocks"] is None else f"{s['life_blocks']:.4g}"
+    return "\n".join([
+        f"sizing {answer.vary} for a life of {answer.target_blocks:g} blocks: scale factor {answer.scale:.4g}",
+        f"  {answer.note}",
+        f"  sized design: life {life} blocks, mass {s['mass_kg'] * 1e3:.4g} g, "
+        f"stiffness {s['stiffness_n_per_m'] / 1e3:.4g} N/mm, peak strain {s['peak_strain'] * 100:.3g} %, "
+        f"critical {s['critical']['mode']}",
+        f"  {len(answer.history)} estimates evaluated",
+    ])
