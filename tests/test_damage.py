@@ -1,0 +1,133 @@
+"""Locations and Miner damage: mapping of drive-cycle extremes to local cycles, closed-form lives."""
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from life.curves import SNCurve
+from life.damage import Locations, build_models, locations, miner_damage
+from life.meanstress import fatigue_model
+from mechanics.beam import Beam, Ply, respond
+from mechanics.materials import library
+from spectra.counting import Cycles
+
+MPa = 1e6
+
+
+def _one_location(response: float, model) -> Locations:
+    """A single location whose local stress is ``response`` × drive force [Pa/N]."""
+    return Locations(
+        station=np.array([0]), ply=np.array([0]), face=np.array([0]), mode=np.array(["fibre-tension"]),
+        family=np.array(["fibre"]), z=np.array([0.0]), response=np.array([response]), model=np.array([0]),
+        models=(model,),
+    )
+
+
+def _power(S1=800 * MPa, m=10.0, limit=None, R=-1.0):
+    return SNCurve(form="power", R=R, S1=S1, basis="stress", m=m, limit=limit)
+
+
+def test_extremes_flip_on_the_compression_side():
+    """A location with response −2 MPa/N under a drive cycle 1 → 3 N sees −6 → −2 MPa: amplitude 2 MPa, mean
+    −4 MPa (DESIGN.md data flow: map the extremes; the sign flips). With mean_stress = "none" and
+    σa = 800 MPa·N^(−1/10): N = (800/2)^10 = 1.0486e26; 1000 such cycles give D = 1000/N (Palmgren–Miner)."""
+    model = fatigue_model("none", [_power()], 1000 * MPa, 600 * MPa, "test")
+    cycles = Cycles(np.array([1.0]), np.array([3.0]), np.array([1000.0]))
+    dmg = miner_damage(_one_location(-2 * MPa, model), cycles, force_per_drive=1.0, stress_factor=1.0)
+    assert dmg.damage[0] == pytest.approx(1000 / 400.0**10, rel=1e-12)
+    assert dmg.amplitude[0] == pytest.approx(2 * MPa, rel=1e-12)
+    assert dmg.mean[0] == pytest.approx(-4 * MPa, rel=1e-12)
+
+
+def test_goodman_sees_the_sign_of_the_mean():
+    """Same cycle through Goodman with Xt = 1000, Xc = 600 MPa (REFERENCES.md, linear Goodman with unequal strengths):
+    response +100 MPa/N, drive 1 → 3 N: σa = 100, σm = 200 MPa → σa0 = 100/(1 − 0.2) = 125 MPa;
+    response −100: σm = −200 → σa0 = 100/(1 − 200/600) = 150 MPa. N = (800/σa0)^10."""
+    model = fatigue_model("goodman", [_power()], 1000 * MPa, 600 * MPa, "test")
+    cycles = Cycles(np.array([1.0]), np.array([3.0]), np.array([1.0]))
+    for response, sa0 in [(100 * MPa, 125.0), (-100 * MPa, 150.0)]:
+        dmg = miner_damage(_one_location(response, model), cycles, 1.0, 1.0)
+        assert dmg.damage[0] == pytest.approx((sa0 / 800.0) ** 10, rel=1e-12)
+
+
+def test_force_per_drive_and_stress_factor_scale_the_local_stress():
+    """A deflection drive of 2 mm on a part of stiffness 500 N/m is 1 N; with a stress factor 1.5 the local
+    stress amplitude is 1.5× — life (1/1.5)^10 of the unfactored one (power law, m = 10)."""
+    model = fatigue_model("none", [_power()], 1000 * MPa, 600 * MPa, "test")
+    cycles = Cycles(np.array([-2e-3]), np.array([2e-3]), np.array([1.0]))
+    base = miner_damage(_one_location(100 * MPa, model), cycles, 500.0, 1.0).damage[0]
+    assert base == pytest.approx((100 / 800) ** 10, rel=1e-12)  # ±1 N → ±100 MPa
+    factored = miner_damage(_one_location(100 * MPa, model), cycles, 500.0, 1.5).damage[0]
+    assert factored / base == pytest.approx(1.5**10, rel=1e-12)
+
+
+def test_below_the_fatigue_limit_no_damage_and_beyond_strength_flagged():
+    """A limit of 50 MPa (no damage at or below it) and a cycle past Xt = 1000 MPa (static failure)."""
+    model = fatigue_model("none", [_power(limit=50 * MPa)], 1000 * MPa, 600 * MPa, "test")
+    small = Cycles(np.array([-0.4]), np.array([0.4]), np.array([1e9]))
+    assert miner_damage(_one_location(100 * MPa, model), small, 1.0, 1.0).damage[0] == 0.0
+    big = Cycles(np.array([0.0]), np.array([11.0]), np.array([1.0]))
+    dmg = miner_damage(_one_location(100 * MPa, model), big, 1.0, 1.0)
+    assert dmg.static_failure[0]
+    assert dmg.damage[0] == pytest.approx(2.0)  # counted as failing on first loading (N = ½), stays finite
+
+
+def test_round_off_stress_does_no_damage_on_a_log_linear_curve():
+    """A log-linear curve runs out at N = 10^(1/b) for any amplitude > 0 (Mandell form), so a 1e-11 Pa
+    round-off stress would otherwise count 1/1e10 per cycle; below 1e-9 of the strength it does nothing."""
+    curve = SNCurve(form="log-linear", R=-1.0, S1=31 * MPa, basis="stress", b=0.1)
+    model = fatigue_model("goodman", [curve], 31 * MPa, 118 * MPa, "test")
+    cycles = Cycles(np.array([0.0]), np.array([100.0]), np.array([1000.0]))
+    assert miner_damage(_one_location(1e-13, model), cycles, 1.0, 1.0).damage[0] == 0.0
+
+
+@settings(max_examples=60, deadline=None)
+@given(k=st.floats(1.0, 5.0), lo=st.floats(-3.0, 3.0), span=st.floats(0.1, 3.0), r=st.floats(-50, 50))
+def test_damage_grows_with_amplitude(k, lo, span, r):
+    """Invariant (STYLE.md): scaling every drive cycle by k ≥ 1 never lowers the damage (Goodman, m = 10)."""
+    model = fatigue_model("goodman", [_power()], 1000 * MPa, 600 * MPa, "test")
+    base = Cycles(np.array([lo]), np.array([lo + span]), np.array([1.0]))
+    scaled = Cycles(np.array([lo * k]), np.array([(lo + span) * k]), np.array([1.0]))
+    loc = _one_location(r * MPa, model)
+    d0 = miner_damage(loc, base, 1.0, 1.0).damage[0]
+    d1 = miner_damage(loc, scaled, 1.0, 1.0).damage[0]
+    assert d1 >= d0 * (1 - 1e-12)
+
+
+def _ud_beam(drop_at=None):
+    glass = library()["e-glass-epoxy"]
+    plies = [Ply(glass, 0.0, 0.5e-3) for _ in range(4)]
+    if drop_at is not None:
+        plies[1] = Ply(glass, 0.0, 0.5e-3, ends_at=drop_at)  # an inner ply dropped
+    return Beam("cantilever", 0.2, 0.02, 0.02, tuple(plies), stations=10)
+
+
+def test_locations_name_tension_and_compression_faces():
+    """Plies are listed from the tension face (DESIGN.md): under positive drive ply 1's fibre mode is tension and
+    the last ply's is compression; a negative dominant drive swaps them."""
+    resp = respond(_ud_beam())
+    models = build_models([library()["e-glass-epoxy"]], "goodman")
+    for sign, first, last in [(1.0, "fibre-tension", "fibre-compression"), (-1.0, "fibre-compression", "fibre-tension")]:
+        locs = locations(resp, models, sign)
+        root = (locs.station == 0) & (locs.family == "fibre")
+        assert set(locs.mode[root & (locs.ply == 0)]) == {first}
+        assert set(locs.mode[root & (locs.ply == 3)]) == {last}
+
+
+def test_locations_skip_dropped_plies_and_free_faces():
+    """A ply dropped at 100 mm has no location beyond it; interlaminar shear is checked at inner interfaces only
+    (τxz = 0 at the free faces), plus the neutral-axis peak inside a ply when it lies inside one."""
+    resp = respond(_ud_beam(drop_at=0.1))
+    models = build_models([library()["e-glass-epoxy"]], "goodman")
+    locs = locations(resp, models, 1.0)
+    x = resp.x[locs.station]
+    assert not np.any((locs.ply == 1) & (x > 0.1))
+    inter = locs.family == "interlaminar"
+    first_station = inter & (locs.station == 0)
+    assert not np.any(first_station & (locs.ply == 0) & (locs.face == 0))  # bottom free face
+    assert not np.any(first_station & (locs.ply == 3) & (locs.face == 1))  # top free face
+    # beyond the drop three plies remain: the neutral axis lies inside the middle one (interior location)
+    after = inter & (x > 0.1) & (locs.face == 2)
+    assert set(locs.ply[after]) == {2}
