@@ -261,3 +261,13 @@ def miner_damage(locs: Locations, cycles: Cycles, force_per_drive: float, stress
             failed[r] = zero.any(axis=1)
             damage[r] = (count[None, :] / np.where(zero, FIRST_LOAD_FAILURE, N)).sum(axis=1)
     return DamageResult(damage, failed, amp, mean)
+
+
+def cycle_lives(locs: Locations, k: int, cycles: Cycles, force_per_drive: float, stress_factor: float) -> np.ndarray:
+    """Cycles to failure of every counted cycle at location ``k`` (inf without a curve) [-]."""
+    m = int(locs.model[k])
+    if m < 0:
+        return np.full(cycles.lo.size, np.inf)
+    s = locs.response[k] * force_per_drive * stress_factor
+    a, b = s * cycles.lo, s * cycles.hi
+    return locs.models[m].cycles_to_failure(np.minimum(a, b), np.maximum(a, b))

@@ -71,6 +71,7 @@ class Design:
     stress_factor : float — partial factor on every local stress and strain [-]
     materials : dict[str, Material] — the materials the stack uses
     document : dict — the parsed TOML as read (for writing modified designs)
+    notes : tuple[str, ...] — what the loader did that the user should know (reported as warnings)
     """
 
     title: str
@@ -82,6 +83,7 @@ class Design:
     stress_factor: float
     materials: dict[str, Material]
     document: dict = field(repr=False)
+    notes: tuple[str, ...] = ()
 
 
 def _unknown(table: Mapping, allowed: set, where: str) -> None:
@@ -162,7 +164,7 @@ def _beam(doc: Mapping, plies: tuple[Ply, ...], name: str) -> Beam:
     return beam
 
 
-def _plies(doc: Mapping, materials: Mapping[str, Material], name: str) -> tuple[Ply, ...]:
+def _plies(doc: Mapping, materials: Mapping[str, Material], name: str, notes: list[str]) -> tuple[Ply, ...]:
     rows = doc.get("ply")
     if not rows:
         raise InputError(f"{name}: no [[ply]] given; list the plies from the tension face to the other face")
@@ -187,6 +189,8 @@ def _plies(doc: Mapping, materials: Mapping[str, Material], name: str) -> tuple[
             thickness = parse_quantity(row["thickness"], "length", f"{where} thickness")
         elif mat.thickness is not None:
             thickness = mat.thickness
+            notes.append(f"{where}: no thickness given; the nominal ply thickness of {mat_name} "
+                         f"({thickness * 1e3:g} mm) is used")
         else:
             raise InputError(f"{where}: missing key 'thickness' (material {mat_name!r} has no nominal ply thickness)")
         if not thickness > 0:
@@ -203,7 +207,7 @@ def _plies(doc: Mapping, materials: Mapping[str, Material], name: str) -> tuple[
     return tuple(out)
 
 
-def _duty(doc: Mapping, name: str, base_dir: Path) -> Duty:
+def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str]) -> Duty:
     t = _table(doc, "duty", name)
     where = f"{name} [duty]"
     _unknown(t, DUTY_KEYS, where)
@@ -249,6 +253,10 @@ def _duty(doc: Mapping, name: str, base_dir: Path) -> Duty:
                 hi = parse_quantity(_require(row, "max", rw), kind, f"{rw} max")
                 parsed.append((lo, hi, _number(_require(row, "count", rw), f"{rw} count")))
             cycles = block_table(parsed, f"{where} cycles")
+            steady = [k for k, (lo, hi, _) in enumerate(parsed, start=1) if lo == hi]
+            if steady:
+                notes.append(f"{where} cycles rows {', '.join(map(str, steady))}: min = max, a steady load with no "
+                             "cycle; left out of the fatigue count")
             source = f"block table, {len(rows)} rows"
             signal = None
     except (mechanics_errors.InputError, spectra_errors.InputError) as exc:
@@ -265,6 +273,7 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     base_dir : Path — folder that relative profile paths start from
     """
     _unknown(doc, TOP_KEYS, name)
+    notes: list[str] = []
     title = doc.get("title", "untitled design")
     if not isinstance(title, str):
         raise InputError(f"{name} title: must be a string, got {title!r}")
@@ -274,11 +283,11 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     except mechanics_errors.InputError as exc:
         raise InputError(str(exc)) from None
     try:
-        plies = _plies(doc, materials, name)
+        plies = _plies(doc, materials, name, notes)
         beam = _beam(doc, plies, name)
     except mechanics_errors.InputError as exc:  # a missing unit or wrong dimension (mechanics.units)
         raise InputError(str(exc)) from None
-    duty = _duty(doc, name, base_dir)
+    duty = _duty(doc, name, base_dir, notes)
     fat = _table(doc, "fatigue", name, required=False)
     _unknown(fat, FATIGUE_KEYS, f"{name} [fatigue]")
     rule = _choice(fat.get("mean_stress", "goodman"), RULES, f"{name} [fatigue] mean_stress")
@@ -287,7 +296,7 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     if factor < 1.0:
         raise InputError(f"{name} [fatigue] stress_factor: a partial factor is >= 1, got {factor:g}")
     used = {p.material.name: p.material for p in plies}
-    return Design(title, path, beam, duty, rule, miner, factor, used, dict(doc))
+    return Design(title, path, beam, duty, rule, miner, factor, used, dict(doc), tuple(notes))
 
 
 def load_design(path: Path) -> Design:

@@ -11,7 +11,9 @@ from dataclasses import dataclass, fields, replace
 
 import numpy as np
 
-from life.damage import FACES, DamageResult, Locations, build_models, locations, miner_damage
+from life.curves import DATA_CYCLES_MAX
+from life.damage import FACES, DamageResult, Locations, build_models, cycle_lives, locations, miner_damage
+from life.meanstress import model_warnings
 from life.design import Design
 from mechanics.beam import BeamResponse, core_warnings, range_warnings, respond
 from mechanics.energy import StorageFigures, cycle_energy, force_per_drive, storage_figures
@@ -186,7 +188,10 @@ def estimate(design: Design) -> LifeResult:
     dmg = miner_damage(locs, cycles, fpd, design.stress_factor)
     static, static_notes = _static_check(design, resp, fpd)
 
-    warnings = list(range_warnings(resp, peak_force)) + core_warnings(beam) + list(models.warnings) + static_notes
+    warnings = (list(design.notes) + list(range_warnings(resp, peak_force)) + core_warnings(beam)
+                + list(models.warnings) + static_notes)
+    for (material, family), m in models.index.items():
+        warnings += model_warnings(models.models[m], f"{material} {family} curve")
     failed = bool(dmg.static_failure.any())
     d_block = float(dmg.damage.max()) if dmg.damage.size else 0.0
     if failed:
@@ -212,6 +217,8 @@ def estimate(design: Design) -> LifeResult:
         unbounded = True
         warnings.append("no counted cycle does fatigue damage (all below the fatigue limits): life unbounded")
 
+    if not failed and not unbounded:
+        warnings += _extrapolation_notes(locs, k, cycles, fpd, design.stress_factor)
     critical = Critical(
         x_m=float(resp.x[locs.station[k]]),
         ply=int(locs.ply[k]) + 1,
@@ -251,3 +258,23 @@ def _most_utilised(locs: Locations, dmg: DamageResult) -> int:
         rows = locs.model == m
         ratio[rows] = (dmg.amplitude[rows] + np.abs(dmg.mean[rows])) / min(model.Xt, model.Xc)
     return int(np.argmax(ratio))
+
+
+EXTRAPOLATED_SHARE = 0.1  # warn when more than this share of the critical damage is read past the data
+
+
+def _extrapolation_notes(locs: Locations, k: int, cycles, fpd: float, stress_factor: float) -> list[str]:
+    """A warning when much of the critical location's damage comes from lives beyond typical test data."""
+    N = cycle_lives(locs, k, cycles, fpd, stress_factor)
+    d = np.where(np.isfinite(N) & (N > 0), cycles.count / np.where(N > 0, N, 1.0), 0.0)
+    total = float(d.sum())
+    if total <= 0:
+        return []
+    share = float(d[N > DATA_CYCLES_MAX].sum()) / total
+    if share <= EXTRAPOLATED_SHARE:
+        return []
+    return [
+        f"{share:.0%} of the damage at the critical location comes from cycles whose lives lie past "
+        f"{DATA_CYCLES_MAX:.0e} cycles: the fatigue curve is extrapolated beyond the usual range of test data "
+        "(common practice: composite fatigue tests seldom run past 1e7–1e8 cycles)"
+    ]

@@ -394,3 +394,17 @@ def test_design_is_frozen(example):
     """Designs are frozen dataclasses (STYLE.md): no field can be rebound."""
     with pytest.raises(dataclasses.FrozenInstanceError):
         example.title = "changed"  # type: ignore[misc]
+
+
+def test_nominal_ply_thickness_is_used_and_said(tmp_path):
+    """A ply row without thickness takes the material's nominal cured ply thickness (library: 0.2 mm for
+    e-glass-epoxy), and the design says so — never a silent default."""
+    path = tmp_path / "nominal.toml"
+    path.write_text(
+        'title = "nominal"\n[beam]\nsupport = "cantilever"\nspan = "100 mm"\nwidth = "10 mm"\n'
+        '[[ply]]\nmaterial = "e-glass-epoxy"\ncount = 5\n'
+        '[duty]\ndrive = "force"\ncycles = [ { min = "0 N", max = "5 N", count = 10 } ]\n'
+    )
+    design = load_design(path)
+    assert [p.thickness for p in design.beam.plies] == [pytest.approx(0.2e-3, rel=1e-12)] * 5
+    assert any("nominal ply thickness" in n and "#1" in n for n in design.notes)

@@ -115,3 +115,15 @@ def test_a_cycle_beyond_static_strength_gives_zero_life():
     assert s["static_reserve"] == pytest.approx(600 / 1680, rel=1e-9)
     assert any("exceeds the static strength" in w for w in s["warnings"])
     assert all(math.isfinite(s[k]) for k in ("damage_per_block", "stiffness_n_per_m", "peak_energy_j"))
+
+
+def test_steady_rows_and_extrapolated_lives_are_said():
+    """A block row with min = max is no cycle (left out, with a note); at ±10 N the compression-face life is
+    (800/σa0)^10 with σa = 24 MPa (σ = 6PL/(bh²) of the first test, scaled by 10/50): N ≈ 1.7e15 ≫ 1e8, beyond the
+    usual range of composite fatigue data (common practice) — a warning says the curve is extrapolated."""
+    r = estimate(_design([{"min": "-10 N", "max": "10 N", "count": 1000}, {"min": "5 N", "max": "5 N", "count": 3}]))
+    s = r.summary()
+    assert any("rows 2: min = max" in w for w in s["warnings"])
+    assert any("extrapolated" in w for w in s["warnings"])
+    assert s["cycles_per_block"] == 1000
+    assert s["life_cycles"] == pytest.approx((800 / 24) ** 10, rel=1e-9)  # R = −1, no mean: Goodman changes nothing
