@@ -25,11 +25,10 @@ def _life(value: float | None, unit: str) -> str:
 def summary_text(result: LifeResult, example: bool = False) -> str:
     """The run summary: life, critical place and mode, stiffness, mass, energies, static reserve, warnings."""
     d, c, s = result.design, result.critical, result.summary()
-    unit = "m" if d.duty.drive == "deflection" else "N"
     lines = [f"bendlife — {d.title}" + ("  [bundled example, invented demo data]" if example else "")]
     lines.append(f"  part        {d.beam.support}, span {d.beam.span * 1e3:.0f} mm, {len(d.beam.plies)} plies, "
                  f"section {d.beam.section}")
-    lines.append(f"  duty        {d.duty.source}; {d.duty.cycles.n_total:g} cycles per block, drive {d.duty.drive} [{unit}]")
+    lines.append(f"  duty        {d.duty.source}; {d.duty.cycles.n_total:g} cycles per block, {d.duty.drive} at the load point")
     lines.append("")
     lines.append(f"  life        {_life(result.life_cycles, 'cycles')}")
     lines.append(f"              {_life(result.life_blocks, 'blocks of the duty')}")
