@@ -130,56 +130,33 @@ def size(design: Design, target_blocks: float, vary: str) -> SizingResult:
         )
     grows = probe > base
 
-    def ok(value: float) -> bool:
-        return value >= target_blocks
+    # Search in u, with the life non-decreasing in u: u = s when the life grows with s, u = 1/s otherwise.
+    def reaches(u: float) -> bool:
+        return life(u if grows else 1.0 / u) >= target_blocks
+
+    def at(u: float) -> str:
+        return f"{vary} × {(u if grows else 1.0 / u):g}"
 
     lo_lim, hi_lim = SCALE_LIMITS
-    if grows:  # smallest s with life >= target: bracket [bad, good]
-        bad, good = (None, 1.0) if ok(base) else (1.0, None)
-        while good is None:
-            bad_s = bad if bad is not None else 1.0
-            s = bad_s * 2
-            if s > hi_lim:
-                raise InputError(f"--life {target_blocks:g}: not reached even at {vary} × {hi_lim:g}")
-            if ok(life(s)):
-                good = s
-            else:
-                bad = s
-        while bad is None:
-            s = good / 2
-            if s < lo_lim:
-                raise InputError(f"--life {target_blocks:g}: reached even at {vary} × {lo_lim:g}; no sizing answer")
-            if ok(life(s)):
-                good = s
-            else:
-                bad = s
-    else:  # the life falls with s: largest s with life >= target: bracket [good, bad]
-        good, bad = (1.0, None) if ok(base) else (None, 1.0)
-        while bad is None:
-            s = good * 2
-            if s > hi_lim:
-                raise InputError(f"--life {target_blocks:g}: reached even at {vary} × {hi_lim:g}; no sizing answer")
-            if ok(life(s)):
-                good = s
-            else:
-                bad = s
-        while good is None:
-            s = bad / 2
-            if s < lo_lim:
-                raise InputError(f"--life {target_blocks:g}: not reached even at {vary} × {lo_lim:g}")
-            if ok(life(s)):
-                good = s
-            else:
-                bad = s
-    while abs(good / bad - 1.0) > TOLERANCE:
+    good, bad = (1.0, None) if base >= target_blocks else (None, 1.0)
+    while good is None:  # grow u until the target is reached
+        u = bad * 2.0
+        if u > hi_lim:
+            raise InputError(f"--life {target_blocks:g}: not reached even at {at(hi_lim)}")
+        good, bad = (u, bad) if reaches(u) else (None, u)
+    while bad is None:  # shrink u until it is not: the answer lies between
+        u = good / 2.0
+        if u < lo_lim:
+            raise InputError(f"--life {target_blocks:g}: reached even at {at(lo_lim)}; no sizing answer")
+        good, bad = (u, None) if reaches(u) else (good, u)
+    while good / bad - 1.0 > TOLERANCE:  # geometric bisection
         mid = math.sqrt(good * bad)
-        if ok(life(mid)):
-            good = mid
-        else:
-            bad = mid
+        good, bad = (mid, bad) if reaches(mid) else (good, mid)
+    # step 1e-5 to the safe side so that the 6-digit values of the written file still reach the target
+    good = good * (1 + 1e-5) if grows else (1 - 1e-5) / good
 
     text = sized_text(design, vary, good)
-    # the written file is the answer: read it back and check it reaches the target (rounding to 6 digits)
+    # the written file is the answer: its figures come from reading it back (values rounded to 6 digits)
     sized = parse_design(tomlkit.parse(text).unwrap(), "sized.toml",
                          design.path.parent if design.path else Path.cwd())
     result = estimate(sized)
