@@ -9,6 +9,7 @@ percent sign (``"2.1 %"``).
 from __future__ import annotations
 
 import math
+import tokenize
 
 import pint
 
@@ -16,6 +17,12 @@ from mechanics.errors import InputError
 
 UREG = pint.UnitRegistry()
 UREG.define("percent = 0.01 = %")  # strain given in percent, e.g. "2.1 %"
+UREG.define("Msi = 1e6 * psi")  # million psi, the unit composite moduli are quoted in (common practice)
+
+# Everything pint's parser may raise on text that is no quantity (its tokenizer and evaluator let
+# tokenize, assertion and division errors through): all of it is a wrong input, never an internal fault.
+PARSE_ERRORS = (pint.errors.PintError, ValueError, TypeError, SyntaxError, AttributeError,
+                tokenize.TokenError, AssertionError, ZeroDivisionError)
 
 # Quantity kinds used in design and material files, with the pint dimensionality
 # each must have and the SI unit it is reduced to.
@@ -44,10 +51,14 @@ def _quantity(value: object, where: str) -> pint.Quantity:
         return UREG.Quantity(float(value), "")
     if not isinstance(value, str):
         raise InputError(f"{where}: expected a quantity as a string with a unit, got {value!r}")
+    if "," in value or ";" in value:
+        # pint would drop a decimal comma ("38,6 GPa" -> 386 GPa): ambiguous, never guessed
+        raise InputError(f"{where}: cannot read {value!r}: write the number with a decimal point and no "
+                         f"separators, e.g. \"38.6 GPa\"")
     text = value.strip().replace("^", "**")
     try:
         return UREG.Quantity(text)
-    except (pint.errors.PintError, ValueError, TypeError, SyntaxError, AttributeError) as exc:
+    except PARSE_ERRORS as exc:
         raise InputError(f"{where}: cannot read {value!r} as a quantity ({exc})") from None
 
 
@@ -72,9 +83,14 @@ def parse_quantity(value: object, kind: str, where: str) -> float:
             raise InputError(f"{where}: a strain is a ratio, got {value!r}; write e.g. {EXAMPLES[kind]}")
         number = float(q.to("").magnitude)
     else:
-        if q.dimensionless:
+        if q.unitless:
             raise InputError(
                 f"{where}: {value!r} has no unit; a {kind} needs one, e.g. {EXAMPLES[kind]}"
+            )
+        if q.dimensionless:  # an angle or ratio unit; pint reads "mil" as the angular mil
+            raise InputError(
+                f"{where}: {value!r} is not a {kind} (pint reads {q.units:~} as dimensionless, an angle or a "
+                f"ratio); write e.g. {EXAMPLES[kind]}"
             )
         if q.dimensionality != UREG.Quantity(1, si_unit).dimensionality:
             raise InputError(
@@ -90,7 +106,7 @@ def unit_factor(unit: str, where: str) -> float:
     """SI value of one ``unit`` (``"mm"`` → 0.001, ``"lbf"`` → 4.448…); for scaling a data column."""
     try:
         q = UREG.Quantity(1.0, unit.strip().replace("^", "**"))
-    except (pint.errors.PintError, ValueError, TypeError, SyntaxError, AttributeError) as exc:
+    except PARSE_ERRORS as exc:
         raise InputError(f"{where}: unknown unit {unit!r} ({exc})") from None
     return float(q.to_base_units().magnitude) if not q.dimensionless else float(q.to("").magnitude)
 
