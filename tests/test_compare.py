@@ -1,0 +1,239 @@
+"""Side-by-side comparison, life/compare.py (DESIGN.md, outputs contract: comparison.csv and comparison.html).
+
+The candidates are cantilevers of one homogeneous unidirectional 0° material (a user material, so its
+G13 is stated), loaded at the tip by a force block table. For them the rectangular-section formulas hold
+(Roark's Formulas for Stress and Strain, 7th ed., Table 8.1 case 1a; REFERENCES.md, rectangular section):
+σ = 6FL/(bh²), δ = 4FL³/(Ebh³), plus the Timoshenko shear deflection FL/(κ·G13·b·h) with κ = 5/6.
+"""
+from __future__ import annotations
+
+import html
+import math
+import re
+import sys
+from pathlib import Path
+
+import numpy as np
+import pandas as pd
+import pytest
+
+from life import cli
+from life.compare import COLUMNS, comparison_html, comparison_table
+from life.design import load_design
+from life.estimate import CAUTION, estimate
+
+# DESIGN.md, outputs contract: comparison.csv has at least these columns
+CONTRACT = ["title", "life_blocks", "life_cycles", "mass_kg", "stiffness_n_per_m", "peak_energy_j",
+            "specific_energy_j_per_kg", "critical_mode"]
+
+# invented test material (the "my-glass" of DESIGN.md's design-file example, with G13 stated)
+E1, G13, RHO = 40e9, 4e9, 1900.0  # Pa, Pa, kg/m³
+L, B, T_PLY = 0.200, 0.020, 0.5e-3  # span, width, ply thickness [m]
+
+MATERIAL = """\
+[material.test-glass]
+E1 = "40 GPa"
+E2 = "10 GPa"
+G12 = "4 GPa"
+G13 = "4 GPa"
+nu12 = 0.28
+density = "1900 kg/m^3"
+Xt = "1000 MPa"
+Xc = "600 MPa"
+Yt = "40 MPa"
+Yc = "140 MPa"
+S12 = "70 MPa"
+[material.test-glass.fatigue]
+form = "power"
+R = -1
+S1 = "800 MPa"
+m = 10
+"""
+
+
+def candidate(title: str, count: int, force: str = "20 N", extra_curve: str = "") -> str:
+    """A 200 mm × 20 mm cantilever of ``count`` 0° plies of 0.5 mm; 1000 cycles 0 → ``force`` per block."""
+    return f"""\
+title = "{title}"
+[beam]
+support = "cantilever"
+span = "200 mm"
+width = "20 mm"
+stations = 6
+
+[[ply]]
+material = "test-glass"
+angle = 0
+thickness = "0.5 mm"
+count = {count}
+
+[duty]
+drive = "force"
+cycles = [ {{ min = "0 N", max = "{force}", count = 1000 }} ]
+
+{MATERIAL.replace('m = 10', 'm = 10' + extra_curve)}"""
+
+
+@pytest.fixture(scope="module")
+def files(tmp_path_factory):
+    """Three candidate files: thin (4 plies, h = 2 mm), thick (8 plies, h = 4 mm), and one whose cycles lie
+    below a fatigue limit (unbounded life)."""
+    folder = tmp_path_factory.mktemp("candidates")
+    texts = {
+        "thin.toml": candidate("thin <4 plies> & co", 4),
+        "thick.toml": candidate("thick, 8 plies", 8),
+        "safe.toml": candidate("below the limit", 8, force="2 N", extra_curve='\nlimit = "100 MPa"'),
+    }
+    for name, text in texts.items():
+        (folder / name).write_text(text, encoding="utf-8")
+    return {name.removesuffix(".toml"): folder / name for name in texts}
+
+
+@pytest.fixture(scope="module")
+def results(files):
+    return {name: estimate(load_design(path)) for name, path in files.items()}
+
+
+def test_rows_are_the_designs_in_order_with_the_contract_columns(results):
+    order = ["thin", "thick", "safe"]
+    table = comparison_table([results[n] for n in order])
+    assert set(CONTRACT) <= set(table.columns)
+    assert list(table.columns) == COLUMNS
+    assert len(table) == 3
+    assert list(table["title"]) == [results[n].design.title for n in order]
+    assert list(table["file"]) == [f"{n}.toml" for n in order]
+
+
+@pytest.mark.parametrize("name", ["thin", "thick", "safe"])
+def test_contract_columns_equal_each_designs_own_summary(results, name):
+    """Each row holds its design's summary.json figures (DESIGN.md: the comparison is of the summaries)."""
+    s = results[name].summary()
+    row = comparison_table([results["thin"], results["thick"], results["safe"]]).set_index("file").loc[f"{name}.toml"]
+    for key in ["mass_kg", "stiffness_n_per_m", "peak_energy_j", "specific_energy_j_per_kg"]:
+        assert row[key] == s[key], key
+    for key in ["life_blocks", "life_cycles"]:
+        if s[key] is None:
+            assert row[key] is None or math.isnan(row[key]), key
+        else:
+            assert row[key] == s[key], key
+    assert row["title"] == s["title"]
+    assert row["critical_mode"] == s["critical"]["mode"]
+    assert row["critical_ply"] == s["critical"]["ply"]
+    assert row["warnings"] == len(s["warnings"])
+
+
+def test_thickness_doubled_closed_form(results):
+    """Same cantilever and force, twice as thick (h = 2 → 4 mm), one homogeneous 0° material.
+
+    Hand calculation (Roark 7th ed., Table 8.1 case 1a; rectangular section, REFERENCES.md):
+    - bending compliance 4L³/(E1·b·h³): thin 4·0.008/(40e9·0.02·0.002³) = 5.000e-3 m/N; thick 6.250e-4 m/N (÷8)
+    - shear compliance L/(κ·G13·b·h), κ = 5/6 (Timoshenko): thin 0.2/(5/6·4e9·0.02·0.002) = 1.5e-6 m/N;
+      thick 7.5e-7 m/N (÷2). Shear share of the compliance: thin 0.030 %, thick 0.12 % — bending-dominated,
+      so the stiffness ratio (5.0015e-3)/(6.2575e-4) = 7.9928 is 8 to within 0.1 %.
+    - mass ρ·b·h·L: thin 1900·0.02·0.002·0.2 = 0.0152 kg; thick 0.0304 kg (×2)
+    - root stress 6FL/(bh²) at F = 20 N: thin 6·20·0.2/(0.02·0.002²) = 300 MPa, thick 75 MPa (÷4);
+      strain σ/E1 (a homogeneous 0° narrow beam: 1/d11 = E1·h³/12): 7.5e-3 and 1.875e-3.
+    - energy at peak ½·C·F²: ratio = compliance ratio = 1/7.9928.
+    """
+    thin, thick = results["thin"].summary(), results["thick"].summary()
+
+    def compliance(h):
+        return 4 * L**3 / (E1 * B * h**3) + L / (5 / 6 * G13 * B * h)
+
+    c_thin, c_thick = compliance(4 * T_PLY), compliance(8 * T_PLY)
+    shear_share_thin = (L / (5 / 6 * G13 * B * 4 * T_PLY)) / c_thin
+    assert shear_share_thin == pytest.approx(3.0e-4, rel=1e-3)  # the hand value above (4 digits)
+
+    # rel 1e-9: closed forms of a homogeneous section, computed exactly by the code (no rounding)
+    assert 1 / thin["stiffness_n_per_m"] == pytest.approx(c_thin, rel=1e-9)
+    assert thick["stiffness_n_per_m"] / thin["stiffness_n_per_m"] == pytest.approx(c_thin / c_thick, rel=1e-9)
+    # the pure-bending rule of thumb: ×8 within the shear share (0.1 % here)
+    assert thick["stiffness_n_per_m"] / thin["stiffness_n_per_m"] == pytest.approx(8.0, rel=1e-3)
+    assert thick["mass_kg"] / thin["mass_kg"] == pytest.approx(2.0, rel=1e-12)
+    assert thin["mass_kg"] == pytest.approx(0.0152, rel=1e-12)
+    assert thin["peak_strain"] == pytest.approx(300e6 / E1, rel=1e-9)
+    assert thick["peak_strain"] / thin["peak_strain"] == pytest.approx(0.25, rel=1e-9)
+    assert thick["peak_energy_j"] / thin["peak_energy_j"] == pytest.approx(c_thick / c_thin, rel=1e-9)
+    # a quarter of the stress lives far longer under the same force
+    assert thick["life_blocks"] > thin["life_blocks"]
+
+
+def test_unbounded_reads_unbounded_in_the_page(results):
+    """A design without damaging cycles has life null in its summary; the page writes 'unbounded'."""
+    rs = [results["thin"], results["safe"]]
+    assert results["safe"].summary()["life_blocks"] is None
+    page = comparison_html(comparison_table(rs), rs)
+    assert "unbounded" in page
+
+
+def test_comparison_html_is_self_contained_with_titles_warnings_and_caution(results):
+    rs = [results["thin"], results["thick"], results["safe"]]
+    page = comparison_html(comparison_table(rs), rs)
+    assert page.startswith("<!DOCTYPE html>")
+    assert not re.search(r"""(src|href)\s*=""", page, re.IGNORECASE)  # nothing fetched from outside
+    assert html.escape(CAUTION) in page
+    for r in rs:
+        assert html.escape(r.design.title) in page
+        for w in r.warnings:
+            assert html.escape(w) in page
+    assert "thin <4 plies>" not in page  # the title is escaped, not markup
+    assert page.count("<tr>") == 1 + len(rs)  # header and one row per design
+
+
+def bendlife(args, monkeypatch, capsys):
+    """Run ``bendlife ARGS`` in-process through the console entry point; (exit code, stdout, stderr)."""
+    monkeypatch.setattr(sys, "argv", ["bendlife", *map(str, args)])
+    saved = np.geterr()  # main() silences numpy's floating-point warnings process-wide; give them back
+    try:
+        cli.main()
+        code = 0
+    except SystemExit as exc:
+        code = 0 if exc.code is None else int(exc.code)
+    finally:
+        np.seterr(**saved)
+    captured = capsys.readouterr()
+    return code, captured.out, captured.err
+
+
+def test_cli_compare_writes_csv_and_html(files, results, tmp_path, monkeypatch, capsys):
+    """`bendlife compare A B --out DIR`: exit 0, comparison.csv with a row per design in the given order
+    and each design's summary figures, comparison.html beside it."""
+    out = tmp_path / "cmp"
+    code, stdout, err = bendlife(["compare", files["thin"], files["thick"], "--out", out], monkeypatch, capsys)
+    assert code == 0, err
+    assert (out / "comparison.html").is_file()
+    table = pd.read_csv(out / "comparison.csv")
+    assert set(CONTRACT) <= set(table.columns)
+    assert list(table["title"]) == ["thin <4 plies> & co", "thick, 8 plies"]
+    for (_, row), name in zip(table.iterrows(), ["thin", "thick"]):
+        s = results[name].summary()
+        for key in ["life_blocks", "life_cycles", "mass_kg", "stiffness_n_per_m", "peak_energy_j",
+                    "specific_energy_j_per_kg"]:
+            assert row[key] == pytest.approx(s[key], rel=1e-8), key  # rel 1e-8: the CSV has 9 digits
+        assert row["critical_mode"] == s["critical"]["mode"]
+    assert "caution" in stdout
+    assert "thin <4 plies>" in stdout and "thick, 8 plies" in stdout
+
+
+def test_cli_compare_unbounded_is_an_empty_cell(files, tmp_path, monkeypatch, capsys):
+    """Strict figures: an unbounded life is an empty CSV cell (no 'inf' or 'nan' text), the page says 'unbounded'."""
+    out = tmp_path / "cmp"
+    code, stdout, err = bendlife(["compare", files["thick"], files["safe"], "--out", out], monkeypatch, capsys)
+    assert code == 0, err
+    text = (out / "comparison.csv").read_text(encoding="utf-8")
+    assert "inf" not in text.lower() and "nan" not in text.lower()
+    table = pd.read_csv(out / "comparison.csv")
+    assert math.isnan(table.loc[1, "life_blocks"]) and math.isnan(table.loc[1, "life_cycles"])
+    assert "unbounded" in (out / "comparison.html").read_text(encoding="utf-8")
+    assert "unbounded" in stdout
+
+
+def test_cli_compare_wrong_design_exits_2_and_writes_nothing(files, tmp_path, monkeypatch, capsys):
+    """One wrong candidate: exit 2, one message naming its file, no comparison written (DESIGN.md exit codes)."""
+    wrong = tmp_path / "wrong.toml"
+    wrong.write_text(candidate("wrong", 4).replace('span = "200 mm"', 'span = "200"'), encoding="utf-8")
+    out = tmp_path / "cmp"
+    code, _, err = bendlife(["compare", files["thin"], wrong, "--out", out], monkeypatch, capsys)
+    assert code == 2
+    assert "wrong.toml" in err and "span" in err and "Traceback" not in err
+    assert not (out / "comparison.csv").exists()
