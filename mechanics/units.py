@@ -9,6 +9,7 @@ percent sign (``"2.1 %"``).
 from __future__ import annotations
 
 import math
+import re
 import tokenize
 
 import pint
@@ -44,6 +45,12 @@ EXAMPLES = {
 }
 
 
+# One number, then a unit expression whose only digits are exponents ("kg/m^3"): pint would multiply
+# side-by-side numbers ("5 mm 2" → 10 mm) and read a bare unit as one of it ("mm" → 1 mm).
+_NUMBER_THEN_UNIT = re.compile(r"^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?(?P<unit>.*)$")
+_EXPONENT = re.compile(r"(\*\*|\^)\s*[-+]?\d+(\.\d+)?")
+
+
 def _quantity(value: object, where: str) -> pint.Quantity:
     if isinstance(value, bool):
         raise InputError(f"{where}: expected a quantity, got {value!r}")
@@ -55,6 +62,9 @@ def _quantity(value: object, where: str) -> pint.Quantity:
         # pint would drop a decimal comma ("38,6 GPa" -> 386 GPa): ambiguous, never guessed
         raise InputError(f"{where}: cannot read {value!r}: write the number with a decimal point and no "
                          f"separators, e.g. \"38.6 GPa\"")
+    match = _NUMBER_THEN_UNIT.match(value)
+    if match is None or re.search(r"\d", _EXPONENT.sub("", match.group("unit"))):
+        raise InputError(f"{where}: cannot read {value!r}: write one finite number and its unit, e.g. \"0.8 mm\"")
     text = value.strip().replace("^", "**")
     try:
         return UREG.Quantity(text)
@@ -108,7 +118,12 @@ def unit_factor(unit: str, where: str) -> float:
         q = UREG.Quantity(1.0, unit.strip().replace("^", "**"))
     except PARSE_ERRORS as exc:
         raise InputError(f"{where}: unknown unit {unit!r} ({exc})") from None
-    return float(q.to_base_units().magnitude) if not q.dimensionless else float(q.to("").magnitude)
+    factor = float(q.to_base_units().magnitude) if not q.dimensionless else float(q.to("").magnitude)
+    twice = UREG.Quantity(2.0, unit.strip().replace("^", "**"))
+    if not math.isclose(float(twice.to_base_units().magnitude), 2.0 * factor, rel_tol=1e-12):
+        raise InputError(f"{where}: {unit!r} is an offset unit (like a temperature scale); a data column needs a "
+                         "unit that scales, e.g. mm or N")
+    return factor
 
 
 def is_dimensionless(value: object, where: str) -> bool:

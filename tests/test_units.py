@@ -213,3 +213,24 @@ def test_unit_factor_agrees_with_parse_quantity(x):
     got = parse_quantity(f"{x!r} lbf", "force", WHERE)
     assert got == pytest.approx(x * unit_factor("lbf", WHERE), rel=EXACT, abs=1e-300)
     assert math.isfinite(got)
+
+
+@pytest.mark.parametrize("text", ["5 mm 2", "mm", "2 3 mm", "5 mm * 2"])
+def test_one_number_and_its_unit(text):
+    """pint multiplies side-by-side numbers ("5 mm 2" → 10 mm) and reads a bare unit as one of it: both are
+    refused, never guessed."""
+    with pytest.raises(InputError, match="one finite number and its unit"):
+        parse_quantity(text, "length", WHERE)
+
+
+def test_exponents_in_units_are_allowed():
+    """Only exponents may carry digits in the unit: kg/m^3, kg/m**3, N/mm^2 (1 N/mm² = 1 MPa, SI definition)."""
+    assert parse_quantity("1800 kg/m^3", "density", WHERE) == pytest.approx(1800.0, rel=1e-15)
+    assert parse_quantity("1800 kg/m**3", "density", WHERE) == pytest.approx(1800.0, rel=1e-15)
+    assert parse_quantity("1062 N/mm^2", "stress", WHERE) == pytest.approx(1062e6, rel=1e-15)
+
+
+def test_offset_units_cannot_scale_a_column():
+    """degC has an offset (0 °C = 273.15 K): a column in it cannot be turned to SI by one factor."""
+    with pytest.raises(InputError, match="offset unit"):
+        unit_factor("degC", WHERE)
