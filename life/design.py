@@ -257,7 +257,7 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str]) -> Duty:
             if steady:
                 notes.append(f"{where} cycles rows {', '.join(map(str, steady))}: min = max, a steady load with no "
                              "cycle; left out of the fatigue count")
-            source = f"block table, {len(rows)} rows"
+            source = f"block table, {len(rows)} row{'s' if len(rows) != 1 else ''}"
             signal = None
     except (mechanics_errors.InputError, spectra_errors.InputError) as exc:
         raise InputError(str(exc)) from None
