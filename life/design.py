@@ -126,7 +126,7 @@ def _choice(value: Any, choices: tuple, where: str) -> str:
     return value
 
 
-def _beam(doc: Mapping, plies: tuple[Ply, ...], name: str) -> Beam:
+def _beam(doc: Mapping, plies: tuple[Ply, ...], name: str, notes: list[str]) -> Beam:
     t = _table(doc, "beam", name)
     _unknown(t, BEAM_KEYS, f"{name} [beam]")
     support = _choice(_require(t, "support", f"{name} [beam]"), SUPPORTS, f"{name} [beam] support")
@@ -140,6 +140,10 @@ def _beam(doc: Mapping, plies: tuple[Ply, ...], name: str) -> Beam:
         root = tip = parse_quantity(width, "length", f"{name} [beam] width")
     spacing = t.get("load_spacing")
     spacing = None if spacing is None else parse_quantity(spacing, "length", f"{name} [beam] load_spacing")
+    if spacing is not None and support != "four-point":
+        notes.append(f"{name} [beam] load_spacing: only four-point bending has two load points; ignored for "
+                     f"support = {support!r}")
+        spacing = None
     section = _choice(t.get("section", "beam"), SECTIONS, f"{name} [beam] section")
     stations = t.get("stations", DEFAULT_STATIONS)
     if isinstance(stations, bool) or not isinstance(stations, int) or not 2 <= stations <= 2000:
@@ -284,7 +288,7 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
         raise InputError(str(exc)) from None
     try:
         plies = _plies(doc, materials, name, notes)
-        beam = _beam(doc, plies, name)
+        beam = _beam(doc, plies, name, notes)
     except mechanics_errors.InputError as exc:  # a missing unit or wrong dimension (mechanics.units)
         raise InputError(str(exc)) from None
     duty = _duty(doc, name, base_dir, notes)

@@ -26,16 +26,17 @@ from spectra.profiles import bundled_profile
 INCH = 0.0254  # m per in, exact (NIST SP 811, App. B)
 LBF = 0.45359237 * 9.80665  # N per lbf, exact: avoirdupois pound × standard gravity (NIST SP 811, App. B)
 
-# The example design of DESIGN.md ("Design file v1"), with two changes the contract's comments ask for:
-# `load_spacing` is left out ("four-point only"; the loader rejects it for a cantilever), and a
-# full-length [[ply]] of the user material is added, since the example's only ply row ends at 300 mm of
-# the 420 mm span and a beam needs at least one ply that runs its whole length.
+# The example design of DESIGN.md ("Design file v1"), with one change: a full-length [[ply]] of the user
+# material is added, since the example's only ply row ends at 300 mm of the 420 mm span and a beam needs
+# at least one ply that runs its whole length. Its `load_spacing` ("four-point only") is kept: the loader
+# ignores it for a cantilever and says so.
 DESIGN_MD_EXAMPLE = """\
 title = "Cargo-bike rear spring, glass/epoxy"
 [beam]
 support = "cantilever"        # cantilever | three-point | four-point | guided
 span = "420 mm"
 width = "50 mm"
+load_spacing = "140 mm"       # four-point only: distance between the two load points
 section = "beam"              # beam | plate
 
 [[ply]]                       # from the tension face (under positive drive) to the other face
@@ -168,6 +169,7 @@ def test_design_md_example_geometry_in_si(example):
     assert b.width_tip == pytest.approx(0.05, rel=1e-12)
     assert b.section == "beam"
     assert b.load_spacing is None
+    assert any("load_spacing" in n and "ignored" in n for n in example.notes)
 
 
 def test_design_md_example_plies_expanded_by_count(example):
