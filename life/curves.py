@@ -46,7 +46,9 @@ class SNCurve:
     m : float | None — inverse slope of a power curve [-], > 1
     b : float | None — fraction of S1 lost per decade of cycles of a log-linear curve [-], 0 < b < 1
     limit : float | None — fatigue-limit amplitude at this R [Pa or -], 0 <= limit < S1:
-        amplitudes at or below it do no damage (N = inf)
+        amplitudes at or below it do no damage (N = inf); under a mean-stress rule it sets the
+        rule's fatigue-limit diagram (a positive limit is a vertex of the cld one; Notes of
+        ``life.meanstress.FatigueModel``)
     knee : float | None — cycles at the knee [-], > 1; beyond it the slope m2 (power) or b2
         (log-linear) applies, continuous at the knee
     m2 : float | None — inverse slope beyond the knee of a power curve [-], > 1

@@ -13,6 +13,11 @@ A local cycle runs between its extremes lo <= hi (in the curve's basis: stress [
 - ``cld``: the piecewise-linear constant-life diagram of Philippidis & Vassilopoulos (recalled)
   through the curves at two or more R.
 
+Fatigue limits, one rule for all four: a cycle does no damage (N = inf) when it lies at or inside
+the rule's *fatigue-limit diagram*, the rule's constant-life diagram drawn through the curves'
+fatigue-limit amplitudes instead of the amplitudes at a life N (see ``FatigueModel``); outside it
+N comes from the rule's constant-life diagram.
+
 All sources are listed in /work/shared/REFERENCES.md ("Fatigue of fibre composites").
 Everything is vectorized over the cycles: Goodman and Gerber are inverted in closed form; the
 constant-life diagram is solved with exact ray geometry (see ``FatigueModel``).
@@ -201,6 +206,37 @@ class FatigueModel:
     the sectors between two tested rays the left side rises monotonically with N and is solved
     by a vectorized Illinois (modified regula falsi) iteration in log10 N, bracketed in closed
     form by the two curves' own lives, to |Δ log10 N| < ``CLD_TOL_LOG10N`` (1e-9 decades).
+
+    Fatigue limits (our choice, one rule for every ``rule``): a cycle does no damage, N = inf,
+    when it lies at or inside the fatigue-limit diagram read along the cycle's ray; outside it N
+    comes from the constant-life diagram above, in which each curve's amplitude is a(N) =
+    max(a(N), limit) (``SNCurve``).
+
+    - goodman / gerber: the Goodman lines (Gerber parabolas) through the curve's limit point
+      (σm_R, limit) and (Xt, 0) or (−Xc, 0); inside means σa_R <= limit, the single curve's own
+      test on the equivalent amplitude. none: σa <= limit at any mean.
+    - cld: the piecewise-linear diagram through (−Xc, 0), the limit points limit_i·(r_i, 1) of
+      the curves with a limit > 0, ordered by ray, and (Xt, 0), split into sectors exactly like
+      the constant-life diagram: inside when s_j/limit_j + s_j+1/limit_j+1 <= 1. A curve without
+      a limit, or with a zero limit, contributes no vertex: its ray is crossed by the segment
+      joining its neighbouring vertices, so below that segment its cycles do no damage even
+      though its own curve, alone, has no limit (``model_warnings`` says so). A zero limit is
+      not made a vertex at the origin because that would pinch the diagram to nothing on both
+      neighbouring sectors and fold it, so that a limit next to it would protect only the
+      cycles lying exactly on its own ray. Without any positive limit nothing is inside. On the
+      ray of a curve with a limit, the diagram's radius is that limit, so there the model gives
+      exactly that curve's own lives: inf at or below its limit, the curve's life above it.
+
+    Monotone along every ray: the constant-life diagrams shrink as N grows (each a(N) is
+    non-increasing), so outside the fatigue-limit diagram N falls with the distance from the
+    origin, and the fatigue-limit diagram is star-shaped about the origin, so a cycle inside it
+    never lies beyond one outside it on the same ray; N is nowhere capped or raised to a
+    saturation life, it continues from the constant-life diagram and jumps from inf to that N at
+    the fatigue-limit diagram. In the sectors next to a curve without a limit this N can be far
+    below the saturation lives of the limited curves (the constant-life diagram there closes on
+    the origin as N grows). Monotone in amplitude at fixed mean (and in tensile mean at fixed
+    amplitude) where neither diagram folds back (and both fall with mean on the tension side);
+    ``model_warnings`` reports folds of either.
     """
 
     rule: str
@@ -217,9 +253,12 @@ class FatigueModel:
         lo : np.ndarray — local minimum of each cycle, in the curve's basis [Pa or -]
         hi : np.ndarray — local maximum of each cycle, lo <= hi elementwise [Pa or -]
 
-        N = inf where the cycle does no damage (zero amplitude, or equivalent amplitude at or
-        below the fatigue limit); N = 0 where the cycle exceeds static strength (hi > Xt or
-        lo < −Xc), which the caller reports.
+        N = inf where the cycle does no damage (zero amplitude, or at or inside the fatigue-limit
+        diagram, see Notes of ``FatigueModel``); N = 0 where the cycle exceeds static strength
+        (hi > Xt or lo < −Xc), which the caller reports, and (cld) where the diagram's end line
+        from (−Xc, 0) or (Xt, 0) cannot reach the cycle at any life (possible inside the static
+        strengths only when every curve has 0 < R < 1, or every curve has R > 1;
+        ``model_warnings`` says so).
         """
         lo, hi = np.asarray(lo, dtype=float), np.asarray(hi, dtype=float)
         if lo.shape != hi.shape:
@@ -274,7 +313,13 @@ def model_warnings(model: FatigueModel, where: str = "") -> list[str]:
       are then set by the static check, not by the curve (common practice: S1 at most the
       static strength);
     - cld: a diagram whose vertices, ordered by ray, are not ordered by mean at some life
-      (the diagram folds back; read along rays it is still defined).
+      (the diagram folds back; read along rays it is still defined), and the same for the
+      fatigue-limit diagram;
+    - cld: a curve without a (positive) fatigue limit whose ray the fatigue-limit diagram of the
+      other curves crosses: its cycles below that diagram do no damage although its own curve,
+      alone, gives them a finite life (Notes of ``FatigueModel``);
+    - cld: every curve at 0 < R < 1 (or every curve at R > 1): cycles on the far side of the
+      diagram's end line from (−Xc, 0) (or (Xt, 0)) get N = 0 inside the static strengths.
     """
     at = f"{where}: " if where else ""
     out: list[str] = []
@@ -297,37 +342,113 @@ def model_warnings(model: FatigueModel, where: str = "") -> list[str]:
                     f"ordered by mean); it is read along rays, so lives stay defined but check the curves"
                 )
                 break
+        out += _limit_diagram_warnings(model, order, at)
+    return out
+
+
+def _limit_diagram_warnings(model: FatigueModel, order: list[SNCurve], at: str) -> list[str]:
+    # warnings on the cld fatigue-limit diagram and the reach of the diagram's end lines
+    out: list[str] = []
+    limited = [c for c in order if c.limit]
+    means = [mean_ratio(c.R) * c.limit for c in limited]
+    if any(b < a for a, b in zip(means, means[1:])):
+        out.append(
+            f"{at}the fatigue-limit diagram folds back (limit points ordered by R are not ordered by mean); "
+            f"it is read along rays, so lives stay defined but check the limits"
+        )
+    for c in order:
+        if c.limit:
+            continue
+        r = mean_ratio(c.R)
+        load = float(_limit_diagram_load(model, np.array([1.0]), np.array([r]))[0])
+        if load < math.inf:
+            rho = 1.0 / load
+            N = float(c.cycles(np.array(rho)))
+            out.append(
+                f"{at}the curve at R = {c.R:g} has {'a zero' if c.limit == 0.0 else 'no'} fatigue limit, but the fatigue-limit diagram of the other "
+                f"curves crosses its ray at amplitude {rho:.4g}: its cycles up to there do no damage, where its "
+                f"own curve gives N = {N:.3g} at that amplitude; give it a limit to set this"
+            )
+    r = [mean_ratio(c.R) for c in order]
+    if r[0] > 1.0 or r[-1] < -1.0:
+        side, X = ("compression", "(-Xc, 0)") if r[0] > 1.0 else ("tension", "(Xt, 0)")
+        out.append(
+            f"{at}all curves of the constant-life diagram are at R {'between 0 and 1' if r[0] > 1.0 else 'above 1'}: "
+            f"on the {side} side its end line from {X} cannot reach some cycles inside the static strengths, "
+            f"which then get N = 0 (failure on first loading); add a curve at R = -1"
+        )
     return out
 
 
 # ---------------------------------------------------------------------------------------------
 # Constant-life diagram.
 
+@dataclass(frozen=True)
+class _Split:
+    """A cycle's sector among ascending rays r and its split (σm, σa) = s_lo u + s_hi v on the
+    sector's two vertex directions u, v: (−1, 0) and w_0 (sector 0), w_j and w_j+1 (sector j+1),
+    w_n−1 and (1, 0) (sector n), with w_j = (r_j, 1)."""
+
+    sector: np.ndarray
+    s_lo: np.ndarray
+    s_hi: np.ndarray
+
+
+def _split(r: np.ndarray, sa: np.ndarray, sm: np.ndarray) -> _Split:
+    n = r.size
+    sector = np.searchsorted(r, sm / sa, side="right")  # 0: compression end, n: tension end
+    s_lo, s_hi = np.empty_like(sa), np.empty_like(sa)
+    k = sector == 0  # (−1, 0) and w_0: s_lo = r_0 σa − σm, s_hi = σa
+    s_lo[k], s_hi[k] = r[0] * sa[k] - sm[k], sa[k]
+    k = sector == n  # w_n−1 and (1, 0): s_lo = σa, s_hi = σm − r_n−1 σa
+    s_lo[k], s_hi[k] = sa[k], sm[k] - r[-1] * sa[k]
+    for j in range(n - 1):
+        k = sector == j + 1
+        s_hi[k] = (sm[k] - r[j] * sa[k]) / (r[j + 1] - r[j])
+        s_lo[k] = sa[k] - s_hi[k]
+    return _Split(sector, s_lo, s_hi)
+
+
+def _limit_diagram_load(model: FatigueModel, sa: np.ndarray, sm: np.ndarray) -> np.ndarray:
+    """s_j/limit_j + s_j+1/limit_j+1 [-] of cycles (σa > 0, σm) on the cld fatigue-limit diagram
+    (Notes of ``FatigueModel``): <= 1 at or inside it; inf without a curve with a limit > 0."""
+    limited = sorted((c for c in model.curves if c.limit), key=lambda c: mean_ratio(c.R))
+    if not limited:
+        return np.full_like(sa, np.inf)
+    r = np.array([mean_ratio(c.R) for c in limited])
+    A = np.array([model.Xc] + [c.limit for c in limited] + [model.Xt])  # vertex amplitudes, by sector end
+    split = _split(r, sa, sm)
+    return split.s_lo / A[split.sector] + split.s_hi / A[split.sector + 1]
+
+
 def _cld_cycles(model: FatigueModel, sa: np.ndarray, sm: np.ndarray) -> np.ndarray:
-    """Lives [-] of cycles (σa > 0, σm) on the piecewise-linear constant-life diagram."""
+    """Lives [-] of cycles (σa > 0, σm): inf at or inside the fatigue-limit diagram, else the N
+    of the piecewise-linear constant-life diagram through the cycle."""
     curves = sorted(model.curves, key=lambda c: mean_ratio(c.R))
     r = np.array([mean_ratio(c.R) for c in curves])
     n = len(curves)
-    rc = sm / sa
-    sector = np.searchsorted(r, rc, side="right")  # 0: compression end, n: tension end
-    N = np.empty_like(sa)
-
-    # compression end sector, vertices (−Xc, 0) and curve 0: s_0 = r_0 σa − σm along (−1, 0)
-    k = sector == 0
+    N = np.full_like(sa, np.inf)
+    out = np.flatnonzero(_limit_diagram_load(model, sa, sm) > 1.0)  # beyond the fatigue-limit diagram
+    if out.size == 0:
+        return N
+    sa, sm = sa[out], sm[out]
+    split = _split(r, sa, sm)
+    life = np.empty_like(sa)
+    # compression end sector, vertices (−Xc, 0) and curve 0: s_lo = r_0 σa − σm along (−1, 0)
+    k = split.sector == 0
     if k.any():
-        N[k] = _one_curve_life(curves[0], sa[k], (r[0] * sa[k] - sm[k]) / model.Xc)
-    # tension end sector, vertices curve n−1 and (Xt, 0): s = σm − r_n−1 σa along (1, 0)
-    k = sector == n
+        life[k] = _one_curve_life(curves[0], split.s_hi[k], split.s_lo[k] / model.Xc)
+    # tension end sector, vertices curve n−1 and (Xt, 0): s_hi = σm − r_n−1 σa along (1, 0)
+    k = split.sector == n
     if k.any():
-        N[k] = _one_curve_life(curves[-1], sa[k], (sm[k] - r[-1] * sa[k]) / model.Xt)
+        life[k] = _one_curve_life(curves[-1], split.s_lo[k], split.s_hi[k] / model.Xt)
     # sectors between tested rays j and j+1
     for j in range(n - 1):
-        k = sector == j + 1
+        k = split.sector == j + 1
         if k.any():
-            s_hi = (sm[k] - r[j] * sa[k]) / (r[j + 1] - r[j])
-            s_lo = sa[k] - s_hi
             with np.errstate(over="ignore"):  # lives past 1e308 are inf
-                N[k] = 10.0 ** _two_curve_log_life(curves[j], curves[j + 1], s_lo, s_hi)
+                life[k] = 10.0 ** _two_curve_log_life(curves[j], curves[j + 1], split.s_lo[k], split.s_hi[k])
+    N[out] = life
     return N
 
 

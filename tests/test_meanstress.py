@@ -160,6 +160,115 @@ def test_model_warnings():
 
 
 # ---------------------------------------------------------------------------------------------
+# Fatigue limits: a cycle at or inside the rule's fatigue-limit diagram does no damage.
+
+def test_goodman_gerber_none_fatigue_limit_diagrams_hand_calc():
+    """Curve at R = 0.1, S1 = 400 MPa, m = 10, limit 30 MPa; Xt = 1000, Xc = 600 MPa; r = 11/9.
+    Goodman: the limit point (σm, σa) = (36.667, 30) has σa0 = 30/(1 − 0.036667) = 31.1419 MPa, so
+    fully reversed 31.1 MPa is inside (inf) and 31.2 MPa outside: σa_R = 31.2/(1 + 31.2·r/1000)
+    = 30.0539 MPa, N = (400/30.0539)^10 = 1.744e11 (hand calc). Compression mean −300 MPa:
+    σa0 = σa/(1 − 300/600) = 2σa, inside up to σa = 15.571 MPa: 15.5 inf, 15.6 finite.
+    Gerber: σa0 of the limit point 30/(1 − 0.036667²) = 30.0404 MPa: 30.0 inf, 30.1 finite.
+    none: σa <= 30 MPa at any mean: (σm 500, σa 30) inf, (500, 30.1) N = (400/30.1)^10."""
+    c = power(R=0.1, S1=400 * MPa, limit=30 * MPa)
+    r = 11 / 9
+    good = fatigue_model("goodman", [c], XT, XC, "test")
+    N = good.cycles_to_failure(*cycle(np.array([31.1, 31.2, 15.5, 15.6]) * MPa, np.array([0, 0, -300, -300]) * MPa))
+    assert np.isinf(N[0]) and np.isinf(N[2]) and np.isfinite(N[3])
+    sa_R = 31.2 / (1 + 31.2 * r / 1000)
+    assert N[1] == pytest.approx((400 / sa_R) ** 10, rel=1e-12)  # round-off
+    assert N[1] == pytest.approx(1.744e11, rel=1e-3)  # hand calc to 4 digits
+    gerb = fatigue_model("gerber", [c], XT, XC, "test")
+    N = gerb.cycles_to_failure(*cycle(np.array([30.0, 30.1]) * MPa, np.zeros(2)))
+    assert np.isinf(N[0]) and np.isfinite(N[1])
+    none = fatigue_model("none", [c], XT, XC, "test")
+    N = none.cycles_to_failure(*cycle(np.array([30.0, 30.1]) * MPa, np.full(2, 500 * MPa)))
+    assert np.isinf(N[0]) and N[1] == pytest.approx((400 / 30.1) ** 10, rel=1e-12)  # round-off
+
+
+# The falsifying example of test_life_non_increasing_in_amplitude_at_fixed_mean (hypothesis):
+# the R = 0.1 and R = 10 curves have no limit, the R = −1 curve a limit of 5 MPa.
+LIMIT_CURVES = (power(R=10.0, S1=60 * MPa, m=3.0), power(S1=100 * MPa, m=3.0, limit=5 * MPa),
+                power(R=0.1, S1=100 * MPa, m=3.0))
+
+
+def test_cld_regression_limit_next_to_curves_without_limit():
+    """Regression (hypothesis falsifying example): mean 8.371209772551534e-17 MPa, amplitudes 1
+    and 2 MPa gave N = [5.9e53, inf] (the 2 MPa cycle rounds to mean 0, exactly on the R = −1
+    ray, where the limit held; the 1 MPa cycle, just off it, saw a diagram closing on the origin).
+    Now the fatigue-limit diagram is (−600, 0), (0, 5) [R = −1 limit], (1000, 0) MPa: the curves
+    without a limit give no vertex. At mean ≈ 0 its radius is 5·(1 − σm/1000) = 5 MPa (hand calc),
+    so 1, 2 and 4 MPa are inside: N = inf. 6 and 10 MPa are outside; on the ray of R = −1 (the
+    share on the R = 0.1 direction is σm/r = 7e-17 MPa, negligible) the diagram's life is the
+    R = −1 curve's, N = (100/6)^3 = 4629.63 and (100/10)^3 = 1000 (hand calc)."""
+    model = fatigue_model("cld", LIMIT_CURVES, XT, XC, "test")
+    sa = np.array([1.0, 2.0, 4.0, 6.0, 10.0]) * MPa
+    N = model.cycles_to_failure(*cycle(sa, np.full(sa.size, 8.371209772551534e-17 * MPa)))
+    assert np.isinf(N[:3]).all()
+    assert N[3:] == pytest.approx([(100 / 6) ** 3, 1000.0], rel=1e-8)  # root tolerance 1e-9 decades = 2.3e-9 rel
+    assert np.all(N[1:] <= N[:-1])
+
+
+def test_cld_fatigue_limit_diagram_hand_values_on_tested_rays():
+    """LIMIT_CURVES, fatigue-limit diagram (−600, 0), (0, 5), (1000, 0) MPa (hand calc), r = 11/9:
+    R = 0.1 ray, on the segment σa = 5(1 − σm/1000): σa = 5/(1 + 5r/1000) = 4.96963 MPa; 4.96 is
+    inside (inf), 4.98 outside, where the diagram on its own ray is that curve's: N =
+    (100/4.98)^3 = 8096.773. R = 10 ray, segment σa = 5(1 + σm/600): σa = 5/(1 + 5r/600) =
+    4.94959 MPa; 4.94 inf, 4.96 N = (60/4.96)^3 = 1770.145. R = −1 ray (mean exactly 0): the
+    curve's own limit, 5 MPa inf (at the limit: no damage), 5.01 MPa N = (100/5.01)^3 = 7952.191."""
+    model = fatigue_model("cld", LIMIT_CURVES, XT, XC, "test")
+    sa = np.array([4.96, 4.98, 4.94, 4.96, 5.0, 5.01]) * MPa
+    r = np.array([mean_ratio(0.1)] * 2 + [mean_ratio(10.0)] * 2 + [0.0] * 2)
+    N = model.cycles_to_failure(*cycle(sa, r * sa))
+    assert np.isinf(N[[0, 2, 4]]).all()
+    assert N[[1, 3, 5]] == pytest.approx([8096.773, 1770.145, 7952.191], rel=1e-6)  # hand calc to 7 digits
+
+
+def test_cld_limits_from_goodman_reduce_to_the_goodman_limit_diagram():
+    """Curves at R = 10 and 0.1 made from the R = −1 curve (S1 = 600 MPa, m = 10, limit 50 MPa) by
+    Goodman, their limits the Goodman-converted limit: every limit point lies on the Goodman lines
+    (−600, 0)-(0, 50)-(1000, 0) MPa, so the cld fatigue-limit diagram is Goodman's and the single
+    curve's behaviour is kept: on rays R from 20 to 0.8 the boundary is σa = 50/(1 + k·50) (k = r/Xt
+    or −r/Xc, Goodman); 0.999 of it lives forever and 1.001 of it does not, for both models."""
+    base = power(limit=50 * MPa)
+    made = []
+    for R in (10.0, 0.1):
+        a1, a2 = convert_curve_ratio(base.amplitude(np.array([1e2, 1e7])), -1.0, R, "goodman", XT, XC)
+        m = (7 - 2) / math.log10(a1 / a2)
+        lim = float(goodman_amplitude_on_ray(np.array([50 * MPa]), R, XT, XC)[0])
+        made.append(power(R=R, S1=a1 * 1e2 ** (1 / m), m=m, limit=lim))
+    cld = fatigue_model("cld", [made[0], base, made[1]], XT, XC, "test")
+    good = fatigue_model("goodman", [base], XT, XC, "test")
+    rays = np.array([20.0, 10.0, 3.0, -3.0, -1.0, -0.5, 0.0, 0.1, 0.3, 0.8])
+    r = np.array([mean_ratio(R) for R in rays])
+    k = np.where(r >= 0, r / XT, -r / XC)
+    edge = 50 * MPa / (1 + k * 50 * MPa)
+    for f, inside in ((0.999, True), (1.001, False)):
+        sa = f * edge
+        for model in (good, cld):
+            N = model.cycles_to_failure(*cycle(sa, r * sa))
+            assert (np.isinf(N) == inside).all() and (N > 0).all()
+
+
+def test_cld_limit_warnings():
+    """LIMIT_CURVES: the R = 10 and R = 0.1 curves have no limit but the fatigue-limit diagram
+    crosses their rays at 4.950 and 4.970 MPa (hand values above): both warned. Limits 60 MPa at
+    R = 0.1 (mean 73.3) and 10 MPa at R = 0.5 (mean 30): the limit diagram folds back. Curves
+    only at R = 0.1 and 0.5: warned, and a fully reversed 550 MPa cycle (inside Xc = 600 MPa)
+    gets N = 0, because the end line from (−600, 0) toward the R = 0.1 ray (r = 1.222) passes
+    σm = 0 below σa = 600/1.222 = 491 MPa at any life (hand calc)."""
+    w = model_warnings(fatigue_model("cld", LIMIT_CURVES, XT, XC, "t"))
+    nolim = [x for x in w if "has no fatigue limit" in x]
+    assert len(nolim) == 2 and "R = 10 " in nolim[0] and "4.95e+06" in nolim[0] and "4.97e+06" in nolim[1]
+    folded = [power(R=0.1, S1=400 * MPa, limit=60 * MPa), power(R=0.5, S1=200 * MPa, limit=10 * MPa)]
+    assert any("fatigue-limit diagram folds back" in x for x in model_warnings(fatigue_model("cld", folded, XT, XC, "t")))
+    tt = fatigue_model("cld", [power(R=0.1, S1=400 * MPa), power(R=0.5, S1=200 * MPa)], XT, XC, "t")
+    assert any("N = 0" in x for x in model_warnings(tt))
+    assert tt.cycles_to_failure(np.array([-550 * MPa]), np.array([550 * MPa]))[0] == 0.0
+    assert not any("limit" in x for x in model_warnings(fatigue_model("cld", CLD_CURVES[2:], XT, XC, "t")))
+
+
+# ---------------------------------------------------------------------------------------------
 # Constant-life diagram against an independent root-found solution.
 
 CLD_CURVES = (power(R=10.0, S1=350 * MPa, m=16.0), power(R=-1.0, S1=600 * MPa, m=10.0),
@@ -169,13 +278,10 @@ CLD_CURVES = (power(R=10.0, S1=350 * MPa, m=16.0), power(R=-1.0, S1=600 * MPa, m
 FOLDING = CLD_CURVES[:3] + (power(R=0.5, S1=260 * MPa, m=18.0),)
 
 
-def diagram_radius(curves, Xt, Xc, theta, logN):
-    """Reference: radius of the diagram of life 10**logN along the ray at angle theta (from the
-    σm axis), by intersecting the ray with each segment of the polygon (−Xc,0), points by mean, (Xt,0)."""
-    pts = [(-Xc, 0.0)]
-    pts += sorted((mean_ratio(c.R) * float(c.amplitude_at_log(np.array(logN))), float(c.amplitude_at_log(np.array(logN))))
-                  for c in curves)
-    pts.append((Xt, 0.0))
+def polygon_radius(points, Xt, Xc, theta):
+    """Radius along the ray at angle theta (from the σm axis) of the polygon (−Xc, 0), points
+    (σm, σa) ordered by mean, (Xt, 0), by intersecting the ray with each segment."""
+    pts = [(-Xc, 0.0)] + sorted(points) + [(Xt, 0.0)]
     d = (math.cos(theta), math.sin(theta))
     for (x1, y1), (x2, y2) in zip(pts, pts[1:]):
         ex, ey = x2 - x1, y2 - y1
@@ -189,13 +295,27 @@ def diagram_radius(curves, Xt, Xc, theta, logN):
     raise AssertionError("ray misses the diagram")
 
 
+def diagram_radius(curves, Xt, Xc, theta, logN):
+    """Reference: radius of the constant-life diagram of life 10**logN along the ray at angle theta."""
+    amps = [float(c.amplitude_at_log(np.array(logN))) for c in curves]
+    return polygon_radius([(mean_ratio(c.R) * a, a) for c, a in zip(curves, amps)], Xt, Xc, theta)
+
+
+def limit_radius(curves, Xt, Xc, theta):
+    """Reference: radius of the fatigue-limit diagram along the ray at angle theta: the polygon
+    through the limit points limit·((1 + R)/(1 − R), 1) of the curves with a limit > 0 only."""
+    return polygon_radius([(mean_ratio(c.R) * c.limit, c.limit) for c in curves if c.limit], Xt, Xc, theta)
+
+
 def reference_cld_log_life(curves, Xt, Xc, sa, sm):
     theta, rho = math.atan2(sa, sm), math.hypot(sa, sm)
+    if rho <= limit_radius(curves, Xt, Xc, theta):
+        return math.inf
     f = lambda L: diagram_radius(curves, Xt, Xc, theta, L) - rho
     if f(-30.0) < 0:
         return -math.inf
     if f(60.0) > 0:
-        return math.inf
+        raise AssertionError(f"cycle ({sa}, {sm}) outside the fatigue-limit diagram but inside the diagram of 1e60")
     return brentq(f, -30.0, 60.0, xtol=1e-12, rtol=1e-14, maxiter=500)
 
 
@@ -214,7 +334,10 @@ def test_cld_fold_warned():
 def test_cld_matches_root_found_solution():
     """Diagram lives of 400 random cycles in every sector (compression end, between tested rays,
     tension end) agree with brentq on the polygon geometry to 1e-7 decades (the model's tolerance
-    is 1e-9 decades, brentq's 1e-12; 1e-7 leaves room for round-off in the geometry)."""
+    is 1e-9 decades, brentq's 1e-12; 1e-7 leaves room for round-off in the geometry); cycles at or
+    inside the fatigue-limit polygon (−600, 0), (73.3, 60) [R = 0.1], (120, 40) [R = 0.5],
+    (1000, 0) MPa live forever, also on the rays of the R = 10 and R = −1 curves, which have no
+    limit (they contribute no vertex)."""
     model = fatigue_model("cld", CLD_CURVES, XT, XC, "test")
     rng = np.random.default_rng(1)
     hi = rng.uniform(-550, 950, 400) * MPa
@@ -222,12 +345,15 @@ def test_cld_matches_root_found_solution():
     lo = np.maximum(lo, -590 * MPa)
     N = model.cycles_to_failure(lo, hi)
     sa, sm = (hi - lo) / 2, (hi + lo) / 2
+    inside = 0
     for i in range(lo.size):
         ref = reference_cld_log_life(CLD_CURVES, XT, XC, sa[i], sm[i])
         if math.isinf(ref):
             assert np.isinf(N[i]) if ref > 0 else N[i] == 0.0
+            inside += ref > 0
         else:
             assert math.log10(N[i]) == pytest.approx(ref, abs=1e-7)
+    assert inside >= 10  # the sample reaches into the fatigue-limit diagram
 
 
 def test_cld_reproduces_goodman_from_a_goodman_consistent_set():
@@ -264,19 +390,38 @@ def test_cld_reproduces_goodman_from_a_goodman_consistent_set():
 # ---------------------------------------------------------------------------------------------
 # Invariants.
 
+def scaled(lim, g):
+    """A limit g·lim (None where g is None)."""
+    return None if g is None else g * lim
+
+
 def models():
     """Goodman, Gerber, none and a diagram whose R = 0.1 curve stays below the R = −1 curve at
-    every life (same m, lower S1), so that its tension side falls with mean as Goodman's does."""
+    every life (same m, lower S1), so that its tension side falls with mean as Goodman's does;
+    the R = 10 and R = 0.1 curves have no limit, a zero limit, or a fraction g <= 1 of the R = −1
+    limit (so that the fatigue-limit diagram falls with mean on the tension side too)."""
+    limit_share = st.sampled_from([None, 0.0, 0.5, 1.0])
     return st.builds(
-        lambda rule, S1, m, f, lim: fatigue_model(
+        lambda rule, S1, m, f, lim, g10, g01: fatigue_model(
             rule,
             [power(S1=S1 * MPa, m=m, limit=lim * S1 * MPa)] if rule != "cld" else
-            [power(R=10.0, S1=0.6 * S1 * MPa, m=m), power(S1=S1 * MPa, m=m, limit=lim * S1 * MPa),
-             power(R=0.1, S1=f * S1 * MPa, m=m)],
+            [power(R=10.0, S1=0.6 * S1 * MPa, m=m, limit=scaled(lim * S1 * MPa, g10)),
+             power(S1=S1 * MPa, m=m, limit=lim * S1 * MPa),
+             power(R=0.1, S1=f * S1 * MPa, m=m, limit=scaled(lim * S1 * MPa, g01))],
             XT, XC, "hypothesis"),
         st.sampled_from(["goodman", "gerber", "none", "cld"]), st.floats(100, 900), st.floats(3, 20),
-        st.floats(0.3, 1.0), st.sampled_from([0.0, 0.05, 0.2]),
+        st.floats(0.3, 1.0), st.sampled_from([0.0, 0.05, 0.2]), limit_share, limit_share,
     )
+
+
+def any_cld():
+    """A diagram of arbitrary curves at three to four of R = 10, −1, 0.1, 0.5, each with or without
+    a limit (folds allowed: along a ray the life is still monotone)."""
+    curve = lambda R: st.builds(
+        lambda S1, m, lim: power(R=R, S1=S1 * MPa, m=m, limit=None if lim is None else lim * S1 * MPa),
+        st.floats(50, 600), st.floats(3, 20), st.sampled_from([None, 0.0, 0.02, 0.1, 0.3]))
+    return st.lists(st.sampled_from([10.0, -1.0, 0.1, 0.5]), min_size=2, max_size=4, unique=True).flatmap(
+        lambda Rs: st.tuples(*[curve(R) for R in Rs])).map(lambda cs: fatigue_model("cld", cs, XT, XC, "hypothesis"))
 
 
 @settings(max_examples=150, deadline=None)
@@ -299,3 +444,18 @@ def test_life_non_increasing_with_tensile_mean_at_fixed_amplitude(model, sa, sm)
     lo, hi = cycle(np.full(sm.size, sa * MPa), sm)
     N = model.cycles_to_failure(lo, hi)
     assert np.all(N[1:] <= N[:-1] * (1 + 1e-8))  # 1e-8: the diagram's root tolerance (2.3e-9 rel) with margin
+
+
+@settings(max_examples=150, deadline=None)
+@given(model=any_cld(), theta=st.floats(0.01, math.pi - 0.01), rho=st.lists(st.floats(0.01, 700), min_size=2, max_size=12))
+def test_cld_life_non_increasing_along_a_ray(model, theta, rho):
+    """Invariant: on one ray a cycle farther from the origin never lives longer, and N = 0 only
+    beyond the static strengths or where the end line cannot reach (all curves on one side of R = 0);
+    the constant-life diagrams shrink as N grows and the fatigue-limit diagram is star-shaped."""
+    rho = np.sort(np.array(rho)) * MPa
+    lo, hi = cycle(rho * math.sin(theta), rho * math.cos(theta))
+    N = model.cycles_to_failure(lo, hi)
+    assert np.all(N[1:] <= N[:-1] * (1 + 1e-8))  # 1e-8: the diagram's root tolerance (2.3e-9 rel) with margin
+    r = [mean_ratio(c.R) for c in model.curves]
+    if min(r) <= 1.0 and max(r) >= -1.0:
+        assert np.all((N > 0) | (hi > XT) | (lo < -XC))
