@@ -212,12 +212,15 @@ class DamageResult:
     static_failure : np.ndarray — a cycle of the duty exceeds the static strength there, shape (k,) bool
     amplitude : np.ndarray — largest local amplitude over the duty, shape (k,) [Pa or -]
     mean : np.ndarray — local mean of that cycle, shape (k,) [Pa or -]
+    utilisation : np.ndarray — largest local value over the duty as a fraction of the model's static strength,
+        max(hi/Xt, −lo/Xc), shape (k,) [-]; 0 for locations without a fatigue model
     """
 
     damage: np.ndarray
     static_failure: np.ndarray
     amplitude: np.ndarray
     mean: np.ndarray
+    utilisation: np.ndarray
 
 
 def miner_damage(locs: Locations, cycles: Cycles, force_per_drive: float, stress_factor: float) -> DamageResult:
@@ -245,9 +248,14 @@ def miner_damage(locs: Locations, cycles: Cycles, force_per_drive: float, stress
         amp = np.abs(scale) * (dhi[big] - dlo[big]) / 2.0
         mean = scale * (dhi[big] + dlo[big]) / 2.0
     peak_drive = max(float(np.abs(dlo).max()), float(np.abs(dhi).max())) if nc else 0.0
+    utilisation = np.zeros(k)
     for m, model in enumerate(locs.models):
+        mine = locs.model == m
+        if nc:
+            ends = scale[mine, None] * np.array([dlo.min(), dhi.max()])[None, :]
+            utilisation[mine] = np.maximum(ends.max(axis=1) / model.Xt, -ends.min(axis=1) / model.Xc)
         negligible = np.abs(scale) * peak_drive < NEGLIGIBLE * min(model.Xt, model.Xc)
-        rows = np.flatnonzero((locs.model == m) & ~negligible)
+        rows = np.flatnonzero(mine & ~negligible)
         if rows.size == 0 or nc == 0:
             continue
         step = max(1, CHUNK // nc)
@@ -260,7 +268,7 @@ def miner_damage(locs: Locations, cycles: Cycles, force_per_drive: float, stress
             zero = N <= 0
             failed[r] = zero.any(axis=1)
             damage[r] = (count[None, :] / np.where(zero, FIRST_LOAD_FAILURE, N)).sum(axis=1)
-    return DamageResult(damage, failed, amp, mean)
+    return DamageResult(damage, failed, amp, mean, utilisation)
 
 
 def cycle_lives(locs: Locations, k: int, cycles: Cycles, force_per_drive: float, stress_factor: float) -> np.ndarray:

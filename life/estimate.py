@@ -7,7 +7,7 @@ location; Miner's sum per block gives the life; mechanics gives stiffness, mass,
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, fields, replace
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -53,16 +53,26 @@ class StaticCheck:
     reserve : float — smallest reserve factor (load multiplier to first failure) [-]
     criterion : str — which check gives it (max-stress, Tsai-Wu, interlaminar)
     drive : float — the duty extreme it occurs at [N or m]
-    x_m : float; ply : int — where [m], 1-based ply number
+    place : Critical — where, with the mode that governs there (for Tsai-Wu, the mode of the largest
+        max-stress ratio at that point)
     by_criterion : dict[str, float] — the smallest reserve of each criterion
     """
 
     reserve: float
     criterion: str
     drive: float
-    x_m: float
-    ply: int
+    place: Critical
     by_criterion: dict
+
+    @property
+    def x_m(self) -> float:
+        """Distance of the governing point from the root [m]."""
+        return self.place.x_m
+
+    @property
+    def ply(self) -> int:
+        """The governing ply, 1-based from the tension face."""
+        return self.place.ply
 
 
 @dataclass(frozen=True)
@@ -128,15 +138,20 @@ def _finite(value: float | None) -> float | None:
 
 
 def _static_check(design: Design, resp: BeamResponse, fpd: float) -> tuple[StaticCheck, list[str]]:
-    """Max-stress, Tsai-Wu and interlaminar reserves at both extremes of the duty."""
+    """Max-stress, Tsai-Wu and interlaminar reserves at both extremes of the duty.
+
+    Every local stress is multiplied by the stress factor before the check, as for fatigue.
+    """
     plies = design.beam.plies
-    strengths = strengths_of([p.material for p in plies])  # arrays of shape (p,)
+    strengths = strengths_of([p.material for p in plies]).expand(1)  # shape (p, 1): over (n, p, 2)
     # a ply without S13 is not checked for interlaminar shear (an infinite strength; the note says so)
     s13 = np.array([np.inf if p.material.S13 is None else p.material.S13 for p in plies])
+    interlaminar_mode = np.array(["core-shear" if p.material.kind == "core" else "interlaminar" for p in plies])
     notes = []
     missing = sorted({p.material.name for p in plies if p.material.S13 is None})
     if missing:
         notes.append(f"no interlaminar strength S13 for {', '.join(missing)}: interlaminar shear not checked there")
+    z_faces = np.concatenate([resp.z, resp.z_tau_peak[..., None]], axis=2)  # (n, p, 3): bottom, top, interior
     best = None
     by = {"max-stress": math.inf, "Tsai-Wu": math.inf, "interlaminar": math.inf}
     for drive in design.duty.extremes:
@@ -144,32 +159,31 @@ def _static_check(design: Design, resp: BeamResponse, fpd: float) -> tuple[Stati
         if force == 0.0:
             continue
         stress = resp.stress_12 * force  # (n, p, 2, 3)
-        per = {
-            "max-stress": max_stress_reserve(stress, _expand(strengths)).factor,
-            "Tsai-Wu": tsai_wu_reserve(stress, _expand(strengths)),
-        }
+        max_stress = max_stress_reserve(stress, strengths)
         tau = np.concatenate([resp.tau_xz, resp.tau_xz_peak[..., None]], axis=2) * force  # (n, p, 3)
-        per["interlaminar"] = interlaminar_reserve(np.abs(tau), np.broadcast_to(s13[None, :, None], tau.shape))
-        for name, factor in per.items():
+        per = {
+            "max-stress": (max_stress.factor, max_stress.mode),
+            "Tsai-Wu": (tsai_wu_reserve(stress, strengths), max_stress.mode),
+            "interlaminar": (interlaminar_reserve(np.abs(tau), np.broadcast_to(s13[None, :, None], tau.shape)),
+                             np.broadcast_to(interlaminar_mode[None, :, None], tau.shape)),
+        }
+        for name, (factor, mode) in per.items():
             factor = np.where(resp.present[..., None], factor, np.inf)
             k = np.unravel_index(int(np.argmin(factor)), factor.shape)
             value = float(factor[k])
             by[name] = min(by[name], value)
             if best is None or value < best.reserve:
-                best = StaticCheck(value, name, drive, float(resp.x[k[0]]), int(k[1]) + 1, {})
+                place = Critical(float(resp.x[k[0]]), int(k[1]) + 1, float(z_faces[k]), str(mode[k]),
+                                 FACES[int(k[2])], int(k[0]))
+                best = StaticCheck(value, name, drive, place, {})
     assert best is not None  # the loader rejects a duty that never loads the part
-    check = StaticCheck(best.reserve, best.criterion, best.drive, best.x_m, best.ply, by)
+    check = replace(best, by_criterion=by)
     if check.reserve < 1.0:
         notes.append(
-            f"static strength exceeded: reserve {check.reserve:.2f} ({check.criterion}) at x = {check.x_m * 1e3:.0f} mm, "
-            f"ply {check.ply}, at the duty extreme {check.drive:g} (SI)"
+            f"static strength exceeded: reserve {check.reserve:.2f} ({check.criterion}, {check.place.mode}) at "
+            f"x = {check.x_m * 1e3:.0f} mm, ply {check.ply}, at the duty extreme {check.drive:g} (SI): life is zero"
         )
     return check, notes
-
-
-def _expand(s):
-    """Strength arrays of shape (p,) broadcast over (n, p, 2)."""
-    return replace(s, **{f.name: np.asarray(getattr(s, f.name))[None, :, None] for f in fields(s)})
 
 
 def estimate(design: Design) -> LifeResult:
@@ -192,41 +206,43 @@ def estimate(design: Design) -> LifeResult:
                 + list(models.warnings) + static_notes)
     for (material, family), m in models.index.items():
         warnings += model_warnings(models.models[m], f"{material} {family} curve")
-    failed = bool(dmg.static_failure.any())
     d_block = float(dmg.damage.max()) if dmg.damage.size else 0.0
+    fatigue_failure = bool(dmg.static_failure.any())
+    failed = static.reserve < 1.0 or fatigue_failure
+    unbounded = not failed and d_block == 0.0
     if failed:
-        k = int(np.argmax(np.where(dmg.static_failure, dmg.amplitude + np.abs(dmg.mean), -np.inf)))
         life_blocks = life_cycles = 0.0
         life_days = 0.0 if design.duty.blocks_per_day else None
-        unbounded = False
-        warnings.append(
-            f"a cycle of the duty exceeds the static strength ({locs.mode[k]}, ply {locs.ply[k] + 1}, "
-            f"x = {resp.x[locs.station[k]] * 1e3:.0f} mm): life is zero"
-        )
-    elif d_block > 0:
-        k = int(np.argmax(dmg.damage))
+    elif unbounded:
+        life_blocks = life_cycles = life_days = None
+        warnings.append("no counted cycle does fatigue damage (all below the fatigue limits): life unbounded")
+    else:
         life_blocks = design.miner_limit / d_block
         life_cycles = life_blocks * float(cycles.n_total)
         life_days = life_blocks / design.duty.blocks_per_day if design.duty.blocks_per_day else None
-        unbounded = False
-    else:
-        # no cycle does damage: name the most utilised fatigue-checked location (largest local amplitude
-        # relative to its static strength in the curve's basis)
-        k = _most_utilised(locs, dmg)
-        life_blocks = life_cycles = life_days = None
-        unbounded = True
-        warnings.append("no counted cycle does fatigue damage (all below the fatigue limits): life unbounded")
 
-    if not failed and not unbounded:
-        warnings += _extrapolation_notes(locs, k, cycles, fpd, design.stress_factor)
-    critical = Critical(
-        x_m=float(resp.x[locs.station[k]]),
-        ply=int(locs.ply[k]) + 1,
-        z_m=float(locs.z[k]),
-        mode=str(locs.mode[k]),
-        face=FACES[int(locs.face[k])],
-        station=int(locs.station[k]),
-    )
+    if static.reserve < 1.0:
+        critical = static.place  # the first load fails the part there
+    else:
+        if fatigue_failure:  # the fatigue data put a cycle past the strength: the most utilised such location
+            k = int(np.argmax(np.where(dmg.static_failure, dmg.utilisation, -np.inf)))
+            warnings.append(
+                f"a cycle of the duty exceeds the static strength ({locs.mode[k]}, ply {locs.ply[k] + 1}, "
+                f"x = {resp.x[locs.station[k]] * 1e3:.0f} mm): life is zero"
+            )
+        elif unbounded:  # the most utilised fatigue-checked location
+            k = int(np.argmax(np.where(locs.model >= 0, dmg.utilisation, -np.inf)))
+        else:
+            k = int(np.argmax(dmg.damage))
+            warnings += _extrapolation_notes(locs, k, cycles, fpd, design.stress_factor)
+        critical = Critical(
+            x_m=float(resp.x[locs.station[k]]),
+            ply=int(locs.ply[k]) + 1,
+            z_m=float(locs.z[k]),
+            mode=str(locs.mode[k]),
+            face=FACES[int(locs.face[k])],
+            station=int(locs.station[k]),
+        )
     storage = storage_figures(resp, peak_force)
     peak_strain = float(np.abs(resp.strain_12[..., 0]).max()) * peak_force
     big = int(np.lexsort((cycles.hi, cycles.hi - cycles.lo))[-1])
@@ -249,15 +265,6 @@ def estimate(design: Design) -> LifeResult:
         force_per_drive=fpd,
         warnings=tuple(dict.fromkeys(warnings)),
     )
-
-
-def _most_utilised(locs: Locations, dmg: DamageResult) -> int:
-    """Location with the largest amplitude relative to its model's strengths (fatigue-checked ones first)."""
-    ratio = np.zeros(locs.response.size)
-    for m, model in enumerate(locs.models):
-        rows = locs.model == m
-        ratio[rows] = (dmg.amplitude[rows] + np.abs(dmg.mean[rows])) / min(model.Xt, model.Xc)
-    return int(np.argmax(ratio))
 
 
 EXTRAPOLATED_SHARE = 0.1  # warn when more than this share of the critical damage is read past the data

@@ -113,8 +113,32 @@ def test_a_cycle_beyond_static_strength_gives_zero_life():
     s = r.summary()
     assert s["life_cycles"] == 0 and s["life_blocks"] == 0
     assert s["static_reserve"] == pytest.approx(600 / 1680, rel=1e-9)
-    assert any("exceeds the static strength" in w for w in s["warnings"])
+    assert any("static strength exceeded" in w and "life is zero" in w for w in s["warnings"])
     assert all(math.isfinite(s[k]) for k in ("damage_per_block", "stiffness_n_per_m", "peak_energy_j"))
+    # the first load fails the compression face at the root (Xc = 600 MPa < Xt): that is the critical place
+    assert s["critical"] == {"x_m": 0.0, "ply": 10, "z_m": pytest.approx(0.0025, rel=1e-12),
+                             "mode": "fibre-compression", "face": "top"}
+
+
+def test_a_static_failure_in_a_mode_without_a_curve_still_gives_zero_life():
+    """DESIGN.md: life 0 when the first load already fails the part — whatever the mode. A 90° ply on the
+    tension face of the hand-check stack (only a fibre curve is given) at 80 N: in the narrow beam the 90° ply
+    carries σ2 ≈ E2·εx ≈ (10/40)·σ1 of a 0° ply at that z; σ1 at the surface would be 6PL/(bh²) = 192 MPa, so
+    σ2 ≈ 48 MPa > Yt = 40 MPa (Roark σ = 6M/(bh²); the 90° ply softens the section a little, which only raises
+    the strain). The transverse mode is checked statically only, and its failure must zero the life."""
+    doc = {
+        "title": "transverse failure",
+        "beam": {"support": "cantilever", "span": "200 mm", "width": "20 mm"},
+        "material": {"hand-glass": GLASS},
+        "ply": [{"material": "hand-glass", "angle": 90, "thickness": "0.5 mm"},
+                {"material": "hand-glass", "angle": 0, "thickness": "0.5 mm", "count": 9}],
+        "duty": {"drive": "force", "cycles": [{"min": "0 N", "max": "80 N", "count": 1000}]},
+    }
+    s = estimate(parse_design(doc, "hand.toml", Path("."))).summary()
+    assert s["static_reserve"] < 1.0
+    assert s["life_cycles"] == 0 and s["life_blocks"] == 0
+    assert s["critical"]["ply"] == 1 and s["critical"]["mode"] == "transverse"
+    assert s["critical"]["face"] == "bottom" and s["critical"]["x_m"] == 0.0
 
 
 def test_steady_rows_and_extrapolated_lives_are_said():
