@@ -17,7 +17,7 @@ from life.estimate import CAUTION, LifeResult  # noqa: E402
 METHODS = [
     ("Laminate", "classical laminate theory: Q, Q̄, ABD (Kaw, Mechanics of Composite Materials, 2nd ed., Eqs. 2.93, "
      "2.103, 4.28; Jones, 2nd ed., ch. 2 and 4); narrow beam: bending stiffness per width 1/d11 of the full ABD "
-     "inverse; plate: cylindrical bending (εy⁰ = κy = 0)"),
+     "inverse; plate: cylindrical bending, w = w(x) (εy⁰ = κy = κxy = 0)"),
     ("Beam", "moments and deflections of Roark's Formulas for Stress and Strain, 7th ed., Table 8.1; load-point "
      "compliance by the unit-load method with Timoshenko shear deformation (shear stiffness from the energy of the equilibrium τxz with the plies' G13/G23: the 5/6 correction for a homogeneous section), "
      "integrated exactly over taper and ply drops"),

@@ -196,20 +196,21 @@ def unit_bending(lam: Laminate, section: str) -> UnitBending:
 
     section : str — ``"beam"``: narrow beam, Nx = Ny = Nxy = 0 and My = Mxy = 0 (free anticlastic
         curvature and twist), so κx = d11·Mx with d the full 6×6 ABD inverse;
-        ``"plate"``: cylindrical bending of a wide plate, εy⁰ = κy = 0 (the width is held straight),
-        Nx = Nxy = 0 and Mxy = 0.
+        ``"plate"``: cylindrical bending of a wide plate, w = w(x) only: εy⁰ = κy = κxy = 0 (the width is
+        held straight and untwisted), Nx = Nxy = 0; My and Mxy are the reactions that keep it so.
 
     Notes
     -----
     Narrow beam: bending stiffness per width = 1/d11 (Kaw, 2nd ed., sec. 4.7; Whitney, *Structural Analysis of
-    Laminated Anisotropic Plates*, 1987, ch. 6). Cylindrical bending: the 4×4 sub-system of the ABD relation for
-    (Nx, Nxy, Mx, Mxy) in (εx⁰, γxy⁰, κx, κxy) with εy⁰ = κy = 0; for a symmetric cross-ply it gives D11.
+    Laminated Anisotropic Plates*, 1987, ch. 6). Cylindrical bending (Whitney 1987, ch. 5; w = w(x)): the 3×3
+    sub-system of the ABD relation for (Nx, Nxy, Mx) in (εx⁰, γxy⁰, κx) with εy⁰ = κy = κxy = 0; for any
+    symmetric laminate (B = 0) it gives the bending stiffness D11.
     """
     if section == "beam":
         column = lam.abd[:, 3]
         return UnitBending(column[:3].copy(), column[3:].copy(), float(column[3]), section)
     if section == "plate":
-        keep = [0, 2, 3, 5]  # εx⁰, γxy⁰, κx, κxy are free; εy⁰ = κy = 0
+        keep = [0, 2, 3]  # εx⁰, γxy⁰, κx are free; εy⁰ = κy = κxy = 0
         sub = np.linalg.inv(lam.ABD[np.ix_(keep, keep)])[:, 2]  # response to Mx = 1 (third resultant)
         full = np.zeros(6)
         full[keep] = sub

@@ -84,17 +84,20 @@ def test_rotated_isotropic_ply_is_unchanged(angle, nu):
 @settings(max_examples=150, deadline=None)
 def test_unit_bending_equilibrium(stack, section):
     """The ply stresses of unit bending integrate back to the applied resultants (Kaw Eq. 4.20-4.21):
-    Mx = Σ∫σx z dz = 1 and Nx = Nxy = Mxy = 0; the narrow beam also has Ny = My = 0 (free width)."""
+    Mx = Σ∫σx z dz = 1 and Nx = Nxy = 0; the narrow beam also has Ny = My = Mxy = 0 (free width and twist),
+    while in cylindrical bending My and Mxy are the reactions that hold κy = κxy = 0."""
     lam = laminate(stack)
     ub = unit_bending(lam, section)
     field = ply_field(lam, ub.eps0, ub.kappa)
     N, M = resultants(lam, field)
     h = lam.thickness
     assert M[0] == pytest.approx(1.0, rel=1e-8)  # round-off of the 6×6 inverse of an ill-scaled ABD
-    assert abs(N[0]) * h < 1e-8 and abs(N[2]) * h < 1e-8 and abs(M[2]) < 1e-8
+    assert abs(N[0]) * h < 1e-8 and abs(N[2]) * h < 1e-8
     if section == "beam":
-        assert abs(N[1]) * h < 1e-8 and abs(M[1]) < 1e-8
+        assert abs(N[1]) * h < 1e-8 and abs(M[1]) < 1e-8 and abs(M[2]) < 1e-8
         assert ub.flexural_compliance == pytest.approx(lam.abd[3, 3], rel=ROUND_OFF)
+    else:
+        assert ub.kappa[1] == 0.0 and ub.kappa[2] == 0.0 and ub.eps0[1] == 0.0
     assert ub.flexural_compliance > 0
     assert ub.bending_stiffness == pytest.approx(1 / ub.flexural_compliance, rel=ROUND_OFF)
 
@@ -156,7 +159,7 @@ def test_symmetric_cross_ply_plate_section_is_D11():
     """Symmetric cross-ply [0/90]s: B = 0 and D16 = 0, so with κy = 0 cylindrical bending gives Mx = D11 κx."""
     c = LIB["carbon-epoxy"]
     lam = laminate([Layer(c, a, 0.25e-3) for a in (0, 90, 90, 0)])
-    assert unit_bending(lam, "plate").bending_stiffness == pytest.approx(lam.D[0, 0], rel=1e-10)  # via a 4×4 inverse: round-off of an ill-scaled ABD
+    assert unit_bending(lam, "plate").bending_stiffness == pytest.approx(lam.D[0, 0], rel=1e-10)  # via a 3×3 inverse: round-off of an ill-scaled ABD
     # and the narrow beam is softer: 1/d11 = D11 − D12²/D22 for this laminate
     D = lam.D
     assert unit_bending(lam, "beam").bending_stiffness == pytest.approx(D[0, 0] - D[0, 1] ** 2 / D[1, 1], rel=1e-10)  # via the 6×6 inverse: round-off
@@ -204,3 +207,16 @@ def test_areal_mass_and_thickness():
     lam = laminate([Layer(LIB["e-glass-epoxy"], 0.0, 0.6e-3), Layer(LIB["carbon-epoxy"], 45.0, 0.4e-3)])
     assert lam.areal_mass == pytest.approx(1.72, rel=ROUND_OFF)
     assert lam.thickness == pytest.approx(1e-3, rel=ROUND_OFF)
+
+
+@pytest.mark.parametrize("angles", [(30.0,) * 8, (45.0, -45.0, 0.0, 0.0, -45.0, 45.0), (60.0, 15.0, 15.0, 60.0)])
+def test_symmetric_off_axis_plate_section_is_D11(angles):
+    """Cylindrical bending, w = w(x): κy = κxy = 0 and B = 0 for a symmetric stack, so Mx = D11·κx exactly
+    (Whitney, Structural Analysis of Laminated Anisotropic Plates, 1987, ch. 5; Jones 2nd ed. sec. 4.2). With D16 ≠ 0
+    a free twist (Mxy = 0) would give the smaller D11 − D16²/D66-type value instead."""
+    glass = LIB["e-glass-epoxy"]
+    lam = laminate([Layer(glass, a, 0.25e-3) for a in angles])
+    assert abs(lam.D[0, 2]) > 1e-3 * lam.D[0, 0] or angles[0] == 60.0  # the cases do couple bending and twist
+    bending = unit_bending(lam, "plate")
+    assert bending.bending_stiffness == pytest.approx(lam.D[0, 0], rel=1e-10)  # round-off of the 3×3 inverse
+    assert bending.kappa[1] == 0.0 and bending.kappa[2] == 0.0
