@@ -15,9 +15,12 @@ from life.curves import DATA_CYCLES_MAX
 from life.damage import FACES, DamageResult, Locations, build_models, cycle_lives, locations, miner_damage
 from life.meanstress import model_warnings
 from life.design import Design
+from life.errors import InputError
 from mechanics.beam import BeamResponse, core_warnings, range_warnings, respond
 from mechanics.energy import StorageFigures, cycle_energy, force_per_drive, storage_figures
 from mechanics.strength import interlaminar_reserve, max_stress_reserve, strengths_of, tsai_wu_reserve
+
+IMPLAUSIBLE_STRAIN = 0.2  # a fibre strain no structural composite or wood reaches (common practice): an input slip
 
 CAUTION = (
     "Estimates, not certification: confirm by fatigue tests of prototypes, apply environmental knock-downs "
@@ -197,6 +200,15 @@ def estimate(design: Design) -> LifeResult:
     peak_drive = max(abs(lo), abs(hi))
     peak_force = peak_drive * fpd
 
+    peak_strain = float(np.abs(resp.strain_12[..., 0]).max()) * peak_force
+    if not peak_strain <= IMPLAUSIBLE_STRAIN:
+        name = design.path.name if design.path else "the design"
+        raise InputError(
+            f"{name} [duty]: the largest drive ({peak_drive:g} SI) strains the fibres by {peak_strain:.3g}, "
+            f"far past any structural material and any linear theory (> {IMPLAUSIBLE_STRAIN:g}); check the drive "
+            "values and their unit"
+        )
+
     models = build_models(list(design.materials.values()), design.mean_stress)
     locs = locations(resp, models, dominant)
     dmg = miner_damage(locs, cycles, fpd, design.stress_factor)
@@ -244,7 +256,6 @@ def estimate(design: Design) -> LifeResult:
             station=int(locs.station[k]),
         )
     storage = storage_figures(resp, peak_force)
-    peak_strain = float(np.abs(resp.strain_12[..., 0]).max()) * peak_force
     big = int(np.lexsort((cycles.hi, cycles.hi - cycles.lo))[-1])
     e_cycle = float(cycle_energy(resp.compliance, cycles.lo[big] * fpd, cycles.hi[big] * fpd))
     return LifeResult(

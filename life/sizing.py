@@ -121,14 +121,19 @@ def size(design: Design, target_blocks: float, vary: str) -> SizingResult:
         return value
 
     base, probe = life(1.0), life(1.1)
-    if base == probe or (0 < base < math.inf and 0 < probe < math.inf
-                         and abs(math.log(probe / base)) < INSENSITIVE):
+    insensitive = vary == "width" and design.duty.drive == "deflection"
+    if base == probe:  # both zero (a static failure) or both unbounded: the probe says nothing, physics does
+        if insensitive:
+            raise InputError(f"--vary width: under a deflection drive the strains hardly depend on the width; "
+                             "size the thickness")
+        grows = design.duty.drive == "force"  # thicker or wider strains less under a force, more under a deflection
+    elif 0 < base < math.inf and 0 < probe < math.inf and abs(math.log(probe / base)) < INSENSITIVE:
         raise InputError(
-            f"--vary {vary}: the life hardly changes with the {vary} under this duty "
-            f"({'a deflection drive sets the strains' if design.duty.drive == 'deflection' else 'no damaging cycle'}); "
-            "size another dimension"
+            f"--vary {vary}: the life hardly changes with the {vary} under this duty"
+            + (" (a deflection drive sets the strains)" if insensitive else "") + "; size another dimension"
         )
-    grows = probe > base
+    else:
+        grows = probe > base
 
     # Search in u, with the life non-decreasing in u: u = s when the life grows with s, u = 1/s otherwise.
     def reaches(u: float) -> bool:

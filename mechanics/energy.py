@@ -79,11 +79,11 @@ def storage_figures(resp: BeamResponse, peak_force: float) -> StorageFigures:
     each ply is credited with its own axial modulus at the part's peak axial strain.
     """
     energy = float(stored_energy(resp.compliance, peak_force))
-    eps_max = float(np.abs(resp.strain_x).max()) * abs(peak_force)
+    eps_max = np.abs(resp.strain_x).max() * abs(peak_force)  # numpy floats: an absurd drive gives inf, not a fault
     reference = resp.reference_energy * eps_max**2
     return StorageFigures(
         energy=energy,
         specific_energy=energy / resp.mass,
-        peak_strain_x=eps_max,
-        efficiency=energy / reference if reference > 0 else 0.0,
+        peak_strain_x=float(eps_max),
+        efficiency=float(energy / reference) if 0 < reference < np.inf else 0.0,
     )

@@ -8,6 +8,7 @@ import numpy as np
 import pytest
 
 from life.design import parse_design
+from life.errors import InputError
 from life.estimate import estimate
 
 GLASS = {
@@ -151,3 +152,12 @@ def test_steady_rows_and_extrapolated_lives_are_said():
     assert any("extrapolated" in w for w in s["warnings"])
     assert s["cycles_per_block"] == 1000
     assert s["life_cycles"] == pytest.approx((800 / 24) ** 10, rel=1e-9)  # R = −1, no mean: Goodman changes nothing
+
+
+def test_an_absurd_drive_is_an_input_error():
+    """50 kN on the hand-check cantilever would strain the surface by 6PL/(bh²E) = 6·5e4·0.2/(0.02·0.005²·40e9)
+    = 3.0 (300 %): no structural material nor linear theory goes there, so it is an input slip (a unit, say),
+    reported as such rather than as a number (or an overflow for 1e300 N)."""
+    for force in ("50 kN", "1e300 N"):
+        with pytest.raises(InputError, match=r"\[duty\].*check the drive"):
+            estimate(_design([{"min": "0 N", "max": force, "count": 1}]))
