@@ -149,6 +149,13 @@ def locations(resp: BeamResponse, models: ModelSet, dominant_sign: float) -> Loc
     plies = resp.beam.plies
     is_core = np.array([ply.material.kind == "core" for ply in plies])
     components = {"fibre": 0, "transverse": 1, "shear": 2}
+    # Strain basis: the fibre direction uses the ply strain ε1 (strain-life data are measured so; Burton et al.,
+    # p. 387). Transverse and shear use σ2/E2 and τ12/G12, the strain their stress alone would cause, matching
+    # the strain-basis strengths Yt/E2, S12/G12: ε2 of a 0° ply carries Poisson contraction with no stress.
+    moduli = {
+        "transverse": np.array([ply.material.E2 for ply in plies])[None, :, None],
+        "shear": np.array([ply.material.G12 for ply in plies])[None, :, None],
+    }
     for family, comp in components.items():
         model = np.full((n, p, 2), -1)
         basis_strain = np.zeros((n, p, 2), bool)
@@ -157,7 +164,8 @@ def locations(resp: BeamResponse, models: ModelSet, dominant_sign: float) -> Loc
             model[:, j, :] = k
             if k >= 0 and models.models[k].curves[0].basis == "strain":
                 basis_strain[:, j, :] = True
-        response = np.where(basis_strain, resp.strain_12[..., comp], resp.stress_12[..., comp])
+        strain = resp.strain_12[..., 0] if family == "fibre" else resp.stress_12[..., comp] / moduli[family]
+        response = np.where(basis_strain, strain, resp.stress_12[..., comp])
         mask = face_mask & ~is_core[None, :, None]
         if family == "fibre":
             mode = np.where(response * dominant_sign >= 0, "fibre-tension", "fibre-compression")

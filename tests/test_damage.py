@@ -1,6 +1,8 @@
 """Locations and Miner damage: mapping of drive-cycle extremes to local cycles, closed-form lives."""
 from __future__ import annotations
 
+import dataclasses
+
 import numpy as np
 import pytest
 from hypothesis import given, settings
@@ -131,3 +133,18 @@ def test_locations_skip_dropped_plies_and_free_faces():
     # beyond the drop three plies remain: the neutral axis lies inside the middle one (interior location)
     after = inter & (x > 0.1) & (locs.face == 2)
     assert set(locs.ply[after]) == {2}
+
+
+def test_strain_basis_transverse_curve_sees_stress_over_modulus():
+    """A 0° ply in a narrow beam has σ2 = 0 but ε2 = −ν12·ε1 (Kaw 2nd ed. ch. 4): a strain-basis transverse curve must
+    see σ2/E2 = 0, not the Poisson contraction, or it would count damage with no stress behind it."""
+    glass = library()["e-glass-epoxy"]
+    strain_curve = ({"form": "power", "R": -1.0, "basis": "strain", "S1": 0.004, "m": 10.0, "b": None,
+                     "limit": None, "knee": None, "m2": None, "b2": None, "source": "test"},)
+    mat = dataclasses.replace(glass, name="strain-transverse", fatigue={**glass.fatigue, "transverse_fatigue": strain_curve})
+    beam = Beam("cantilever", 0.2, 0.02, 0.02, tuple(Ply(mat, 0.0, 0.5e-3) for _ in range(4)), stations=10)
+    resp = respond(beam)
+    locs = locations(resp, build_models([mat], "goodman"), 1.0)
+    transverse = locs.family == "transverse"
+    assert np.abs(locs.response[transverse]).max() < 1e-9 * np.abs(locs.response[locs.family == "fibre"]).max()
+    assert np.abs(resp.strain_12[..., 1]).max() > 0.2 * np.abs(resp.strain_12[..., 0]).max()  # ε2 ≈ −0.26 ε1 is there
