@@ -202,31 +202,6 @@ def curve_from_mapping(raw: Mapping, where: str) -> SNCurve:
         raise InputError(f"{where}: {exc}") from None
 
 
-def warnings_for(curve: SNCurve, N: np.ndarray, where: str = "") -> list[str]:
-    """Warnings (strings) on lives N [-] read from ``curve`` beyond its usual range of data.
-
-    N : np.ndarray — cycles to failure [-] read from the curve
-    where : str — location named at the start of each warning
-    """
-    N = np.asarray(N, dtype=float)
-    at = f"{where}: " if where else ""
-    out: list[str] = []
-    finite = np.isfinite(N)
-    past = int(np.count_nonzero(finite & (N > DATA_CYCLES_MAX)))
-    if past:
-        out.append(
-            f"{at}{past} life value(s) past {DATA_CYCLES_MAX:.0e} cycles: the {curve._name()} is extrapolated "
-            f"beyond the usual range of composite fatigue data (common practice: tests seldom run past 1e7-1e8 cycles)"
-        )
-    below = int(np.count_nonzero(N < 1.0))
-    if below:
-        out.append(
-            f"{at}{below} life value(s) below one cycle: amplitudes above S1 of the {curve._name()} "
-            f"(the curve is extrapolated above its N = 1 amplitude)"
-        )
-    return out
-
-
 # ---------------------------------------------------------------------------------------------
 # Checks: the range of each curve form.
 

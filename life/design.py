@@ -277,6 +277,7 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     base_dir : Path — folder that relative profile paths start from
     """
     _unknown(doc, TOP_KEYS, name)
+    _unknown(_table(doc, "beam", name), BEAM_KEYS, f"{name} [beam]")  # before the plies: a stray key says where
     notes: list[str] = []
     title = doc.get("title", "untitled design")
     if not isinstance(title, str):

@@ -42,8 +42,6 @@ from mechanics.laminate import (
     UnitBending,
     laminate,
     ply_field,
-    reduced_stiffness,
-    transformed_stiffness,
     shear_flow,
     transverse_shear_stiffness,
     unit_bending,
@@ -55,6 +53,7 @@ DEFAULT_STATIONS = 40
 LARGE_DEFLECTION = 0.10  # deflection/span beyond which small-deflection theory is doubtful (common practice)
 # Searle parameter β = b²/(R·h): narrow-beam (anticlastic) behaviour below about 1, cylindrical (plate)
 # bending above about 20 (Searle 1908; Ashwell 1950, J. R. Aeronaut. Soc. — thresholds recalled).
+DEEP_BEAM = 5.0  # span/depth below which beam theory (plane sections, shear correction) is doubtful (common practice)
 SEARLE_BEAM_MAX = 1.0
 SEARLE_PLATE_MIN = 20.0
 
@@ -317,13 +316,6 @@ def _station_positions(beam: Beam, segs: Sequence[Segment]) -> tuple[np.ndarray,
     return np.concatenate(xs), np.concatenate(idx)
 
 
-def _axial_modulus(layer: Layer) -> float:
-    """Ply modulus along the beam axis, 1/S̄11 with S̄ = Q̄⁻¹ [Pa] (Kaw, 2nd ed., Eq. 2.112 form)."""
-    m = layer.material
-    Qbar = transformed_stiffness(reduced_stiffness(m.E1, m.E2, m.nu12, m.G12), layer.angle)
-    return float(1.0 / np.linalg.inv(Qbar)[0, 0])
-
-
 def respond(beam: Beam) -> BeamResponse:
     """Build the response map of a beam per unit drive force.
 
@@ -382,18 +374,16 @@ def respond(beam: Beam) -> BeamResponse:
         curvature[rows] = Mx[rows] * seg.bending.kappa[0]
         thickness[rows] = seg.lam.thickness
 
-    # mass and the reference energy ½·E_x·V per unit strain²: b is linear, so ∫b dx = mean width × length
+    # mass and the reference energy ½·E_x·V per unit strain²: b is linear, so ∫b dx = mean width × length;
+    # E_x = 1/S̄11 with S̄ = Q̄⁻¹, the ply's modulus along the beam axis (Kaw, 2nd ed., sec. 2.4)
     mass = 0.0
     reference = 0.0
-    moduli = {}
     for seg in segs:
         area = 0.5 * float(beam.width(seg.x0) + beam.width(seg.x1)) * (seg.x1 - seg.x0)
-        for i in seg.active:
-            ply = beam.plies[i]
-            if i not in moduli:
-                moduli[i] = _axial_modulus(Layer(ply.material, ply.angle, ply.thickness))
-            mass += ply.material.density * ply.thickness * area
-            reference += 0.5 * moduli[i] * ply.thickness * area
+        axial = 1.0 / np.linalg.inv(seg.lam.Qbar)[:, 0, 0]
+        for layer, E_x in zip(seg.lam.layers, axial):
+            mass += layer.material.density * layer.thickness * area
+            reference += 0.5 * E_x * layer.thickness * area
     mass *= beam.halves
     reference *= beam.halves
 
@@ -429,13 +419,20 @@ def range_warnings(resp: BeamResponse, peak_force: float) -> list[str]:
 
     Notes
     -----
-    Small-deflection beam theory: deflection below about 10 % of the span (common practice, as in the
-    ASTM D790 limit of 5 % strain-rate tests). Searle parameter β = b²/(R·h) at the peak curvature 1/R:
+    Beam theory: span/depth above about 5 (common practice). Small-deflection beam theory: deflection below
+    about 10 % of the span (ASTM D790 corrects its flexural stress for larger deflections; recalled).
+    Searle parameter β = b²/(R·h) at the peak curvature 1/R:
     narrow-beam (free anticlastic) behaviour for β ≲ 1, cylindrical bending for β ≳ 20 (Searle 1908;
     Ashwell 1950; recalled thresholds).
     """
     out = []
     beam = resp.beam
+    depth = float(resp.thickness.max())
+    if beam.span / depth < DEEP_BEAM:
+        out.append(
+            f"span/depth = {beam.span / depth:.2g} is below {DEEP_BEAM:g}: a deep beam, where plane sections, the shear "
+            "correction and the beam stresses are doubtful (common practice); the figures are rough"
+        )
     deflection = resp.compliance * abs(peak_force)
     if deflection > LARGE_DEFLECTION * beam.span:
         out.append(

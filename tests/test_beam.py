@@ -326,3 +326,10 @@ def test_three_point_is_two_cantilevers(stack, half, drop):
     np.testing.assert_allclose(three.x, cant.x, rtol=ROUND_OFF, atol=1e-15)  # same stations; x = 0 needs an atol
     np.testing.assert_allclose(three.stress_12, cant.stress_12 / 2, rtol=ROUND_OFF, atol=1e-9 * np.abs(cant.stress_12).max())  # zeros at the tip
     assert three.mass == pytest.approx(2 * cant.mass, rel=ROUND_OFF)
+
+
+def test_deep_beam_warning():
+    """Span/depth below 5 is a deep beam (common practice): 20 mm span over 5 mm depth warns; 100 mm does not."""
+    for span, warned in [(0.02, True), (0.1, False)]:
+        r = respond(Beam("cantilever", span, 20e-3, 20e-3, plies(5e-3)))
+        assert any("deep beam" in w for w in range_warnings(r, 1e-3)) is warned

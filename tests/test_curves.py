@@ -11,7 +11,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from life.curves import SNCurve, curve_from_mapping, warnings_for
+from life.curves import SNCurve, curve_from_mapping
 from life.errors import InputError
 
 MPa = 1e6
@@ -167,13 +167,3 @@ def test_negative_amplitude_or_cycles_rejected():
         power().cycles(np.array([-1.0]))
     with pytest.raises(InputError):
         power().amplitude(np.array([-1.0]))
-
-
-def test_warnings_for_extrapolation():
-    """Lives past 1e8 cycles are extrapolated beyond usual composite data (common practice);
-    lives below one cycle lie above S1."""
-    c = power()
-    assert warnings_for(c, np.array([1e3, 1e6, np.inf])) == []
-    w = warnings_for(c, np.array([1e9, 0.5]), "ply 3")
-    assert len(w) == 2 and all(s.startswith("ply 3: ") for s in w)
-    assert "1e+08" in w[0] and "below one cycle" in w[1]
