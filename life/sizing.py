@@ -124,7 +124,7 @@ def size(design: Design, target_blocks: float, vary: str) -> SizingResult:
     insensitive = vary == "width" and design.duty.drive == "deflection"
     if base == probe:  # both zero (a static failure) or both unbounded: the probe says nothing, physics does
         if insensitive:
-            raise InputError(f"--vary width: under a deflection drive the strains hardly depend on the width; "
+            raise InputError("--vary width: under a deflection drive the strains hardly depend on the width; "
                              "size the thickness")
         grows = design.duty.drive == "force"  # thicker or wider strains less under a force, more under a deflection
     elif 0 < base < math.inf and 0 < probe < math.inf and abs(math.log(probe / base)) < INSENSITIVE:

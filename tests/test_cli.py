@@ -16,7 +16,6 @@ import math
 import re
 import subprocess
 import sys
-from dataclasses import dataclass
 from pathlib import Path
 
 import numpy as np
@@ -24,8 +23,8 @@ import pandas as pd
 import pytest
 import rainflow
 
-from life import cli
 from spectra.profiles import bundled_profile
+from cli_runner import bendlife
 
 BENDLIFE = Path(sys.executable).parent / "bendlife"  # the console script of this environment
 
@@ -80,30 +79,6 @@ count = {count}
 [duty]
 {duty}
 {extra}"""
-
-
-@dataclass(frozen=True)
-class Ran:
-    """What a command gave: exit code, stdout, stderr."""
-
-    code: int
-    out: str
-    err: str
-
-
-def bendlife(args: list[str], monkeypatch, capsys) -> Ran:
-    """Run ``bendlife ARGS`` in-process through the console entry point ``life.cli.main``."""
-    monkeypatch.setattr(sys, "argv", ["bendlife", *map(str, args)])
-    saved = np.geterr()  # main() silences numpy's floating-point warnings process-wide; give them back
-    try:
-        cli.main()
-        code = 0
-    except SystemExit as exc:
-        code = 0 if exc.code is None else int(exc.code)
-    finally:
-        np.seterr(**saved)
-    captured = capsys.readouterr()
-    return Ran(code, captured.out, captured.err)
 
 
 def strict_json(text: str) -> dict:

@@ -10,17 +10,14 @@ from __future__ import annotations
 import html
 import math
 import re
-import sys
-from pathlib import Path
 
-import numpy as np
 import pandas as pd
 import pytest
 
-from life import cli
 from life.compare import COLUMNS, comparison_html, comparison_table
 from life.design import load_design
 from life.estimate import CAUTION, estimate
+from cli_runner import bendlife
 
 # DESIGN.md, outputs contract: comparison.csv has at least these columns
 CONTRACT = ["title", "life_blocks", "life_cycles", "mass_kg", "stiffness_n_per_m", "peak_energy_j",
@@ -178,21 +175,6 @@ def test_comparison_html_is_self_contained_with_titles_warnings_and_caution(resu
             assert html.escape(w) in page
     assert "thin <4 plies>" not in page  # the title is escaped, not markup
     assert page.count("<tr>") == 1 + len(rs)  # header and one row per design
-
-
-def bendlife(args, monkeypatch, capsys):
-    """Run ``bendlife ARGS`` in-process through the console entry point; (exit code, stdout, stderr)."""
-    monkeypatch.setattr(sys, "argv", ["bendlife", *map(str, args)])
-    saved = np.geterr()  # main() silences numpy's floating-point warnings process-wide; give them back
-    try:
-        cli.main()
-        code = 0
-    except SystemExit as exc:
-        code = 0 if exc.code is None else int(exc.code)
-    finally:
-        np.seterr(**saved)
-    captured = capsys.readouterr()
-    return code, captured.out, captured.err
 
 
 def test_cli_compare_writes_csv_and_html(files, results, tmp_path, monkeypatch, capsys):

@@ -14,17 +14,15 @@ from __future__ import annotations
 
 import json
 import math
-import sys
 from importlib import resources
 from pathlib import Path
 
-import numpy as np
 import pytest
 
-from life import cli
 from life.design import load_design
 from life.estimate import estimate
 from mechanics.materials import library
+from cli_runner import bendlife
 
 EXAMPLES = sorted(Path(str(p)) for p in (resources.files("life") / "examples").iterdir() if p.name.endswith(".toml"))
 NEW = ["feeder-flexure.toml", "prosthetic-keel.toml", "coupon-three-point.toml"]
@@ -37,21 +35,6 @@ KAPPA = 5.0 / 6.0  # Timoshenko's shear correction of a rectangle
 @pytest.fixture(scope="module")
 def results():
     return {path.name: estimate(load_design(path)) for path in EXAMPLES}
-
-
-def bendlife(args, monkeypatch, capsys):
-    """Run ``bendlife ARGS`` in-process through the console entry point; (exit code, stdout, stderr)."""
-    monkeypatch.setattr(sys, "argv", ["bendlife", *map(str, args)])
-    saved = np.geterr()  # main() silences numpy's floating-point warnings process-wide; give them back
-    try:
-        cli.main()
-        code = 0
-    except SystemExit as exc:
-        code = 0 if exc.code is None else int(exc.code)
-    finally:
-        np.seterr(**saved)
-    captured = capsys.readouterr()
-    return code, captured.out, captured.err
 
 
 def test_the_new_examples_are_bundled():

@@ -17,7 +17,7 @@ from scipy.optimize import brentq
 from life.curves import SNCurve
 from life.errors import InputError
 from life.meanstress import (
-    FatigueModel, convert_curve_ratio, fatigue_model, gerber_amplitude_at_zero_mean,
+    convert_curve_ratio, fatigue_model, gerber_amplitude_at_zero_mean,
     gerber_amplitude_on_ray, goodman_amplitude_at_zero_mean, goodman_amplitude_on_ray,
     mean_ratio, model_warnings,
 )
