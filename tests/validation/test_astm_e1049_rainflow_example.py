@@ -21,6 +21,7 @@ range, S the starting point (this is the hand calculation behind EXPECTED_EXTREM
 """
 import numpy as np
 import pytest
+import rainflow
 
 from spectra.counting import merge_identical, rainflow_cycles, reversals
 
@@ -38,6 +39,15 @@ EXPECTED_EXTREMES = {
     (-4.0, 5.0): 0.5,
     (-4.0, 4.0): 0.5,
     (-2.0, 4.0): 0.5,
+}
+
+# (lo, hi): cycles per block when the example history is one block of a repeated duty
+# (residue="repeat", common practice), worked by hand in test_astm_e1049_example_as_a_repeated_block.
+EXPECTED_REPEAT_EXTREMES = {
+    (-1.0, 3.0): 1.0,
+    (-2.0, 1.0): 1.0,
+    (-3.0, 4.0): 1.0,
+    (-4.0, 5.0): 1.0,
 }
 
 
@@ -74,3 +84,44 @@ def test_astm_e1049_example_in_other_units(factor):
     np.testing.assert_allclose(merged.lo, [lo * factor for (lo, _), _ in expected], rtol=1e-12)
     np.testing.assert_allclose(merged.hi, [hi * factor for (_, hi), _ in expected], rtol=1e-12)
     np.testing.assert_array_equal(merged.count, [n for _, n in expected])
+
+
+def test_astm_e1049_example_as_a_repeated_block():
+    """The example history as one block of an endlessly repeated duty (residue="repeat").
+
+    The closed-loop treatment is common practice for repeated blocks; the expected cycles
+    are worked by hand here with the steps of §5.4.4 (X, Y, S as in the module docstring).
+    Units: the example's load units.
+      Reversals: the history itself, -2, 1, -3, 5, -1, 3, -4, 4, -2.
+      Largest |value|: 5 (4th reversal). Rotate to start there and close with 5:
+        5, -1, 3, -4, 4, -2, | -2, 1, -3, 5
+      At the joint the block's last reversal -2 meets its first -2: one point, a valley
+      (4 > -2 < 1). Closed loop: 5, -1, 3, -4, 4, -2, 1, -3, 5 (9 reversals).
+      1. 5, -1, 3: X = 4 < Y = 6, read on.
+      2. -1, 3, -4: X = 7 >= Y = 4, S = 5 not in Y: one cycle -1..3 (range 4); drop -1, 3.
+         5, -4: fewer than three points, read on.
+      3. 5, -4, 4: X = 8 < Y = 9; -4, 4, -2: X = 6 < 8; 4, -2, 1: X = 3 < 6; read on.
+      4. -2, 1, -3: X = 4 >= Y = 3: one cycle -2..1 (range 3); drop -2, 1.
+         -4, 4, -3: X = 7 < Y = 8, read on.
+      5. 4, -3, 5: X = 8 >= Y = 7: one cycle -3..4 (range 7); drop -3, 4.
+      6. 5, -4, 5: Y = 9 contains S, X = 9 >= Y: half cycle -4..5; drop the first 5.
+      7. End: residue -4, 5: half cycle -4..5, pairing with step 6: one cycle -4..5 (range 9).
+    Result, range (cycles) per block: 3 (1), 4 (1), 7 (1), 9 (1); total 4 = (9 - 1)/2.
+    Against the published single history, 3 (0.5), 4 (1.5), 6 (0.5), 8 (1.0), 9 (0.5):
+    the largest range 9 now counts as a whole cycle, not a half.
+
+    Reference beside the hand calculation: the `rainflow` package (ASTM E1049-85,
+    residue as half cycles) counting three blocks in a row minus two blocks in a row,
+    the counts one more block adds, and counting the closed loop above. Exact: integers.
+    """
+    cycles = rainflow_cycles(ASTM_E1049_EXAMPLE, residue="repeat")
+    found = {(float(lo), float(hi)): float(n) for lo, hi, n in zip(cycles.lo, cycles.hi, cycles.count)}
+    assert found == EXPECTED_REPEAT_EXTREMES  # each pair once: four distinct full cycles
+    assert cycles.n_total == (9 - 1) / 2
+
+    per_range = {hi - lo: n for (lo, hi), n in EXPECTED_REPEAT_EXTREMES.items()}
+    history = ASTM_E1049_EXAMPLE.tolist()
+    three, two = dict(rainflow.count_cycles(history * 3)), dict(rainflow.count_cycles(history * 2))
+    added = {rng: three[rng] - two.get(rng, 0.0) for rng in three if three[rng] != two.get(rng, 0.0)}
+    assert added == per_range
+    assert dict(rainflow.count_cycles([5, -1, 3, -4, 4, -2, 1, -3, 5])) == per_range
