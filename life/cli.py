@@ -24,7 +24,7 @@ from life.sizing import size as size_design
 from mechanics.errors import InputError as MechanicsInputError
 from mechanics.materials import describe, library
 from mechanics.units import unit_factor
-from spectra.counting import merge_identical, rainflow_cycles
+from spectra.counting import RESIDUE_MODES, merge_identical, rainflow_cycles
 from spectra.errors import InputError as SpectraInputError
 from spectra.profiles import read_time_history
 
@@ -98,12 +98,15 @@ def count(
     column: str = typer.Option(..., "--column", "-c", help="column to count"),
     unit: str = typer.Option(..., "--unit", "-u", help="unit of that column, e.g. mm, N, lbf"),
     top: int = typer.Option(25, "--top", help="rows to show, largest ranges first (0: all)"),
+    residue: str = typer.Option("half", "--residue", help="half (ASTM E1049-85) or repeat (a block of a repeated duty)"),
 ) -> None:
     """Rainflow-count a time history (ASTM E1049-85) and print the cycle table."""
+    if residue not in RESIDUE_MODES:
+        raise LifeInputError(f"--residue: must be one of {', '.join(RESIDUE_MODES)}, got {residue!r}")
     scale = unit_factor(unit, "--unit")
     history = read_time_history(profile, column, scale, f"{profile}")
-    cycles = merge_identical(rainflow_cycles(history.values))
-    typer.echo(terminal.cycle_text(cycles, unit, scale, top, history.values.size))
+    cycles = merge_identical(rainflow_cycles(history.values, residue))
+    typer.echo(terminal.cycle_text(cycles, unit, scale, top, history.values.size, residue))
 
 
 @app.command()

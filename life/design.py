@@ -23,7 +23,7 @@ from mechanics.laminate import SECTIONS
 from mechanics.materials import Material, resolve_materials
 from mechanics.units import parse_quantity, unit_factor
 from spectra import errors as spectra_errors
-from spectra.counting import Cycles, rainflow_cycles
+from spectra.counting import RESIDUE_MODES, Cycles, rainflow_cycles
 from spectra.profiles import block_table, bundled_profile, read_time_history
 
 BUNDLED_PREFIX = "bundled:"  # profile = "bundled:NAME" reads a demo profile shipped with bendlife
@@ -31,7 +31,7 @@ BUNDLED_PREFIX = "bundled:"  # profile = "bundled:NAME" reads a demo profile shi
 TOP_KEYS = {"title", "beam", "ply", "duty", "fatigue", "material"}
 BEAM_KEYS = {"support", "span", "width", "load_spacing", "section", "stations"}
 PLY_KEYS = {"material", "angle", "thickness", "count", "ends_at"}
-DUTY_KEYS = {"drive", "profile", "column", "unit", "cycles", "blocks_per_day"}
+DUTY_KEYS = {"drive", "profile", "column", "unit", "cycles", "blocks_per_day", "residue"}
 FATIGUE_KEYS = {"mean_stress", "miner_limit", "stress_factor"}
 CYCLE_KEYS = {"min", "max", "count"}
 
@@ -45,6 +45,8 @@ class Duty:
     source : str — where they came from, for reports
     signal : np.ndarray | None — the time history in SI, when one was given [N or m]
     blocks_per_day : float | None — repeats of the whole duty per day [1/day]
+    residue : str — how a time history's residue is counted: "half" (ASTM E1049-85, half cycles) or "repeat"
+        (the block as one of an endless repetition: the history closed on its largest reversal, full cycles)
     """
 
     drive: str
@@ -52,6 +54,7 @@ class Duty:
     source: str
     signal: np.ndarray | None
     blocks_per_day: float | None
+    residue: str = "half"
 
     @property
     def extremes(self) -> tuple[float, float]:
@@ -222,6 +225,9 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str]) -> Duty:
         raise InputError(f"{where}: give exactly one of 'profile' (a time history) or 'cycles' (a block table)")
     per_day = t.get("blocks_per_day")
     per_day = None if per_day is None else _number(per_day, f"{where} blocks_per_day")
+    residue = _choice(t.get("residue", "half"), RESIDUE_MODES, f"{where} residue")
+    if residue != "half" and has_cycles:
+        raise InputError(f"{where} residue: only a time history has a residue to count; leave it out for a block table")
     try:
         if has_profile:
             profile = _require(t, "profile", where)
@@ -239,8 +245,9 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str]) -> Duty:
             else:
                 path = (base_dir / profile).resolve()
             history = read_time_history(path, str(column), scale, f"{where} profile")
-            cycles = rainflow_cycles(history.values)
-            source = f"time history {profile} column {column!r} [{unit}], {history.values.size} samples"
+            cycles = rainflow_cycles(history.values, residue)
+            source = (f"time history {profile} column {column!r} [{unit}], {history.values.size} samples, "
+                      + ("residue as half cycles" if residue == "half" else "counted as a repeating block"))
             signal = history.values
         else:
             rows = t["cycles"]
@@ -267,7 +274,7 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str]) -> Duty:
         raise InputError(str(exc)) from None
     if cycles.lo.size == 0 or (np.abs(cycles.lo).max() == 0 and np.abs(cycles.hi).max() == 0):
         raise InputError(f"{where}: the duty never loads the part (no cycles, or every drive is zero)")
-    return Duty(drive, cycles, source, signal, per_day)
+    return Duty(drive, cycles, source, signal, per_day, residue)
 
 
 def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = None) -> Design:

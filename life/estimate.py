@@ -125,6 +125,7 @@ class LifeResult:
             "support": d.beam.support,
             "cycles_per_block": float(d.duty.cycles.n_total),
             "blocks_per_day": d.duty.blocks_per_day,
+            "residue": d.duty.residue,
             "mean_stress": d.mean_stress,
             "miner_limit": d.miner_limit,
             "stress_factor": d.stress_factor,

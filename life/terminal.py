@@ -69,12 +69,14 @@ def design_text(design: Design) -> str:
     return "\n".join(lines)
 
 
-def cycle_text(cycles: Cycles, unit: str, scale: float, top: int, samples: int) -> str:
+def cycle_text(cycles: Cycles, unit: str, scale: float, top: int, samples: int, residue: str = "half") -> str:
     """Rainflow table in the user's unit, largest ranges first."""
     order = np.argsort(-(cycles.hi - cycles.lo), kind="stable")
     if top:
         order = order[:top]
-    lines = [f"{samples} samples → {cycles.n_total:g} cycles (half cycles of the residue count ½) in "
+    how = ("half cycles of the residue count ½" if residue == "half"
+           else "counted as one block of a repeating duty: all full cycles")
+    lines = [f"{samples} samples → {cycles.n_total:g} cycles ({how}) in "
              f"{cycles.lo.size} distinct (min, max) rows; ASTM E1049-85 rainflow",
              f"{'range':>12s} {'mean':>12s} {'min':>12s} {'max':>12s} {'count':>8s}   [{unit}]"]
     for i in order:

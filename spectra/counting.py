@@ -143,8 +143,8 @@ def reversals(signal: np.ndarray) -> np.ndarray:
     -----
     A reversal is a sample where the first derivative changes sign; rainflow counting
     in ASTM E1049-85, §5.4.4, works on the history reduced to its peaks and valleys
-    (the example of its Fig. 6 is given as reversals). Repeated samples (plateaus) and intermediate points of monotone runs
-    are dropped. Computed by `rainflow.reversals`. A 1-sample signal gives that
+    (the example of its Fig. 6 is given as reversals). Repeated samples (plateaus) and
+    intermediate points of monotone runs are dropped. Computed by `rainflow.reversals`. A 1-sample signal gives that
     sample; a constant signal gives its first and last sample; an empty one, nothing.
     """
     x = _signal(signal)

@@ -410,3 +410,26 @@ def test_nominal_ply_thickness_is_used_and_said(tmp_path):
     design = load_design(path)
     assert [p.thickness for p in design.beam.plies] == [pytest.approx(0.2e-3, rel=1e-12)] * 5
     assert any("nominal ply thickness" in n and "#1" in n for n in design.notes)
+
+
+def test_residue_of_a_repeating_block(tmp_path):
+    """[duty] residue = "repeat" counts the history as one block of a repeated duty: the ASTM E1049-85 example
+    history −2, 1, −3, 5, −1, 3, −4, 4, −2 closed on its largest reversal gives four full cycles of ranges
+    3, 4, 7, 9 (hand count, see tests/validation/test_astm_e1049_rainflow_example.py); "half" gives 4 cycles
+    as 5 ranges with halves (ASTM E1049-85 §5.4.4). A block table has no residue: the key is refused there."""
+    (tmp_path / "h.csv").write_text("f\n-2\n1\n-3\n5\n-1\n3\n-4\n4\n-2\n")
+    base = ('title = "r"\n[beam]\nsupport = "cantilever"\nspan = "100 mm"\nwidth = "10 mm"\n'
+            '[[ply]]\nmaterial = "e-glass-epoxy"\nthickness = "1 mm"\ncount = 4\n'
+            '[duty]\ndrive = "force"\nprofile = "h.csv"\ncolumn = "f"\nunit = "N"\n')
+    (tmp_path / "repeat.toml").write_text(base + 'residue = "repeat"\n')
+    (tmp_path / "half.toml").write_text(base)
+    repeat = load_design(tmp_path / "repeat.toml").duty.cycles
+    assert sorted(repeat.range.tolist()) == [3.0, 4.0, 7.0, 9.0]
+    assert set(repeat.count.tolist()) == {1.0}
+    half = load_design(tmp_path / "half.toml").duty.cycles
+    assert half.n_total == 4.0 and sorted(set(half.range.tolist())) == [3.0, 4.0, 6.0, 8.0, 9.0]
+    (tmp_path / "table.toml").write_text(base.replace('profile = "h.csv"\ncolumn = "f"\nunit = "N"\n',
+                                                      'cycles = [ { min = "0 N", max = "1 N", count = 1 } ]\n')
+                                         + 'residue = "repeat"\n')
+    with pytest.raises(InputError, match="residue"):
+        load_design(tmp_path / "table.toml")
