@@ -176,6 +176,9 @@ class SNCurve:
 def curve_from_mapping(raw: Mapping, where: str) -> SNCurve:
     """A checked ``SNCurve`` from a raw curve mapping (SI floats), as ``Material.fatigue`` holds them.
 
+    A design file's curves were already checked, key by key, as ``mechanics.materials`` read them;
+    ``SNCurve`` checks its ranges again because curves are also built in code.
+
     raw : Mapping — keys ``form, R, basis, S1, m, b, limit, knee, m2, b2, source`` (absent or None
         where not used); S1 and limit in [Pa] (stress basis) or [-] (strain basis), knee in cycles [-]
     where : str — where the curve was given (file, material, table), for error messages

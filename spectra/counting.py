@@ -18,7 +18,6 @@ joint of two blocks are counted whole).
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Sequence
 
 import numpy as np
 import rainflow
@@ -328,23 +327,3 @@ def merge_identical(cycles: Cycles, decimals: int | None = None) -> Cycles:
     first[1:] = (lo[1:] != lo[:-1]) | (hi[1:] != hi[:-1])
     starts = np.flatnonzero(first)
     return Cycles(lo=lo[starts], hi=hi[starts], count=np.add.reduceat(count, starts))
-
-
-def concatenate(parts: Sequence[Cycles]) -> Cycles:
-    """All cycles of several parts, in order (e.g. several blocks of a duty).
-
-    Parameters
-    ----------
-    parts : Sequence[Cycles] — cycles of the same drive [unit of the drive, SI]
-
-    Returns
-    -------
-    Cycles — the parts one after the other; empty for no parts.
-    """
-    if len(parts) == 0:
-        return _empty()
-    return Cycles(
-        lo=np.concatenate([part.lo for part in parts]),
-        hi=np.concatenate([part.hi for part in parts]),
-        count=np.concatenate([part.count for part in parts]),
-    )

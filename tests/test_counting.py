@@ -20,7 +20,6 @@ from spectra.counting import (
     RESIDUE_MODES,
     Cycles,
     _full_cycles,
-    concatenate,
     merge_identical,
     rainflow_cycles,
     reversals,
@@ -400,7 +399,7 @@ def test_unpaired_half_cycles_are_an_internal_fault():
         _full_cycles(Cycles(lo=np.array([0.0]), hi=np.array([1.0]), count=np.array([0.5])))
 
 
-# --- merge_identical, concatenate ---------------------------------------------------------
+# --- merge_identical ---------------------------------------------------------
 
 @settings(max_examples=200)
 @given(integer_histories, st.sampled_from([None, -2, -1, 0]))
@@ -435,14 +434,3 @@ def test_merge_by_hand():
 def test_merge_of_no_cycles_is_empty():
     empty = rainflow_cycles(np.array([1.0, 1.0]))
     assert merge_identical(empty).lo.size == 0
-
-
-def test_concatenate_keeps_order_and_counts():
-    """Hand calc: parts of 1 and 2 cycles give 3 entries in order, total 1 + 0.5 + 2 = 3.5."""
-    a = Cycles(lo=np.array([0.0]), hi=np.array([1.0]), count=np.array([1.0]))
-    b = Cycles(lo=np.array([-1.0, 2.0]), hi=np.array([1.0, 3.0]), count=np.array([0.5, 2.0]))
-    joined = concatenate([a, b])
-    np.testing.assert_array_equal(joined.lo, [0.0, -1.0, 2.0])
-    np.testing.assert_array_equal(joined.hi, [1.0, 1.0, 3.0])
-    assert joined.n_total == 3.5
-    assert concatenate([]).n_total == 0.0
