@@ -63,6 +63,19 @@ def _fmt(value, digits=4, scale=1.0, unit=""):
     return f"{value * scale:.{digits}g} {unit}".strip()
 
 
+def _stack_rows(plies) -> list[tuple]:
+    """One row per run of identical consecutive plies: numbers (count), material, angle, thickness, drop."""
+    runs: list[list] = []  # [first, last, cells]
+    for k, p in enumerate(plies, start=1):
+        cells = (p.material.name, f"{p.angle:g}", f"{p.thickness * 1e3:.3f}",
+                 "—" if p.ends_at is None else f"{p.ends_at * 1e3:g}")
+        if runs and runs[-1][2] == cells:
+            runs[-1][1] = k
+        else:
+            runs.append([k, k, cells])
+    return [(f"{a}" if a == b else f"{a}–{b} ({b - a + 1})",) + cells for a, b, cells in runs]
+
+
 def _span_figure(result: LifeResult, locations: pd.DataFrame) -> str:
     resp = result.response
     peak = max(abs(v) for v in result.design.duty.extremes) * result.force_per_drive
@@ -153,8 +166,7 @@ def report_html(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, locat
             ("section", beam.section), ("stations", str(result.response.x.size))]
     if beam.load_spacing:
         part.append(("load spacing", f"{beam.load_spacing * 1e3:g} mm"))
-    stack = [(k, p.material.name, f"{p.angle:g}", f"{p.thickness * 1e3:.3f}",
-              "—" if p.ends_at is None else f"{p.ends_at * 1e3:g}") for k, p in enumerate(beam.plies, start=1)]
+    stack = _stack_rows(beam.plies)
     top = cycles.assign(range=cycles["max"] - cycles["min"]).sort_values("range", ascending=False).head(15)
     cyc_rows = [(f"{r['min'] * scale:.4g}", f"{r['max'] * scale:.4g}", f"{r['count']:g}", f"{r['energy_j']:.4g}")
                 for _, r in top.iterrows()]
@@ -186,7 +198,7 @@ th {{ background: #f2f2f2 }} .caution {{ background: #fff4e0; border-left: 5px s
 <h2>Part</h2>
 {_table(part)}
 <h3>Ply stack (from the tension face under positive drive)</h3>
-{_table(stack, header=("ply", "material", "angle [°]", "thickness [mm]", "ends at [mm]"))}
+{_table(stack, header=("plies (count)", "material", "angle [°]", "thickness [mm]", "ends at [mm]"))}
 <h2>Duty</h2>
 <p>{html.escape(d.duty.source)}; {d.duty.cycles.n_total:g} cycles per block; drive: {d.duty.drive}.
 cycles.csv: {html.escape(cycle_note)}.</p>
