@@ -18,7 +18,10 @@ the rule's *fatigue-limit diagram*, the rule's constant-life diagram drawn throu
 fatigue-limit amplitudes instead of the amplitudes at a life N (see ``FatigueModel``); outside it
 N comes from the rule's constant-life diagram.
 
-All sources are listed in /work/shared/REFERENCES.md ("Fatigue of fibre composites").
+Sources: the linear Goodman lines with unequal tension and compression strengths, reaching zero
+amplitude at the static strengths (Burton et al., *Wind Energy Handbook*, Wiley, p. 387, for
+composite strain-life; common practice); the Gerber parabola (common practice); the piecewise-linear
+constant-life diagram of Philippidis & Vassilopoulos (recalled).
 Everything is vectorized over the cycles: Goodman and Gerber are inverted in closed form; the
 constant-life diagram is solved with exact ray geometry (see ``FatigueModel``).
 """
@@ -67,7 +70,7 @@ def goodman_amplitude_at_zero_mean(sa: np.ndarray, sm: np.ndarray, Xt: float, Xc
 
     Notes
     -----
-    Linear Goodman with unequal strengths (REFERENCES.md, Fatigue of fibre composites)::
+    Linear Goodman with unequal strengths (Burton et al., Wind Energy Handbook, p. 387; common practice)::
 
         σa = σa0 (1 − σm/Xt)      σm >= 0
         σa = σa0 (1 − |σm|/Xc)    σm < 0
@@ -91,7 +94,7 @@ def gerber_amplitude_at_zero_mean(sa: np.ndarray, sm: np.ndarray, Xt: float, Xc:
 
     Notes
     -----
-    Gerber parabola (REFERENCES.md, Fatigue of fibre composites), σa = σa0 (1 − (σm/Xt)²) for
+    Gerber parabola (common practice), σa = σa0 (1 − (σm/Xt)²) for
     σm >= 0; on the compression side our choice is the mirrored parabola with Xc,
     σa = σa0 (1 − (σm/Xc)²), solved for σa0. |σm| at or beyond the strength gives σa0 = inf.
     """
@@ -114,7 +117,7 @@ def goodman_amplitude_on_ray(sa0: np.ndarray, R: float, Xt: float, Xc: float) ->
     -----
     The inverse of ``goodman_amplitude_at_zero_mean`` along σm = r·σa, r = (1 + R)/(1 − R):
     σa0 = σa/(1 − k·σa) with k = r/Xt (r >= 0) or k = −r/Xc (r < 0), so σa = σa0/(1 + k·σa0).
-    The line through (0, σa0) and (Xt, 0) or (−Xc, 0) meets the ray there (Goodman, REFERENCES.md).
+    The line through (0, σa0) and (Xt, 0) or (−Xc, 0) meets the ray there (linear Goodman, as above).
     """
     _check_strengths(Xt, Xc, "goodman_amplitude_on_ray")
     k = _ray_k(R, Xt, Xc)
