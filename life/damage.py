@@ -35,7 +35,7 @@ FIRST_LOAD_FAILURE = 0.5  # cycles to failure given to a cycle beyond static str
 # (σ2, τ12 of a 0° ply in a narrow beam come out near 1e-20 of σ1); it does no damage. Without this a
 # log-linear curve, which runs out at N = 10^(1/b) however small the amplitude, would count it.
 NEGLIGIBLE = 1e-9
-CHUNK = 4_000_000  # local (location × cycle) pairs evaluated at once, bounds the memory to ~100 MB
+CHUNK = 500_000  # local (location × cycle) pairs evaluated at once: about 40 MB of temporaries
 
 
 @dataclass(frozen=True)
