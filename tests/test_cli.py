@@ -25,6 +25,7 @@ import rainflow
 
 from spectra.profiles import bundled_profile
 from cli_runner import bendlife
+from designs import user_glass
 
 BENDLIFE = Path(sys.executable).parent / "bendlife"  # the console script of this environment
 
@@ -39,24 +40,7 @@ BUNDLED_MATERIALS = {"e-glass-epoxy", "carbon-epoxy", "aramid-epoxy", "glass-epo
                      "structural-foam"}
 
 # my-glass of DESIGN.md's design-file example, plus (in some tests) a fatigue limit on its curve.
-MY_GLASS = """\
-[material.my-glass]
-E1 = "40 GPa"
-E2 = "10 GPa"
-G12 = "4 GPa"
-nu12 = 0.28
-density = "1900 kg/m^3"
-Xt = "1000 MPa"
-Xc = "600 MPa"
-Yt = "40 MPa"
-Yc = "140 MPa"
-S12 = "70 MPa"
-[material.my-glass.fatigue]
-form = "power"
-R = -1
-S1 = "800 MPa"
-m = 10
-"""
+MY_GLASS = user_glass("my-glass")
 
 
 def cantilever(duty: str, material: str = "e-glass-epoxy", extra: str = "", title: str = "test cantilever",

@@ -18,6 +18,7 @@ from life.compare import COLUMNS, comparison_html, comparison_table
 from life.design import load_design
 from life.estimate import CAUTION, estimate
 from cli_runner import bendlife
+from designs import user_glass
 
 # DESIGN.md, outputs contract: comparison.csv has at least these columns
 CONTRACT = ["title", "life_blocks", "life_cycles", "mass_kg", "stiffness_n_per_m", "peak_energy_j",
@@ -27,25 +28,7 @@ CONTRACT = ["title", "life_blocks", "life_cycles", "mass_kg", "stiffness_n_per_m
 E1, G13, RHO = 40e9, 4e9, 1900.0  # Pa, Pa, kg/m³
 L, B, T_PLY = 0.200, 0.020, 0.5e-3  # span, width, ply thickness [m]
 
-MATERIAL = """\
-[material.test-glass]
-E1 = "40 GPa"
-E2 = "10 GPa"
-G12 = "4 GPa"
-G13 = "4 GPa"
-nu12 = 0.28
-density = "1900 kg/m^3"
-Xt = "1000 MPa"
-Xc = "600 MPa"
-Yt = "40 MPa"
-Yc = "140 MPa"
-S12 = "70 MPa"
-[material.test-glass.fatigue]
-form = "power"
-R = -1
-S1 = "800 MPa"
-m = 10
-"""
+MATERIAL = user_glass("test-glass", extra='G13 = "4 GPa"')
 
 
 def candidate(title: str, count: int, force: str = "20 N", extra_curve: str = "") -> str:

@@ -8,6 +8,7 @@ import pytest
 
 from life.design import load_design
 from life.errors import InputError
+from designs import user_glass
 from life.sizing import TOLERANCE, size
 
 DESIGN = """title = "sizing check"
@@ -15,23 +16,7 @@ DESIGN = """title = "sizing check"
 support = "cantilever"
 span = "200 mm"
 width = "{width}"
-[material.size-glass]
-E1 = "40 GPa"
-E2 = "10 GPa"
-G12 = "4 GPa"
-nu12 = 0.3
-density = "1900 kg/m^3"
-Xt = "1000 MPa"
-Xc = "600 MPa"
-Yt = "40 MPa"
-Yc = "140 MPa"
-S12 = "70 MPa"
-[material.size-glass.fatigue]
-form = "power"
-R = -1
-S1 = "800 MPa"
-m = 10
-[[ply]]
+""" + user_glass("size-glass", nu12=0.3) + """[[ply]]
 material = "size-glass"
 angle = 0
 thickness = "0.5 mm"   # a comment the sized file keeps
