@@ -46,7 +46,7 @@ def example_design() -> Path:
 @app.command()
 def run(
     design: Optional[Path] = typer.Argument(None, help="design file (TOML); without it, the bundled example"),
-    out: Path = typer.Option(Path("bendlife-out"), "--out", "-o", help="folder for summary.json, cycles.csv, locations.csv, report.html"),
+    out: Path = typer.Option(Path("bendlife-out"), "--out", "-o", help="folder for summary.json, cycles.csv, locations.csv, stations.csv, report.html"),
 ) -> None:
     """Estimate the fatigue life, stiffness, mass and stored energy of a design."""
     path = design if design is not None else example_design()

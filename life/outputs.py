@@ -75,6 +75,33 @@ def location_table(result: LifeResult) -> pd.DataFrame:
     return table.sort_values(["station", "ply", "face", "mode"], kind="stable").reset_index(drop=True)
 
 
+def station_table(result: LifeResult) -> pd.DataFrame:
+    """The beam along the span: geometry, moment and shear per unit drive force, and the peak figures there.
+
+    Columns: station, x_m, width_m, thickness_m, plies (present), moment_per_n [N·m/N], shear_per_n [N/N],
+    curvature_per_n [1/(m·N)], peak_strain (largest |ε1| there at the largest drive), damage_per_block (largest
+    of the station's locations).
+    """
+    resp, locs, dmg = result.response, result.locations, result.damage
+    peak_force = max(abs(v) for v in result.design.duty.extremes) * result.force_per_drive
+    worst = np.zeros(resp.x.size)
+    np.maximum.at(worst, locs.station, dmg.damage)
+    return pd.DataFrame(
+        {
+            "station": np.arange(resp.x.size),
+            "x_m": resp.x,
+            "width_m": resp.width,
+            "thickness_m": resp.thickness,
+            "plies": resp.present.sum(axis=1),
+            "moment_per_n": resp.moment,
+            "shear_per_n": resp.shear,
+            "curvature_per_n": resp.curvature,
+            "peak_strain": np.abs(resp.strain_12[..., 0]).max(axis=(1, 2)) * peak_force,
+            "damage_per_block": worst,
+        }
+    )
+
+
 def render(result: LifeResult) -> dict[str, str]:
     """All output files as text, keyed by file name."""
     cycles, note = cycle_table(result)
@@ -85,6 +112,7 @@ def render(result: LifeResult) -> dict[str, str]:
         "summary.json": json.dumps(summary, indent=2, allow_nan=False) + "\n",
         "cycles.csv": cycles.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
         "locations.csv": locations.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
+        "stations.csv": station_table(result).to_csv(index=False, float_format="%.9g", lineterminator="\n"),
     }
     files["report.html"] = report_html(result, cycles, note, locations)
     return files

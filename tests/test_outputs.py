@@ -26,7 +26,7 @@ from life.outputs import location_table, render, write_files
 
 LOCATION_COLUMNS = ["station", "x_m", "ply", "material", "angle_deg", "face", "z_m", "mode", "basis", "amplitude",
                     "mean", "damage_per_block", "life_blocks"]
-OUTPUT_FILES = {"summary.json", "cycles.csv", "locations.csv", "report.html"}
+OUTPUT_FILES = {"summary.json", "cycles.csv", "locations.csv", "stations.csv", "report.html"}
 
 
 def design_text(duty: str) -> str:
@@ -248,3 +248,21 @@ def test_report_is_one_self_contained_file(written):
     assert html.escape(CAUTION) in text
     assert text.count("<svg") >= 2
     assert text.rstrip().endswith("</html>")
+
+
+def test_stations_csv_follows_the_beam_formulas(result, written):
+    """stations.csv along the 100 mm cantilever: moment per unit end force m = L − x and shear 1 (Roark, 7th ed.,
+    Table 8.1 case 1a); curvature per force = −m/(E·I) per unit width through the narrow-beam 1/d11 (= E1·h³/12 for
+    a UD stack), so κ·E1·b·h³/12 = −(L − x); the root's peak strain is summary.json's peak_strain."""
+    table = pd.read_csv(written / "stations.csv")
+    assert len(table) == result.response.x.size
+    L = result.design.beam.span
+    np.testing.assert_allclose(table["moment_per_n"], L - table["x_m"], atol=1e-15)  # exact up to round-off [m]
+    np.testing.assert_allclose(table["shear_per_n"], 1.0)
+    b, h = table["width_m"], table["thickness_m"]
+    E1 = result.design.beam.plies[0].material.E1
+    np.testing.assert_allclose(table["curvature_per_n"] * E1 * b * h**3 / 12, -(L - table["x_m"]), rtol=1e-9,
+                               atol=1e-15)  # the CSV keeps 9 digits
+    assert table["peak_strain"].max() == pytest.approx(result.summary()["peak_strain"], rel=1e-8)
+    assert table["damage_per_block"].max() == pytest.approx(result.summary()["damage_per_block"], rel=1e-8)
+    assert (table["plies"] == 3).all()
