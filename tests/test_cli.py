@@ -361,15 +361,14 @@ def test_life_zero_beyond_static_strength(tmp_path, monkeypatch, capsys):
 def test_a_stress_that_is_zero_by_theory_does_no_damage(tmp_path, monkeypatch, capsys):
     """Three 0° e-glass/epoxy plies of 0.6 mm (h = 1.8 mm), 200 mm cantilever, tip deflection 2 → 10 mm × 1000
     and 0 → 4 mm × 250.5 per block. In 0° plies of a narrow beam σ2 = τ12 = 0 (D = Q h³/12 for a UD stack,
-    so the ply stress is Q·D⁻¹·M·z = (12Mz/h³, 0, 0); Kaw 2nd ed. ch. 4): round-off in them must do no damage,
-    although the library's log-linear transverse and shear curves run out at N = 10^(1/b) = 1e10 cycles for any
-    amplitude above zero. Fibre damage, by hand at the compression face of the root (the larger row):
+    so the ply stress is Q·D⁻¹·M·z = (12Mz/h³, 0, 0); Kaw 2nd ed. ch. 4): round-off in them must do no damage
+    (a log-linear curve would give it N = 10^(1/b) for any amplitude above zero). Fibre damage, by hand at the
+    compression face of the root (the larger row):
     ε = 3δh/(2L²): 6.75e-4 at 10 mm, 1.35e-4 at 2 mm, amplitude 2.7e-4, mean 4.05e-4; Goodman with
     eps1c = Xc/E1 = 610/38600 = 1.580 % (Tsai & Hahn 1980): ε_a0 = 2.7e-4/(1 − 4.05e-4/0.0158) = 2.771e-4;
     Burton et al. p. 387, S1 = 2.75 %, m = 10: N = (0.0275/2.771e-4)^10 = 9.3e19, D ≈ 1000/9.3e19 = 1.1e-17
-    per block (bound 1e-15: a factor 100 for shear deflection and the second row). Interlaminar shear is real
-    (τ = 3V/(2bh)) and its log-linear curve, read far past its data, gives a life near 1e10 cycles: the
-    estimate names it and warns that the curve is extrapolated."""
+    per block (bound 1e-15: a factor 100 for shear deflection and the second row); it governs, and the life
+    is read far past test data, which a warning says."""
     s = run_design(tmp_path, "low-strain", cantilever(
         'drive = "deflection"\ncycles = [ { min = "2 mm", max = "10 mm", count = 1000 }, '
         '{ min = "0 mm", max = "4 mm", count = 250.5 } ]\n', thickness="0.6 mm", count=3), monkeypatch, capsys)
@@ -377,5 +376,6 @@ def test_a_stress_that_is_zero_by_theory_does_no_damage(tmp_path, monkeypatch, c
     assert (locs.loc[locs["mode"].isin(["transverse", "shear"]), "damage_per_block"] == 0).all()
     fibre = locs.loc[locs["mode"].str.startswith("fibre"), "damage_per_block"]
     assert 0 < fibre.max() < 1e-15
-    assert s["critical"]["mode"] == "interlaminar"
+    assert s["critical"]["mode"].startswith("fibre"), s["critical"]
+    assert s["damage_per_block"] < 1e-15
     assert any("extrapolated" in w for w in s["warnings"])

@@ -219,7 +219,7 @@ def test_override_of_a_fatigue_table_replaces_the_whole_table():
     m = material_from_table("e-glass-epoxy", table, "design.toml [material.e-glass-epoxy]", base)
     (curve,) = m.fatigue["fatigue"]
     assert curve["form"] == "log-linear" and curve["m"] is None and curve["basis"] == "stress"
-    assert m.fatigue["transverse_fatigue"] == base.fatigue["transverse_fatigue"]
+    assert m.fatigue["shear_fatigue"] == base.fatigue["shear_fatigue"]  # the other tables stay
 
 
 def test_resolve_materials_adds_user_ones_and_overrides_library_ones():
