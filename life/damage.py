@@ -254,7 +254,7 @@ def miner_damage(locs: Locations, cycles: Cycles, force_per_drive: float, stress
     if nc:
         big = int(np.argmax(dhi - dlo))
         amp = np.abs(scale) * (dhi[big] - dlo[big]) / 2.0
-        mean = scale * (dhi[big] + dlo[big]) / 2.0
+        mean = scale * (dhi[big] + dlo[big]) / 2.0 + 0.0  # + 0.0: no "-0" in the outputs
     peak_drive = max(float(np.abs(dlo).max()), float(np.abs(dhi).max())) if nc else 0.0
     utilisation = np.zeros(k)
     for m, model in enumerate(locs.models):

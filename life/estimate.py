@@ -142,9 +142,11 @@ def _finite(value: float | None) -> float | None:
 
 
 def _static_check(design: Design, resp: BeamResponse, fpd: float) -> tuple[StaticCheck, list[str]]:
-    """Max-stress, Tsai-Wu and interlaminar reserves at both extremes of the duty.
+    """Max-stress, Tsai-Wu, fibre max-strain and interlaminar reserves at both extremes of the duty.
 
-    Every local stress is multiplied by the stress factor before the check, as for fatigue.
+    Every local stress is multiplied by the stress factor before the check, as for fatigue. The fibre
+    max-strain check uses the ultimate strains eps1t, eps1c (Xt/E1, Xc/E1 unless the material says
+    otherwise), the allowables of a strain-basis fibre curve.
     """
     plies = design.beam.plies
     strengths = strengths_of([p.material for p in plies]).expand(1)  # shape (p, 1): over (n, p, 2)
@@ -156,8 +158,10 @@ def _static_check(design: Design, resp: BeamResponse, fpd: float) -> tuple[Stati
     if missing:
         notes.append(f"no interlaminar strength S13 for {', '.join(missing)}: interlaminar shear not checked there")
     z_faces = np.concatenate([resp.z, resp.z_tau_peak[..., None]], axis=2)  # (n, p, 3): bottom, top, interior
+    eps1t = np.array([p.material.eps1t for p in plies])[None, :, None]
+    eps1c = np.array([p.material.eps1c for p in plies])[None, :, None]
     best = None
-    by = {"max-stress": math.inf, "Tsai-Wu": math.inf, "interlaminar": math.inf}
+    by = {"max-stress": math.inf, "Tsai-Wu": math.inf, "max-strain": math.inf, "interlaminar": math.inf}
     for drive in design.duty.extremes:
         force = drive * fpd * design.stress_factor
         if force == 0.0:
@@ -165,9 +169,13 @@ def _static_check(design: Design, resp: BeamResponse, fpd: float) -> tuple[Stati
         stress = resp.stress_12 * force  # (n, p, 2, 3)
         max_stress = max_stress_reserve(stress, strengths)
         tau = np.concatenate([resp.tau_xz, resp.tau_xz_peak[..., None]], axis=2) * force  # (n, p, 3)
+        eps1 = resp.strain_12[..., 0] * force
+        with np.errstate(divide="ignore"):  # maximum strain along the fibres (Jones, 2nd ed., sec. 2.9.3)
+            strain_reserve = np.where(eps1 > 0, eps1t / eps1, np.where(eps1 < 0, eps1c / -eps1, np.inf))
         per = {
             "max-stress": (max_stress.factor, max_stress.mode),
             "Tsai-Wu": (tsai_wu_reserve(stress, strengths), max_stress.mode),
+            "max-strain": (strain_reserve, np.where(eps1 >= 0, "fibre-tension", "fibre-compression")),
             "interlaminar": (interlaminar_reserve(np.abs(tau), np.broadcast_to(s13[None, :, None], tau.shape)),
                              np.broadcast_to(interlaminar_mode[None, :, None], tau.shape)),
         }
@@ -176,7 +184,7 @@ def _static_check(design: Design, resp: BeamResponse, fpd: float) -> tuple[Stati
             k = np.unravel_index(int(np.argmin(factor)), factor.shape)
             value = float(factor[k])
             by[name] = min(by[name], value)
-            if best is None or value < best.reserve:
+            if best is None or value < best.reserve * (1 - 1e-9):  # a tie within round-off keeps the first
                 place = Critical(float(resp.x[k[0]]), int(k[1]) + 1, float(z_faces[k]), str(mode[k]),
                                  FACES[int(k[2])], int(k[0]))
                 best = StaticCheck(value, name, drive, place, {})

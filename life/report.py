@@ -22,7 +22,8 @@ METHODS = [
      "compliance by the unit-load method with Timoshenko shear deformation (shear stiffness from the energy of the equilibrium τxz with the plies' G13/G23: the 5/6 correction for a homogeneous section), "
      "integrated exactly over taper and ply drops"),
     ("Interlaminar shear", "τxz from equilibrium of the ply stresses, ∂τxz/∂z = −∂σx/∂x (Whitney 1987, ch. 6)"),
-    ("Static strength", "first-ply failure by maximum stress and by Tsai-Wu with F12* = −1/2 (Tsai & Hahn 1980), "
+    ("Static strength", "first-ply failure by maximum stress, by Tsai-Wu with F12* = −1/2 (Tsai & Hahn 1980) and by "
+     "maximum fibre strain, "
      "interlaminar shear against the interlaminar strength"),
     ("Counting", "reversals and rainflow per ASTM E1049-85 §5.4.4, residue counted as half cycles (the rainflow package)"),
     ("Fatigue", "S-N or strain-life curves (power or log-linear), mean stress by Goodman, Gerber or a piecewise-linear "

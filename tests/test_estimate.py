@@ -161,3 +161,25 @@ def test_an_absurd_drive_is_an_input_error():
     for force in ("50 kN", "1e300 N"):
         with pytest.raises(InputError, match=r"\[duty\].*check the drive"):
             estimate(_design([{"min": "0 N", "max": force, "count": 1}]))
+
+
+def test_fibre_strain_allowables_enter_the_static_reserve():
+    """A material whose ultimate compressive strain eps1c = 0.3 % is below Xc/E1 = 1.5 % (a user value) and a
+    strain-basis fibre curve: at 60 N the root surface strain is 6PL/(bh²E1) = 6·60·0.2/(0.02·0.005²·40e9) = 0.36 %
+    (Roark case 1a), so the maximum-strain criterion (Jones, 2nd ed., sec. 2.9.3) gives a reserve 0.3/0.36 = 0.8333
+    on the compression face while max stress gives 600/144 = 4.17: the first load fails the part, and the static
+    reserve says so too (no "life 0 but reserve 4")."""
+    glass = dict(GLASS, eps1c="0.3 %", fatigue={"form": "power", "R": -1, "S1": "2 %", "m": 10})
+    doc = {
+        "title": "strain allowable",
+        "beam": {"support": "cantilever", "span": "200 mm", "width": "20 mm"},
+        "material": {"hand-glass": glass},
+        "ply": [{"material": "hand-glass", "angle": 0, "thickness": "0.5 mm", "count": 10}],
+        "duty": {"drive": "force", "cycles": [{"min": "0 N", "max": "60 N", "count": 1000}]},
+    }
+    s = estimate(parse_design(doc, "hand.toml", Path("."))).summary()
+    assert s["life_cycles"] == 0
+    assert s["static_criterion"] == "max-strain"
+    assert s["static_reserve"] == pytest.approx(0.3 / 0.36, rel=1e-9)
+    assert s["static_reserve_by_criterion"]["max-stress"] == pytest.approx(600 / 144, rel=1e-9)
+    assert s["critical"]["ply"] == 10 and s["critical"]["mode"] == "fibre-compression"
