@@ -19,13 +19,14 @@ METHODS = [
      "2.103, 4.28; Jones, 2nd ed., ch. 2 and 4); narrow beam: bending stiffness per width 1/d11 of the full ABD "
      "inverse; plate: cylindrical bending, w = w(x) (εy⁰ = κy = κxy = 0)"),
     ("Beam", "moments and deflections of Roark's Formulas for Stress and Strain, 7th ed., Table 8.1; load-point "
-     "compliance by the unit-load method with Timoshenko shear deformation (shear stiffness from the energy of the equilibrium τxz with the plies' G13/G23: the 5/6 correction for a homogeneous section), "
-     "integrated exactly over taper and ply drops"),
+     "compliance by the unit-load method with Timoshenko shear deformation (shear stiffness from the energy of "
+     "the equilibrium τxz with the plies' G13/G23: the 5/6 correction for a homogeneous section), integrated "
+     "exactly over taper and ply drops"),
     ("Interlaminar shear", "τxz from equilibrium of the ply stresses, ∂τxz/∂z = −∂σx/∂x (Whitney 1987, ch. 6)"),
     ("Static strength", "first-ply failure by maximum stress, by Tsai-Wu with F12* = −1/2 (Tsai & Hahn 1980) and by "
-     "maximum fibre strain, "
-     "interlaminar shear against the interlaminar strength"),
-    ("Counting", "reversals and rainflow per ASTM E1049-85 §5.4.4, residue counted as half cycles (the rainflow package)"),
+     "maximum fibre strain; interlaminar shear against the interlaminar strength"),
+    ("Counting", "reversals and rainflow per ASTM E1049-85 §5.4.4 (the rainflow package); the residue as half "
+     "cycles, or, with residue = \"repeat\", the block closed on its largest reversal as one of a repeating duty"),
     ("Fatigue", "S-N or strain-life curves (power or log-linear), mean stress by Goodman, Gerber or a piecewise-linear "
      "constant-life diagram, Palmgren–Miner damage sum"),
     ("Energy", "U = ½·C·F² (Clapeyron); the energy of a cycle from its lowest-energy point to its highest"),
