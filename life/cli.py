@@ -4,6 +4,7 @@ Exit codes: 0 done; 2 the input is wrong (one message on stderr, no traceback); 
 """
 from __future__ import annotations
 
+import difflib
 import os
 import sys
 import traceback
@@ -63,6 +64,8 @@ def compare(
     out: Path = typer.Option(Path("bendlife-compare"), "--out", "-o", help="folder for comparison.csv and comparison.html"),
 ) -> None:
     """Run several candidate designs and set their figures side by side."""
+    if len(designs) < 2:
+        raise LifeInputError("compare: give two or more design files to set side by side")
     results = [estimate(load_design(path)) for path in designs]
     table = comparison_table(results)
     write_files({"comparison.csv": table.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
@@ -103,8 +106,12 @@ def count(
     """Rainflow-count a time history (ASTM E1049-85) and print the cycle table."""
     if residue not in RESIDUE_MODES:
         raise LifeInputError(f"--residue: must be one of {', '.join(RESIDUE_MODES)}, got {residue!r}")
+    if not unit.strip():
+        raise LifeInputError('--unit: the unit of the column, e.g. "mm" or "N"')
+    if top < 0:
+        raise LifeInputError(f"--top: a number of rows >= 0 (0 shows all), got {top}")
     scale = unit_factor(unit, "--unit")
-    history = read_time_history(profile, column, scale, f"{profile}")
+    history = read_time_history(profile, column, scale, "count")
     cycles = merge_identical(rainflow_cycles(history.values, residue))
     typer.echo(terminal.cycle_text(cycles, unit, scale, top, history.values.size, residue))
 
@@ -117,7 +124,9 @@ def materials(name: Optional[str] = typer.Argument(None, help="a material to sho
         typer.echo(terminal.materials_text(lib))
         return
     if name not in lib:
-        raise LifeInputError(f"materials: unknown material {name!r}; bundled: {', '.join(sorted(lib))}")
+        close = difflib.get_close_matches(name, sorted(lib), n=1)
+        hint = f"did you mean {close[0]!r}? " if close else ""
+        raise LifeInputError(f"materials: unknown material {name!r}; {hint}bundled: {', '.join(sorted(lib))}")
     typer.echo(describe(lib[name]))
 
 

@@ -237,11 +237,14 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str]) -> Duty:
             unit = _require(t, "unit", where)
             if not isinstance(unit, str):
                 raise InputError(f"{where} unit: the unit of column {column!r} as a string, e.g. \"mm\"")
-            # the unit must be of the drive's kind: check it through a one-unit quantity
-            parse_quantity(f"1 {unit}", kind, f"{where} unit")
+            # a unit that scales (no offset), of the drive's kind: checked through a one-unit quantity
             scale = unit_factor(unit, f"{where} unit")
+            parse_quantity(f"1 {unit}", kind, f"{where} unit")
             if profile.startswith(BUNDLED_PREFIX):
-                path = bundled_profile(profile[len(BUNDLED_PREFIX):])
+                try:
+                    path = bundled_profile(profile[len(BUNDLED_PREFIX):])
+                except spectra_errors.InputError as exc:
+                    raise InputError(f"{where} profile: {exc}") from None
             else:
                 path = (base_dir / profile).resolve()
             history = read_time_history(path, str(column), scale, f"{where} profile")

@@ -213,7 +213,8 @@ def estimate(design: Design) -> LifeResult:
     if not peak_strain <= IMPLAUSIBLE_STRAIN:
         name = design.path.name if design.path else "the design"
         raise InputError(
-            f"{name} [duty]: the largest drive ({peak_drive:g} SI) strains the fibres by {peak_strain:.3g}, "
+            f"{name} [duty]: the largest drive ({peak_drive:g} {'m' if design.duty.drive == 'deflection' else 'N'}) "
+            f"strains the fibres by {peak_strain:.3g}, "
             f"far past any structural material and any linear theory (> {IMPLAUSIBLE_STRAIN:g}); check the drive "
             "values and their unit"
         )

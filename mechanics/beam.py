@@ -126,9 +126,12 @@ def validate(beam: Beam) -> None:
         )
     if beam.support == "four-point":
         s = beam.load_spacing
-        if s is None or not (0 < s < beam.span):
+        if s is None:
+            raise InputError("[beam] load_spacing: four-point needs the distance between its two load points "
+                             f"(missing), 0 < load_spacing < span ({beam.span * 1e3:g} mm)")
+        if not 0 < s < beam.span:
             raise InputError(
-                f"[beam] load_spacing: four-point needs 0 < load_spacing < span ({beam.span:g} m), got {s}"
+                f"[beam] load_spacing: four-point needs 0 < load_spacing < span ({beam.span:g} m), got {s:g} m"
             )
     elif beam.load_spacing is not None:
         raise InputError(f"[beam] load_spacing: only for support = \"four-point\", not {beam.support!r}")

@@ -12,6 +12,7 @@ profiles (invented data, labelled as such in their header) ship as package data.
 """
 from __future__ import annotations
 
+import csv
 import io
 import math
 import re
@@ -99,12 +100,18 @@ def read_time_history(path: Path, column: str, scale: float, where: str) -> Time
     data, line_of = _data_lines(text)  # line_of[0] is the header, line_of[k] the k-th sample
     if not line_of:
         raise InputError(f"{where}: profile file '{path}' has no header line; the first line that is not a comment must name the columns")
+    header = [name.strip() for name in next(csv.reader([data.split("\n", 1)[0]]))]
+    twice = sorted({name for name in header if header.count(name) > 1})
+    if twice:  # pandas would rename the second one silently ("d" → "d.1")
+        raise InputError(f"{where}: profile file '{path}', line {line_of[0]}: column name "
+                         f"{', '.join(repr(n) for n in twice)} appears more than once; give every column its own name")
     try:
         table = pd.read_csv(io.StringIO(data), dtype=str, na_filter=False, skipinitialspace=True)
     except pd.errors.ParserError as exc:
         found = re.search(r"line (\d+)", str(exc))
         line = f", line {line_of[int(found.group(1)) - 1]}" if found else ""
-        raise InputError(f"{where}: profile file '{path}'{line}: not a valid CSV row ({exc}); "
+        reason = " ".join(str(exc).split())  # one line
+        raise InputError(f"{where}: profile file '{path}'{line}: not a valid CSV row ({reason}); "
                          f"every row needs the same fields as the header") from None
     names = [str(name).strip() for name in table.columns]
     if column not in names:

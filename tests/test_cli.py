@@ -25,6 +25,8 @@ import rainflow
 
 from spectra.profiles import bundled_profile
 from cli_runner import bendlife
+from life import cli as cli_module
+from spectra import profiles as spectra_profiles
 from designs import user_glass
 
 BENDLIFE = Path(sys.executable).parent / "bendlife"  # the console script of this environment
@@ -379,3 +381,20 @@ def test_a_stress_that_is_zero_by_theory_does_no_damage(tmp_path, monkeypatch, c
     assert s["critical"]["mode"].startswith("fibre"), s["critical"]
     assert s["damage_per_block"] < 1e-15
     assert any("extrapolated" in w for w in s["warnings"])
+
+
+@pytest.mark.parametrize("args, says", [
+    (["count", "RIDE", "--column", "deflection_mm", "--unit", ""], "--unit"),
+    (["count", "RIDE", "--column", "deflection_mm", "--unit", "mm", "--top", "-1"], "--top"),
+    (["count", "RIDE", "--column", "deflection_mm", "--unit", "degC"], "offset unit"),
+    (["materials", "e-glass-epoxi"], "did you mean 'e-glass-epoxy'"),
+    (["compare", "ONE"], "two or more"),
+])
+def test_wrong_arguments_exit_2_with_a_message(args, says, monkeypatch, capsys):
+    """Arguments the commands cannot use are input errors: exit 2, one message, no traceback."""
+    ride = spectra_profiles.bundled_profile("cargo-bike-ride")
+    one = cli_module.example_design()
+    args = [str(ride) if a == "RIDE" else str(one) if a == "ONE" else a for a in args]
+    ran = bendlife(args, monkeypatch, capsys)
+    assert ran.code == 2, ran
+    assert says in ran.err and "Traceback" not in ran.err

@@ -433,3 +433,18 @@ def test_residue_of_a_repeating_block(tmp_path):
                                          + 'residue = "repeat"\n')
     with pytest.raises(InputError, match="residue"):
         load_design(tmp_path / "table.toml")
+
+
+@pytest.mark.parametrize("duty, says", [
+    ('drive = "deflection"\nprofile = "bundled:nope"\ncolumn = "d"\nunit = "mm"\n', "[duty] profile"),
+    ('drive = "deflection"\nprofile = "bundled:cargo-bike-ride"\ncolumn = "deflection_mm"\nunit = "degC"\n',
+     "offset unit"),
+])
+def test_duty_profile_messages_name_the_key(tmp_path, duty, says):
+    """A bundled profile that does not exist and an offset unit are refused naming the file and [duty] key."""
+    path = tmp_path / "d.toml"
+    path.write_text('title = "x"\n[beam]\nsupport = "cantilever"\nspan = "100 mm"\nwidth = "10 mm"\n'
+                    '[[ply]]\nmaterial = "e-glass-epoxy"\nthickness = "1 mm"\ncount = 4\n[duty]\n' + duty)
+    with pytest.raises(InputError) as info:
+        load_design(path)
+    assert "d.toml [duty]" in str(info.value) and says in str(info.value)

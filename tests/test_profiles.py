@@ -247,3 +247,20 @@ def test_spectra_imports_neither_mechanics_nor_life():
             "print(sorted(m for m in sys.modules if m.split('.')[0] in ('mechanics', 'life')))")
     result = subprocess.run([sys.executable, "-c", code], check=True, capture_output=True, text=True)
     assert result.stdout.strip() == "[]"
+
+
+def test_a_column_name_given_twice_is_refused(tmp_path):
+    """pandas renames a repeated header name ("d" → "d.1") without a word: the reader refuses it, naming the line."""
+    path = tmp_path / "dup.csv"
+    path.write_text("# a comment\nd,d\n1,2\n3,4\n")
+    with pytest.raises(InputError, match=r"line 2: column name 'd' appears more than once"):
+        read_time_history(path, "d", 1.0, "test")
+
+
+def test_a_ragged_row_is_one_line_of_message(tmp_path):
+    """A row with more fields than the header names its line, in a message of one line."""
+    path = tmp_path / "rag.csv"
+    path.write_text("a,b\n1,2\n3,4,5\n")
+    with pytest.raises(InputError, match=r"line 3") as info:
+        read_time_history(path, "a", 1.0, "test")
+    assert "\n" not in str(info.value)
