@@ -180,9 +180,13 @@ def locations(resp: BeamResponse, models: ModelSet, dominant_sign: float) -> Loc
     strain_basis = np.array(
         [model[0, j] >= 0 and models.models[model[0, j]].curves[0].basis == "strain" for j in range(p)]
     )
-    g13 = np.array([ply.material.G13 for ply in plies])
-    tau_faces = np.where(strain_basis[None, :, None], resp.tau_xz / g13[None, :, None], resp.tau_xz)
-    tau_peak = np.where(strain_basis[None, :], resp.tau_xz_peak / g13[None, :], resp.tau_xz_peak)
+    # strain basis: γxz = τxz/G_xz with G_xz = G13 cos²θ + G23 sin²θ, the ply's shear modulus in the x–z plane
+    # (as in mechanics.laminate.transverse_shear_stiffness; Jones, 2nd ed., sec. 2.6)
+    theta = np.radians([ply.angle for ply in plies])
+    g_xz = np.array([ply.material.G13 for ply in plies]) * np.cos(theta) ** 2 + \
+        np.array([ply.material.G23 for ply in plies]) * np.sin(theta) ** 2
+    tau_faces = np.where(strain_basis[None, :, None], resp.tau_xz / g_xz[None, :, None], resp.tau_xz)
+    tau_peak = np.where(strain_basis[None, :], resp.tau_xz_peak / g_xz[None, :], resp.tau_xz_peak)
     ply_mode = np.where(is_core, "core-shear", "interlaminar").astype(object)
     # the laminate's outer faces carry no τxz: skip the bottom face of the lowest and the top of the highest ply
     first = np.argmax(resp.present, axis=1)
