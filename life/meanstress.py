@@ -322,10 +322,23 @@ def model_warnings(model: FatigueModel, where: str = "") -> list[str]:
       other curves crosses: its cycles below that diagram do no damage although its own curve,
       alone, gives them a finite life (Notes of ``FatigueModel``);
     - cld: every curve at 0 < R < 1 (or every curve at R > 1): cycles on the far side of the
-      diagram's end line from (−Xc, 0) (or (Xt, 0)) get N = 0 inside the static strengths.
+      diagram's end line from (−Xc, 0) (or (Xt, 0)) get N = 0 inside the static strengths;
+    - any rule: a one-sided cycle from zero (0 → peak, or 0 → −peak) that fails within ten cycles
+      at under half the static strength on that side: the diagram is far inside the static
+      envelope there (a curve with S1 far below Xc or Xt read through Goodman, say), and cycles on
+      that side are judged much more damaging than the strength suggests.
     """
     at = f"{where}: " if where else ""
     out: list[str] = []
+    for side, X, name in (("tension", model.Xt, "Xt"), ("compression", model.Xc, "Xc")):
+        peak = 0.5 * X  # a 0 → ±X/2 cycle: amplitude and |mean| X/4
+        lo, hi = (np.array([0.0]), np.array([peak])) if side == "tension" else (np.array([-peak]), np.array([0.0]))
+        N = float(model.cycles_to_failure(lo, hi)[0])
+        if 0.0 < N < 10.0:
+            out.append(
+                f"{at}a {side} cycle from zero to half of {name} fails within {N:.3g} cycles: the diagram lies far "
+                f"inside the static strength on the {side} side; give curves at several R (mean_stress = \"cld\")"
+            )
     for c in model.curves:
         r = mean_ratio(c.R)
         peak = c.S1 * (1.0 + r) if r >= 0 else c.S1 * (1.0 - r)

@@ -459,3 +459,14 @@ def test_cld_life_non_increasing_along_a_ray(model, theta, rho):
     r = [mean_ratio(c.R) for c in model.curves]
     if min(r) <= 1.0 and max(r) >= -1.0:
         assert np.all((N > 0) | (hi > XT) | (lo < -XC))
+
+
+def test_warning_when_the_diagram_lies_far_inside_one_strength():
+    """A transverse curve at R = −1 with S1 = Yt = 40 MPa, Yc = 246 MPa (Tsai & Hahn 1980 carbon/epoxy) through
+    linear Goodman: a 0 → −123 MPa cycle (half of Yc) has σa = σm = 61.5 MPa, σa0 = 61.5/(1 − 61.5/246) = 82 MPa
+    > S1, so N < 1 although it is half the static strength — the model warns. The tension side, 0 → 20 MPa:
+    σa0 = 10/(1 − 10/40) = 13.3 MPa, N = (40/13.3)^10 ≈ 6e4 cycles with m = 10: no warning there."""
+    curve = SNCurve(form="power", R=-1.0, S1=40 * MPa, basis="stress", m=10.0)
+    warnings = model_warnings(fatigue_model("goodman", [curve], 40 * MPa, 246 * MPa, "t"), "carbon transverse")
+    assert any("compression cycle" in w and "Xc" in w for w in warnings)
+    assert not any("tension cycle" in w for w in warnings)
