@@ -43,7 +43,7 @@ from mechanics.laminate import (
     laminate,
     ply_field,
     shear_flow,
-    transverse_shear_stiffness,
+    shear_stiffness,
     unit_bending,
 )
 from mechanics.materials import Material
@@ -196,7 +196,8 @@ def segments(beam: Beam) -> tuple[Segment, ...]:
             bend = unit_bending(lam, beam.section)
             if not bend.flexural_compliance > 0:
                 raise InputError("the laminate has no bending stiffness (its compliance d11 is not positive)")
-            cache[active] = (lam, bend, transverse_shear_stiffness(lam, beam.section), shear_flow(lam, bend))
+            flow = shear_flow(lam, bend)
+            cache[active] = (lam, bend, shear_stiffness(lam, bend, flow), flow)
         out.append(Segment(x0, x1, active, *cache[active]))
     return tuple(out)
 

@@ -318,7 +318,11 @@ def transverse_shear_stiffness(lam: Laminate, section: str = "beam") -> float:
     would overstate it many times. t(z) is quadratic within a ply, so 3-point Gauss–Legendre is exact.
     """
     bending = unit_bending(lam, section)
-    flow = shear_flow(lam, bending)
+    return shear_stiffness(lam, bending, shear_flow(lam, bending))
+
+
+def shear_stiffness(lam: Laminate, bending: UnitBending, flow: ShearFlow) -> float:
+    """``transverse_shear_stiffness`` from a unit bending and its shear flow already at hand [N/m]."""
     s_coef = lam.Qbar[:, 0, :]
     s0, s1 = s_coef @ bending.eps0, s_coef @ bending.kappa
     nodes, weights = GAUSS_3
