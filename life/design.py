@@ -7,10 +7,11 @@ would be right. Nothing is guessed.
 from __future__ import annotations
 
 import difflib
+import re
 import tomllib
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any, Mapping
+from typing import Any, Mapping, Sequence
 
 import numpy as np
 
@@ -21,10 +22,10 @@ from mechanics.beam import DEFAULT_STATIONS, SUPPORTS, Beam, Ply, segments, vali
 from mechanics.energy import DRIVES
 from mechanics.laminate import SECTIONS
 from mechanics.materials import Material, resolve_materials
-from mechanics.units import parse_quantity, unit_factor
+from mechanics.units import dimension_name, parse_quantity, unit_factor
 from spectra import errors as spectra_errors
 from spectra.counting import RESIDUE_MODES, Cycles, rainflow_cycles
-from spectra.profiles import block_table, bundled_profile, read_time_history
+from spectra.profiles import COMMENT, block_table, bundled_profile, read_time_history
 
 BUNDLED_PREFIX = "bundled:"  # profile = "bundled:NAME" reads a demo profile shipped with bendlife
 
@@ -123,9 +124,16 @@ def _number(value: Any, where: str, positive: bool = True) -> float:
     return value
 
 
+def suggest(value: Any, names: Sequence[str]) -> str:
+    """``"did you mean 'x'? "`` for the nearest of ``names`` (difflib), or ``""`` when none is near."""
+    close = difflib.get_close_matches(str(value), list(names), n=1, cutoff=0.6) if isinstance(value, str) else []
+    return f"did you mean {close[0]!r}? " if close else ""
+
+
 def _choice(value: Any, choices: tuple, where: str) -> str:
-    if value not in choices:
-        raise InputError(f"{where}: must be one of {', '.join(map(repr, choices))}, got {value!r}")
+    if not isinstance(value, str) or value not in choices:
+        raise InputError(f"{where}: unknown name {value!r}; {suggest(value, choices)}"
+                         f"must be one of {', '.join(map(repr, choices))}")
     return value
 
 
@@ -184,6 +192,8 @@ def _plies(doc: Mapping, materials: Mapping[str, Material], name: str, notes: li
             raise InputError(f"{where}: must be a table")
         _unknown(row, PLY_KEYS, where)
         mat_name = _require(row, "material", where)
+        if not isinstance(mat_name, str):
+            raise InputError(f"{where} material: a material name as a string, e.g. \"e-glass-epoxy\", got {mat_name!r}")
         if mat_name not in materials:
             close = difflib.get_close_matches(str(mat_name), sorted(materials), n=1)
             hint = f"did you mean {close[0]!r}?" if close else "see `bendlife materials`"
@@ -214,6 +224,38 @@ def _plies(doc: Mapping, materials: Mapping[str, Material], name: str, notes: li
     return tuple(out)
 
 
+DRIVE_UNIT = {"deflection": '"mm" or "in"', "force": '"N" or "lbf"'}  # examples of a profile unit per drive
+
+
+def _unit_of_drive(unit: str, drive: str, where: str) -> None:
+    """Reject a profile unit whose dimension is not the drive's (``unit = "N"`` for a deflection drive)."""
+    wanted = "length" if drive == "deflection" else "force"
+    try:
+        parse_quantity(f"1 {unit}", wanted, where)
+    except mechanics_errors.InputError:
+        got = dimension_name(unit)
+        raise InputError(f"{where}: {unit!r} measures {got}, but drive = {drive!r} needs a unit of {wanted}, "
+                         f"e.g. {DRIVE_UNIT[drive]}") from None
+
+
+def _check_header(path: Path, profile: str, where: str) -> None:
+    """Refuse a profile whose first line (after comments) holds numbers only: data without a header line."""
+    try:
+        with open(path, encoding="utf-8-sig") as fh:
+            for number, line in enumerate(fh, start=1):
+                if line.startswith(COMMENT) or not line.strip():
+                    continue
+                cells = [c.strip() for c in line.split(",")]
+                try:
+                    [float(c) for c in cells]
+                except ValueError:
+                    return  # a header of names
+                raise InputError(f"{where} profile: {profile}, line {number}: {line.strip()!r} is data, not a header; "
+                                 "the first line that is not a comment must name the columns, e.g. time_s,deflection")
+    except (OSError, UnicodeDecodeError):
+        return  # read_time_history says what is wrong with the file
+
+
 def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str]) -> Duty:
     t = _table(doc, "duty", name)
     where = f"{name} [duty]"
@@ -237,9 +279,11 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str]) -> Duty:
             unit = _require(t, "unit", where)
             if not isinstance(unit, str):
                 raise InputError(f"{where} unit: the unit of column {column!r} as a string, e.g. \"mm\"")
-            # a unit that scales (no offset), of the drive's kind: checked through a one-unit quantity
+            # a unit that scales (no offset), of the drive's kind
+            if not unit.strip():
+                raise InputError(f"{where} unit: empty; give the unit of column {column!r}, e.g. {DRIVE_UNIT[drive]}")
             scale = unit_factor(unit, f"{where} unit")
-            parse_quantity(f"1 {unit}", kind, f"{where} unit")
+            _unit_of_drive(unit, drive, f"{where} unit")
             if profile.startswith(BUNDLED_PREFIX):
                 try:
                     path = bundled_profile(profile[len(BUNDLED_PREFIX):])
@@ -247,7 +291,15 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str]) -> Duty:
                     raise InputError(f"{where} profile: {exc}") from None
             else:
                 path = (base_dir / profile).resolve()
-            history = read_time_history(path, str(column), scale, f"{where} profile")
+            if not isinstance(column, str) or not column.strip():
+                raise InputError(f"{where} column: the name of the profile's column as a string, e.g. \"deflection\", "
+                                 f"got {column!r}")
+            _check_header(path, profile, where)
+            history = read_time_history(path, column, scale, f"{where} profile")
+            if float(np.ptp(history.values)) == 0.0:
+                raise InputError(
+                    f"{where} profile: {profile}, column {column!r} is constant ({history.values[0] / scale:g} {unit} "
+                    f"in all {history.values.size} samples): no cycle to count; a time history must vary")
             cycles = rainflow_cycles(history.values, residue)
             source = (f"time history {profile} column {column!r} [{unit}], {history.values.size} samples, "
                       + ("residue as half cycles" if residue == "half" else "counted as a repeating block"))
@@ -294,7 +346,7 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
         raise InputError(f"{name} title: must be a string, got {title!r}")
     user = _table(doc, "material", name, required=False)
     try:
-        materials = resolve_materials(user, f"{name} [material]")
+        materials = resolve_materials(user, name)
     except mechanics_errors.InputError as exc:
         raise InputError(str(exc)) from None
     try:
@@ -322,7 +374,12 @@ def load_design(path: Path) -> Design:
     try:
         doc = tomllib.loads(path.read_text(encoding="utf-8"))
     except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"{path.name}: not valid TOML ({exc})") from None
+        text = str(exc)
+        found = re.search(r"\s*\(at line (\d+), column (\d+)\)", text)
+        if found:  # Python 3.11's tomllib puts the place at the end of the message
+            raise InputError(f"{path.name}, line {found.group(1)}, column {found.group(2)}: not valid TOML "
+                             f"({text[:found.start()]}); a value with a unit is a quoted string, e.g. span = \"420 mm\"") from None
+        raise InputError(f"{path.name}: not valid TOML ({text})") from None
     except UnicodeDecodeError:
         raise InputError(f"{path.name}: not a UTF-8 text file") from None
     return parse_design(doc, path.name, path.parent, path)

@@ -1,13 +1,14 @@
 """Output files of a run (DESIGN.md, outputs contract): summary.json, cycles.csv, locations.csv, report.html.
 
-Every file is rendered in memory first, then written beside its final name and moved into place, so a
-failing run leaves the output folder as it was.
+Every file is rendered in memory first, then written into a temporary folder beside the output folder and
+moved into place at the end, so a failing run leaves the output folder as it was.
 """
 from __future__ import annotations
 
 import io
 import json
 import os
+import shutil
 import tempfile
 from pathlib import Path
 from typing import Mapping
@@ -132,31 +133,48 @@ def sizing_json(answer: SizingResult) -> str:
     return json.dumps(doc, indent=2, allow_nan=False) + "\n"
 
 
+STAGING_PREFIX = ".bendlife-staging-"  # the temporary folder beside --out that a run writes into first
+
+
 def write_files(files: Mapping[str, str], out: Path) -> list[Path]:
-    """Write rendered files into ``out`` (created if absent), each replaced whole or not at all."""
+    """Write rendered files into ``out`` (created if absent), each replaced whole or not at all.
+
+    Every file is written into a temporary folder created beside ``out`` (same file system), and only when
+    all are written are they moved into ``out`` one by one (``os.replace``, atomic per file); the staging
+    folder is then removed. A failure before the moves leaves ``out`` as it was. Files in ``out`` that
+    bendlife does not write are never touched.
+
+    Raises InputError — ``out`` is a file, an output name there is taken by a folder, or the folder
+    cannot be written.
+    """
     out = Path(out)
     if out.exists() and not out.is_dir():
-        raise InputError(f"--out {out}: exists and is not a folder")
+        raise InputError(f"--out {out}: exists and is not a folder; give a folder (it is created if absent)")
     for name in files:  # a folder (or other non-file) in the way would fail only after others were replaced
         target = out / name
         if target.exists() and not target.is_file():
             raise InputError(f"--out {out}: {name} there is not a file; move it away or choose another --out folder")
-    staged: list[tuple[str, Path]] = []
+    parent = out.absolute().parent
     try:
-        out.mkdir(parents=True, exist_ok=True)
-        for name, text in files.items():
-            fd, tmp = tempfile.mkstemp(prefix=f".{name}.", dir=out)
-            staged.append((tmp, out / name))
-            with io.open(fd, "w", encoding="utf-8", newline="") as fh:
-                fh.write(text)
+        parent.mkdir(parents=True, exist_ok=True)
+        staging = Path(tempfile.mkdtemp(prefix=STAGING_PREFIX, dir=parent))
+    except OSError as exc:
+        raise InputError(f"--out {out}: cannot write beside it in {parent} ({exc.strerror}); choose a folder "
+                         "you may write to") from None
+    try:
         umask = os.umask(0)
         os.umask(umask)
-        for tmp, _ in staged:
-            os.chmod(tmp, 0o666 & ~umask)  # mkstemp makes private files; outputs get the usual permissions
+        for name, text in files.items():
+            with io.open(staging / name, "w", encoding="utf-8", newline="") as fh:
+                fh.write(text)
+            os.chmod(staging / name, 0o666 & ~umask)
+        out.mkdir(exist_ok=True)
+        written = []
+        for name in files:
+            os.replace(staging / name, out / name)
+            written.append(out / name)
     except OSError as exc:
-        for tmp, _ in staged:
-            Path(tmp).unlink(missing_ok=True)
-        raise InputError(f"--out {out}: cannot write there ({exc.strerror})") from None
-    for tmp, final in staged:
-        os.replace(tmp, final)
-    return [final for _, final in staged]
+        raise InputError(f"--out {out}: cannot write there ({exc.strerror}); choose a folder you may write to") from None
+    finally:
+        shutil.rmtree(staging, ignore_errors=True)
+    return written

@@ -157,6 +157,15 @@ def _check_keys(table: Mapping, allowed: tuple[str, ...], where: str, path: str 
             raise _fail(where, _join(path, str(key)), f"unknown key; {hint}allowed keys: {', '.join(allowed)}")
 
 
+def _name(value: object, names: tuple[str, ...], where: str, key: str) -> str:
+    """``value`` if it is one of ``names``; otherwise an error suggesting the nearest (difflib)."""
+    if isinstance(value, str) and value in names:
+        return value
+    close = difflib.get_close_matches(value, names, n=1, cutoff=0.6) if isinstance(value, str) else []
+    hint = f"did you mean {close[0]!r}? " if close else ""
+    raise _fail(where, key, f"unknown name {value!r}; {hint}must be one of {', '.join(map(repr, names))}")
+
+
 def _bare_number(value: object, where: str, key: str, example: str) -> float:
     if isinstance(value, bool) or not isinstance(value, (int, float)):
         raise _fail(where, key, f"expected a bare number, e.g. {example}, got {value!r}")
@@ -202,9 +211,7 @@ def _parse_curve(curve: object, where: str, path: str, default_source: str | Non
         if key not in curve:
             raise _fail(where, key_of(key), "missing; a curve needs form, R and S1 (and m for power, b for log-linear)")
 
-    form = curve["form"]
-    if form not in FATIGUE_FORMS:
-        raise _fail(where, key_of("form"), f"must be one of {', '.join(FATIGUE_FORMS)}, got {form!r}")
+    form = _name(curve["form"], FATIGUE_FORMS, where, key_of("form"))
     R = _bare_number(curve["R"], where, key_of("R"), "R = -1 or R = 0.1")
     if R == 1.0:
         raise _fail(where, key_of("R"), "R = 1 is a constant (static) load, not a cycle; use e.g. R = -1 or R = 0.1")
@@ -352,7 +359,8 @@ def _check_values(values: dict[str, float], kind: str, where: str) -> None:
         if not abs(nu12) < bound:
             raise _fail(
                 where, "nu12",
-                f"|nu12| = {abs(nu12):g} breaks the orthotropic restriction |nu12| < sqrt(E1/E2) = {bound:.4g} "
+                f"|nu12| = {abs(nu12):g} breaks the orthotropic restriction |nu12| < sqrt(E1/E2) = "
+                f"sqrt({E1 / 1e9:.4g} GPa / {E2 / 1e9:.4g} GPa) = {bound:.4g} "
                 f"(Jones, Mechanics of Composite Materials, 2nd ed., Sec. 2.4.3): no stable material has it; "
                 f"check nu12 (typically 0.2-0.35 for a ply) and that E1 and E2 are not swapped",
             )
@@ -406,9 +414,7 @@ def _build(
         raise _fail(where, ", ".join(missing), f"missing; a new material needs all of {', '.join(MATERIAL_KEYS_REQUIRED)}")
 
     if "kind" in table:
-        kind = table["kind"]
-        if kind not in MATERIAL_KINDS:
-            raise _fail(where, "kind", f"must be one of {', '.join(MATERIAL_KINDS)}, got {kind!r}")
+        kind = _name(table["kind"], MATERIAL_KINDS, where, "kind")
     if "description" in table:
         description = _text(table["description"], where, "description")
 

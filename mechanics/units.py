@@ -69,7 +69,8 @@ def _quantity(value: object, where: str) -> pint.Quantity:
     try:
         return UREG.Quantity(text)
     except PARSE_ERRORS as exc:
-        raise InputError(f"{where}: cannot read {value!r} as a quantity ({exc})") from None
+        raise InputError(f"{where}: cannot read {value!r} as a quantity ({exc}); write one number and a known "
+                         f"unit, e.g. \"0.8 mm\", \"45 N\" or \"38.6 GPa\"") from None
 
 
 def parse_quantity(value: object, kind: str, where: str) -> float:
@@ -104,7 +105,8 @@ def parse_quantity(value: object, kind: str, where: str) -> float:
             )
         if q.dimensionality != UREG.Quantity(1, si_unit).dimensionality:
             raise InputError(
-                f"{where}: {value!r} is not a {kind} (its unit is {q.units:~}); write e.g. {EXAMPLES[kind]}"
+                f"{where}: {value!r} is not a {kind} ({q.units:~} measures {_dimension_of(q)}); "
+                f"write a {kind} with its unit, e.g. {EXAMPLES[kind]}"
             )
         number = float(q.to(si_unit).magnitude)
     if not math.isfinite(number):
@@ -112,12 +114,37 @@ def parse_quantity(value: object, kind: str, where: str) -> float:
     return number
 
 
+# Names of the dimensions a wrong unit is most likely to have, to say what was given (common practice).
+DIMENSION_NAMES = {
+    "[length]": "length", "[mass]": "mass", "[force]": "force", "[pressure]": "stress (pressure)",
+    "[energy]": "energy", "[time]": "time", "[mass] / [length] ** 3": "density", "[length] ** 2": "area",
+    "[length] ** 3": "volume", "[temperature]": "temperature", "[force] / [length]": "stiffness (force per length)",
+}
+
+
+def _dimension_of(q: pint.Quantity) -> str:
+    if q.dimensionless:
+        return "no dimension (a ratio or an angle)"
+    for dims, name in DIMENSION_NAMES.items():
+        if q.dimensionality == UREG.get_dimensionality(dims):
+            return name
+    return f"dimension {q.dimensionality}"
+
+
+def dimension_name(unit: str) -> str:
+    """What a unit measures, in words (``"N"`` → ``"force"``, ``"kg"`` → ``"mass"``); ``"unknown"`` if unreadable."""
+    try:
+        return _dimension_of(UREG.Quantity(1.0, unit.strip().replace("^", "**")))
+    except PARSE_ERRORS:
+        return "unknown dimension"
+
+
 def unit_factor(unit: str, where: str) -> float:
     """SI value of one ``unit`` (``"mm"`` → 0.001, ``"lbf"`` → 4.448…); for scaling a data column."""
     try:
         q = UREG.Quantity(1.0, unit.strip().replace("^", "**"))
     except PARSE_ERRORS as exc:
-        raise InputError(f"{where}: unknown unit {unit!r} ({exc})") from None
+        raise InputError(f"{where}: unknown unit {unit!r} ({exc}); write a unit such as mm, in, N or lbf") from None
     factor = float(q.to_base_units().magnitude) if not q.dimensionless else float(q.to("").magnitude)
     twice = UREG.Quantity(2.0, unit.strip().replace("^", "**"))
     if not math.isclose(float(twice.to_base_units().magnitude), 2.0 * factor, rel_tol=1e-12):

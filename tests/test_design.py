@@ -357,7 +357,7 @@ ERROR_CASES = [
     ("invalid TOML", BAD_TOML, RIDE_CSV,
      ["not valid TOML", f"line {_line_of(BAD_TOML, 'span = 200 mm')}"]),
     ("drive unit of the wrong kind", edit(SMALL_WITH_PROFILE, 'drive = "deflection"', 'drive = "force"'), RIDE_CSV,
-     ["[duty] unit", "not a force", '"45 N"']),
+     ["[duty] unit", "'mm' measures length", "drive = 'force'", "a unit of force", '"N" or "lbf"']),
     ("duty all zero", edit(SMALL, BLOCK_DUTY, '[duty]\ndrive = "deflection"\ncycles = [ { min = "0 mm", max = "0 mm", count = 10 } ]\n'),
      RIDE_CSV, ["[duty]", "never loads the part"]),
 ]
