@@ -257,6 +257,7 @@ def estimate(design: Design) -> LifeResult:
         else:
             k = int(np.argmax(dmg.damage))
             warnings += _extrapolation_notes(locs, k, cycles, fpd, design.stress_factor)
+        warnings += _below_limit_notes(locs, k, cycles, fpd, design.stress_factor)
         critical = Critical(
             x_m=float(resp.x[locs.station[k]]),
             ply=int(locs.ply[k]) + 1,
@@ -306,3 +307,16 @@ def _extrapolation_notes(locs: Locations, k: int, cycles, fpd: float, stress_fac
         f"{DATA_CYCLES_MAX:.0e} cycles: the fatigue curve is extrapolated beyond the usual range of test data "
         "(common practice: composite fatigue tests seldom run past 1e7–1e8 cycles)"
     ]
+
+
+def _below_limit_notes(locs: Locations, k: int, cycles, fpd: float, stress_factor: float) -> list[str]:
+    """A warning naming how many cycles per block the fatigue limit leaves out at the critical location."""
+    m = int(locs.model[k])
+    if m < 0 or not any(c.limit for c in locs.models[m].curves):
+        return []
+    N = cycle_lives(locs, k, cycles, fpd, stress_factor)
+    ignored = float(cycles.count[np.isinf(N) & (cycles.hi > cycles.lo)].sum())
+    if ignored == 0.0:
+        return []
+    return [f"{ignored:g} of {float(cycles.n_total):g} cycles per block are below the fatigue limit at the critical "
+            "location and ignored (no damage counted for them)"]

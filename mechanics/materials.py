@@ -359,8 +359,8 @@ def _check_values(values: dict[str, float], kind: str, where: str) -> None:
         if not abs(nu12) < bound:
             raise _fail(
                 where, "nu12",
-                f"|nu12| = {abs(nu12):g} breaks the orthotropic restriction |nu12| < sqrt(E1/E2) = "
-                f"sqrt({E1 / 1e9:.4g} GPa / {E2 / 1e9:.4g} GPa) = {bound:.4g} "
+                f"|nu12| = {abs(nu12):g} breaks the orthotropic restriction |nu12| < sqrt(E1/E2) = {bound:.4g} "
+                f"(E1 = {E1 / 1e9:.4g} GPa, E2 = {E2 / 1e9:.4g} GPa) "
                 f"(Jones, Mechanics of Composite Materials, 2nd ed., Sec. 2.4.3): no stable material has it; "
                 f"check nu12 (typically 0.2-0.35 for a ply) and that E1 and E2 are not swapped",
             )

@@ -398,3 +398,235 @@ def test_wrong_arguments_exit_2_with_a_message(args, says, monkeypatch, capsys):
     ran = bendlife(args, monkeypatch, capsys)
     assert ran.code == 2, ran
     assert says in ran.err and "Traceback" not in ran.err
+
+
+# ---------------------------------------------------------------------------------------------
+# Bad input, class by class (issue 5): exit 2, one message on stderr starting with the file's name, holding
+# the key (row or line), what was wrong and what would be right; never a traceback.
+
+GOOD_DUTY = 'drive = "deflection"\ncycles = [ { min = "0 mm", max = "5 mm", count = 10 } ]'
+GOOD = cantilever(GOOD_DUTY)
+PROFILE = cantilever('drive = "deflection"\nprofile = "ride.csv"\ncolumn = "d"\nunit = "mm"')
+RIDE = "t,d\n0,1\n1,5\n2,2\n3,6\n"
+
+
+def edit(text: str, old: str, new: str) -> str:
+    """Replace ``old`` (which must be there, so that no case silently tests the unchanged design)."""
+    assert old in text, f"test setup: {old!r} not in the design text"
+    return text.replace(old, new, 1)
+
+
+BAD_INPUT = [
+    # class, design text, ride.csv beside it, fragments of the message
+    ("missing unit", edit(GOOD, 'span = "200 mm"', 'span = "200"'), RIDE,
+     ["[beam] span", "'200' has no unit", "a length needs one", '"0.8 mm"']),
+    ("bare number for a length", edit(GOOD, 'span = "200 mm"', "span = 200"), RIDE,
+     ["[beam] span", "no unit", '"0.8 mm"']),
+    ("garbled unit", edit(GOOD, 'span = "200 mm"', 'span = "200 mn"'), RIDE,
+     ["[beam] span", "'200 mn'", "'mn' is not defined", '"0.8 mm"']),
+    ("wrong dimension: a width in kg", edit(GOOD, 'width = "20 mm"', 'width = "50 kg"'), RIDE,
+     ["[beam] width", "'50 kg' is not a length", "kg measures mass", "write a length", '"0.8 mm"']),
+    ("zero span", edit(GOOD, 'span = "200 mm"', 'span = "0 mm"'), RIDE, ["[beam] span", "must be > 0"]),
+    ("negative width", edit(GOOD, 'width = "20 mm"', 'width = "-20 mm"'), RIDE, ["[beam] width", "must be > 0"]),
+    ("zero thickness", edit(GOOD, 'thickness = "0.5 mm"', 'thickness = "0 mm"'), RIDE,
+     ["[[ply]] #1 thickness", "must be > 0", "'0 mm'"]),
+    ("zero count", edit(GOOD, "count = 4", "count = 0"), RIDE, ["[[ply]] #1 count", "whole number >= 1", "got 0"]),
+    ("Poisson ratio past sqrt(E1/E2)", GOOD + MY_GLASS.replace("nu12 = 0.28", "nu12 = 2.5"), RIDE,
+     ["[material.my-glass] nu12", "|nu12| = 2.5", "sqrt(E1/E2) = 2", "E1 = 40 GPa, E2 = 10 GPa", "typically 0.2-0.35"]),
+    ("negative modulus", GOOD + MY_GLASS.replace('E2 = "10 GPa"', 'E2 = "-10 GPa"'), RIDE,
+     ["[material.my-glass] E2", "a modulus must be > 0"]),
+    ("unknown support", edit(GOOD, '"cantilever"', '"cantilevr"'), RIDE,
+     ["[beam] support", "'cantilevr'", "did you mean 'cantilever'?", "'four-point'"]),
+    ("unknown section", edit(GOOD, "stations = 4", 'stations = 4\nsection = "plat"'), RIDE,
+     ["[beam] section", "'plat'", "did you mean 'plate'?", "'beam'"]),
+    ("unknown drive", edit(GOOD, '"deflection"', '"deflexion"'), RIDE,
+     ["[duty] drive", "'deflexion'", "did you mean 'deflection'?", "'force'"]),
+    ("unknown material", edit(GOOD, '"e-glass-epoxy"', '"e-glas-epoxy"'), RIDE,
+     ["[[ply]] #1 material", "'e-glas-epoxy'", "did you mean 'e-glass-epoxy'?"]),
+    ("unknown mean-stress rule", GOOD + '[fatigue]\nmean_stress = "gerbr"\n', RIDE,
+     ["[fatigue] mean_stress", "'gerbr'", "did you mean 'gerber'?", "'goodman'"]),
+    ("unknown curve form", edit(GOOD, '"e-glass-epoxy"', '"my-glass"') + MY_GLASS.replace('form = "power"',
+                                                                                          'form = "powr"'), RIDE,
+     ["[material.my-glass] fatigue.form", "'powr'", "did you mean 'power'?", "'log-linear'"]),
+    ("unknown residue", PROFILE + 'residue = "halve"\n', RIDE,
+     ["[duty] residue", "'halve'", "did you mean 'half'?", "'repeat'"]),
+    ("unknown key: spna", edit(GOOD, "span =", "spna ="), RIDE, ["[beam]", "unknown key 'spna'", "did you mean 'span'?"]),
+    ("unknown top-level key", "titel = 'x'\n" + GOOD, RIDE, ["unknown key 'titel'", "did you mean 'title'?"]),
+    ("unknown [[ply]] key", edit(GOOD, "count = 4", "cuont = 4"), RIDE,
+     ["[[ply]] #1", "unknown key 'cuont'", "did you mean 'count'?"]),
+    ("unknown material key", GOOD + MY_GLASS.replace('E1 = "40 GPa"', 'E11 = "40 GPa"'), RIDE,
+     ["[material.my-glass] E11", "unknown key", "did you mean 'E1'?"]),
+    ("unknown fatigue-curve key", GOOD + MY_GLASS.replace('S1 = "800 MPa"', 'S_1 = "800 MPa"'), RIDE,
+     ["[material.my-glass] fatigue.S_1", "unknown key", "did you mean 'S1'?"]),
+    ("conflicting keys: profile and cycles", edit(GOOD, "drive =", 'profile = "ride.csv"\ndrive ='), RIDE,
+     ["[duty]", "exactly one of 'profile'", "'cycles'"]),
+    ("ply drop beyond the span", edit(GOOD, "count = 4", 'count = 4\nends_at = "300 mm"'), RIDE,
+     ["[[ply]] #1 ends_at", "300 mm", "beyond the beam's 200 mm", "leave ends_at out"]),
+    ("load_spacing not inside the span", edit(edit(GOOD, '"cantilever"', '"four-point"'), "stations = 4",
+                                              'stations = 4\nload_spacing = "250 mm"'), RIDE,
+     ["[beam] load_spacing", "0 < load_spacing < span", "got 0.25 m"]),
+    ("TOML syntax error", edit(GOOD, 'span = "200 mm"', "span = 200 mm"), RIDE,
+     [", line 4, column", "not valid TOML", 'span = "420 mm"']),
+    ("material name of the wrong type", edit(GOOD, 'material = "e-glass-epoxy"', 'material = ["e-glass-epoxy"]'), RIDE,
+     ["[[ply]] #1 material", "a material name as a string"]),
+    # profiles
+    ("profile: missing file", edit(PROFILE, "ride.csv", "nope.csv"), RIDE,
+     ["[duty] profile", "nope.csv", "not found", "existing CSV file"]),
+    ("profile: missing column", edit(PROFILE, 'column = "d"', 'column = "q"'), RIDE,
+     ["[duty] profile", "no column 'q'", "the columns there are 't', 'd'"]),
+    ("profile: empty file", PROFILE, "", ["[duty] profile", "ride.csv", "no header line", "name the columns"]),
+    ("profile: header only", PROFILE, "t,d\n", ["[duty] profile", "column 'd' has 0 sample(s)", "at least 2"]),
+    ("profile: one row", PROFILE, "t,d\n0,1\n", ["[duty] profile", "column 'd' has 1 sample(s)", "at least 2"]),
+    ("profile: constant history", PROFILE, "t,d\n0,3\n1,3\n2,3\n",
+     ["[duty] profile", "ride.csv, column 'd' is constant", "3 mm in all 3 samples", "no cycle to count"]),
+    ("profile: non-numeric cell", PROFILE, "t,d\n0,1\n1,abc\n2,3\n",
+     ["[duty] profile", "ride.csv", "line 3", "'abc', not a number"]),
+    ("profile: NaN", PROFILE, "t,d\n0,1\n1,nan\n2,3\n", ["[duty] profile", "line 3", "'nan', not finite"]),
+    ("profile: infinite", PROFILE, "t,d\n0,1\n1,2\n2,-inf\n", ["[duty] profile", "line 4", "'-inf', not finite"]),
+    ("profile: no header", PROFILE, "0,1\n1,5\n2,2\n",
+     ["[duty] profile", "ride.csv, line 1", "'0,1' is data, not a header", "must name the columns"]),
+    ("profile: unit not of the drive", edit(PROFILE, 'unit = "mm"', 'unit = "N"'), RIDE,
+     ["[duty] unit", "'N' measures force", "drive = 'deflection' needs a unit of length", '"mm"']),
+    ("profile: unknown unit", edit(PROFILE, 'unit = "mm"', 'unit = "mn"'), RIDE,
+     ["[duty] unit", "unknown unit 'mn'", "such as mm"]),
+]
+
+
+@pytest.mark.parametrize("text, csv, fragments", [c[1:] for c in BAD_INPUT], ids=[c[0] for c in BAD_INPUT])
+def test_bad_input_class_exits_2_with_a_clear_message(text, csv, fragments, tmp_path, monkeypatch, capsys):
+    """`bendlife check` on a design with one thing wrong: exit 2, one line on stderr starting with
+    "bendlife: bad.toml", holding every fragment; nothing on stdout, no traceback."""
+    (tmp_path / "ride.csv").write_text(csv, encoding="utf-8")
+    design = tmp_path / "bad.toml"
+    design.write_text(text, encoding="utf-8")
+    ran = bendlife(["check", design], monkeypatch, capsys)
+    assert ran.code == 2, ran
+    assert "Traceback" not in ran.err and ran.out == ""
+    assert len(ran.err.strip().splitlines()) == 1, ran.err
+    assert ran.err.startswith("bendlife: bad.toml"), ran.err
+    for fragment in fragments:
+        assert fragment in ran.err, f"{fragment!r} not in {ran.err!r}"
+
+
+def test_the_designs_the_bad_cases_start_from_are_valid(tmp_path, monkeypatch, capsys):
+    """Each bad case changes one thing of GOOD or PROFILE (with RIDE beside it), which pass `check`."""
+    (tmp_path / "ride.csv").write_text(RIDE, encoding="utf-8")
+    for name, text in (("good", GOOD), ("profile", PROFILE), ("glass", edit(GOOD, '"e-glass-epoxy"', '"my-glass"')
+                                                                + MY_GLASS)):
+        (tmp_path / f"{name}.toml").write_text(text, encoding="utf-8")
+        ran = bendlife(["check", tmp_path / f"{name}.toml"], monkeypatch, capsys)
+        assert ran.code == 0, ran.err
+
+
+# ---------------------------------------------------------------------------------------------
+# Beyond the model, not wrong: warnings in summary.json (issue 5, item 3)
+
+
+def test_deflection_over_a_tenth_of_the_span_is_a_warning(tmp_path, monkeypatch, capsys):
+    """A 25 mm tip deflection of a 200 mm cantilever is 12.5 % of the span, past the 10 % of small-deflection
+    theory (DESIGN.md conventions): a warning, not an error. Fibre strain ε = 3δh/(2L²) = 3 × 0.025 × 0.002 /
+    (2 × 0.2²) = 0.19 %, far below e-glass/epoxy's ultimate strains, so the run itself is sound."""
+    s = run_design(tmp_path, "large", cantilever('drive = "deflection"\ncycles = [ { min = "0 mm", max = "25 mm", '
+                                                  'count = 10 } ]\n'), monkeypatch, capsys)
+    assert any("deflection 25.0 mm passes 10 % of the span (200 mm)" in w for w in s["warnings"]), s["warnings"]
+
+
+def test_cycles_below_the_fatigue_limit_are_counted_in_a_warning(tmp_path, monkeypatch, capsys):
+    """my-glass with a 100 MPa fatigue limit at R = −1, a 100 mm cantilever of 4 × 1.5 mm (h = 6 mm). By hand
+    (rectangular section, shear deflection ignored): ε = 3δh/(2L²) = 9e-4 per mm of tip deflection, σ1 = E1 ε =
+    36 MPa per mm. Row ±1 mm × 1000: amplitude 36 MPa, below the limit, ignored; row ±4 mm × 10: 144 MPa, above
+    it (and below Xc = 600 MPa). So 1000 of the 1010 cycles per block are said to be ignored, and the life is
+    finite."""
+    material = MY_GLASS.replace("m = 10\n", 'm = 10\nlimit = "100 MPa"\n')
+    duty = ('drive = "deflection"\ncycles = [ { min = "-1 mm", max = "1 mm", count = 1000 }, '
+            '{ min = "-4 mm", max = "4 mm", count = 10 } ]\n')
+    s = run_design(tmp_path, "limit", cantilever(duty, material="my-glass", extra=material, span="100 mm",
+                                                 thickness="1.5 mm"), monkeypatch, capsys)
+    assert s["life_unbounded"] is False and s["life_blocks"] > 0
+    assert any("1000 of 1010 cycles per block are below the fatigue limit at the critical location and ignored" in w
+               for w in s["warnings"]), s["warnings"]
+
+
+def test_a_load_that_fails_a_ply_statically_names_the_ply_and_criterion(tmp_path, monkeypatch, capsys):
+    """The 100 N tip force of test_life_zero_beyond_static_strength (σ = 1500 MPa at the root, past Xc = 600 MPa):
+    life zero, and the warning names the reserve, the criterion, the mode, the place and the ply. Under a positive
+    force the compression face is the top one (z > 0), ply 4 of the 4; the root is x = 0."""
+    s = run_design(tmp_path, "overload", cantilever('drive = "force"\ncycles = [ { min = "0 N", max = "100 N", '
+                                                     'count = 10 } ]\n', material="my-glass", extra=MY_GLASS),
+                   monkeypatch, capsys)
+    assert s["life_cycles"] == 0
+    said = [w for w in s["warnings"] if w.startswith("static strength exceeded")]
+    assert len(said) == 1, s["warnings"]
+    assert re.search(r"reserve 0\.\d\d \((max-stress|Tsai-Wu|max-strain), fibre-compression\) at x = 0 mm, ply 4\b",
+                     said[0]), said[0]
+    assert "life is zero" in said[0]
+
+
+# The curve used beyond its data range: test_a_stress_that_is_zero_by_theory_does_no_damage above ("extrapolated").
+
+
+# ---------------------------------------------------------------------------------------------
+# Data safety and determinism (issue 5, items 4 and 6)
+
+
+def digest(path: Path) -> str:
+    import hashlib
+    return hashlib.sha256(path.read_bytes()).hexdigest()
+
+
+def test_a_failing_run_leaves_out_and_the_inputs_as_they_were(tmp_path, monkeypatch, capsys):
+    """A design whose profile is read and found wrong (a constant history): --out keeps the user's file and the
+    old summary.json byte for byte; nothing is staged beside it; the design and its profile are unchanged
+    (hash before and after)."""
+    (tmp_path / "ride.csv").write_text("t,d\n0,2\n1,2\n2,2\n", encoding="utf-8")
+    design = tmp_path / "huge.toml"
+    design.write_text(PROFILE, encoding="utf-8")
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / "notes.txt").write_bytes(b"mine\n")
+    (out / "summary.json").write_bytes(b'{"old": true}\n')
+    before, inputs = snapshot(out), {p: digest(p) for p in (design, tmp_path / "ride.csv")}
+    ran = bendlife(["run", design, "--out", out], monkeypatch, capsys)
+    assert ran.code == 2 and ran.err.startswith("bendlife: huge.toml [duty]") and "no cycle to count" in ran.err
+    assert snapshot(out) == before
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["huge.toml", "out", "ride.csv"]
+    assert {p: digest(p) for p in inputs} == inputs
+
+
+def test_a_good_run_keeps_foreign_files_and_leaves_no_staging(tmp_path, monkeypatch, capsys):
+    (tmp_path / "ride.csv").write_text(RIDE, encoding="utf-8")
+    design = tmp_path / "good.toml"
+    design.write_text(PROFILE, encoding="utf-8")
+    inputs = {p: digest(p) for p in (design, tmp_path / "ride.csv")}
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / "notes.txt").write_bytes(b"mine\n")
+    ran = bendlife(["run", design, "--out", out], monkeypatch, capsys)
+    assert ran.code == 0, ran.err
+    assert (out / "notes.txt").read_bytes() == b"mine\n"
+    assert {p.name for p in out.iterdir()} == {"notes.txt", "summary.json", "cycles.csv", "locations.csv",
+                                               "stations.csv", "report.html"}
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["good.toml", "out", "ride.csv"]
+    assert {p: digest(p) for p in inputs} == inputs
+
+
+def test_out_that_is_a_file_exits_2(tmp_path, monkeypatch, capsys):
+    design = tmp_path / "good.toml"
+    design.write_text(GOOD, encoding="utf-8")
+    (tmp_path / "taken").write_bytes(b"a file\n")
+    ran = bendlife(["run", design, "--out", tmp_path / "taken"], monkeypatch, capsys)
+    assert ran.code == 2 and "exists and is not a folder" in ran.err and "Traceback" not in ran.err
+    assert (tmp_path / "taken").read_bytes() == b"a file\n"
+
+
+def test_same_input_same_summary_bytes_and_no_time_in_it(tmp_path, monkeypatch, capsys):
+    """Two runs of one design give byte-identical summary.json, which holds no date or time of day."""
+    design = tmp_path / "good.toml"
+    design.write_text(GOOD, encoding="utf-8")
+    for name in ("one", "two"):
+        assert bendlife(["run", design, "--out", tmp_path / name], monkeypatch, capsys).code == 0
+    first = (tmp_path / "one" / "summary.json").read_bytes()
+    assert first == (tmp_path / "two" / "summary.json").read_bytes()
+    text = first.decode("utf-8")
+    assert not re.search(r"\d{4}-\d{2}-\d{2}|\d{1,2}:\d{2}:\d{2}", text), "a date or time in summary.json"
+    assert not {"date", "time", "timestamp", "created"} & set(strict_json(text))

@@ -266,3 +266,65 @@ def test_stations_csv_follows_the_beam_formulas(result, written):
     assert table["peak_strain"].max() == pytest.approx(result.summary()["peak_strain"], rel=1e-8)
     assert table["damage_per_block"].max() == pytest.approx(result.summary()["damage_per_block"], rel=1e-8)
     assert (table["plies"] == 3).all()
+
+
+# ---------------------------------------------------------------------------------------------
+# write_files: staging beside --out (issue 5, data safety)
+
+
+def test_outputs_are_staged_beside_out_on_the_same_file_system(files, tmp_path, monkeypatch):
+    """The staging folder is created in --out's parent, and is gone after the run."""
+    from life import outputs
+
+    made = []
+    real = outputs.tempfile.mkdtemp
+
+    def spy(*args, **kwargs):
+        made.append(Path(real(*args, **kwargs)))
+        return str(made[-1])
+
+    monkeypatch.setattr(outputs.tempfile, "mkdtemp", spy)
+    out = tmp_path / "out"
+    write_files(files, out)
+    assert len(made) == 1 and made[0].parent == tmp_path and made[0].name.startswith(outputs.STAGING_PREFIX)
+    assert not made[0].exists()
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["out"]
+
+
+def test_a_write_failing_midway_leaves_out_as_it_was_and_no_staging(files, tmp_path, monkeypatch):
+    """The third file cannot be written (a full disk, simulated): an InputError, --out byte-identical (the user's
+    file and an old summary.json), and no staging folder left beside it."""
+    from life import outputs
+
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / "notes.txt").write_bytes(b"mine\n")
+    (out / "summary.json").write_bytes(b"old\n")
+    before = snapshot(out)
+    real_open, opened = outputs.io.open, []
+
+    def failing_open(path, *args, **kwargs):
+        opened.append(path)
+        if len(opened) == 3:
+            raise OSError(28, "No space left on device")
+        return real_open(path, *args, **kwargs)
+
+    monkeypatch.setattr(outputs.io, "open", failing_open)
+    with pytest.raises(InputError, match="cannot write there .No space left on device"):
+        write_files(files, out)
+    assert snapshot(out) == before
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["out"]
+
+
+def test_a_parent_that_cannot_be_written_is_a_clear_error(files, tmp_path, monkeypatch):
+    """No staging folder can be made beside --out (permission denied, simulated: tests may run as root):
+    an InputError that names --out and says to choose a writable folder; nothing is created."""
+    from life import outputs
+
+    def denied(*args, **kwargs):
+        raise PermissionError(13, "Permission denied")
+
+    monkeypatch.setattr(outputs.tempfile, "mkdtemp", denied)
+    with pytest.raises(InputError, match=r"--out .*out: cannot write beside it .*Permission denied.*you may write to"):
+        write_files(files, tmp_path / "out")
+    assert list(tmp_path.iterdir()) == []
