@@ -36,6 +36,10 @@ DUTY_KEYS = {"drive", "profile", "column", "unit", "cycles", "blocks_per_day", "
 FATIGUE_KEYS = {"mean_stress", "miner_limit", "stress_factor"}
 CYCLE_KEYS = {"min", "max", "count"}
 
+# Lengths the model handles, 1 µm to 1 km: past them the floating-point laminate and beam sums (h³, L³) lose
+# their meaning long before any physics does; no flexing part lies outside (common practice).
+LENGTH_RANGE = (1e-6, 1e3)
+
 
 @dataclass(frozen=True)
 class Duty:
@@ -115,6 +119,16 @@ def _require(table: Mapping, key: str, where: str) -> Any:
     return table[key]
 
 
+def _length(value: Any, where: str) -> float:
+    """A length [m] from its design-file string, checked > 0 and within LENGTH_RANGE."""
+    length = parse_quantity(value, "length", where)
+    lo, hi = LENGTH_RANGE
+    if length > 0 and not lo <= length <= hi:
+        raise InputError(f"{where}: {value!r} is outside the lengths bendlife models (1 um to 1 km); "
+                         "check the number and its unit")
+    return length
+
+
 def _number(value: Any, where: str, positive: bool = True) -> float:
     if isinstance(value, bool) or not isinstance(value, (int, float)):
         raise InputError(f"{where}: must be a bare number, got {value!r}")
@@ -124,7 +138,7 @@ def _number(value: Any, where: str, positive: bool = True) -> float:
     return value
 
 
-def suggest(value: Any, names: Sequence[str]) -> str:
+def _suggest(value: Any, names: Sequence[str]) -> str:
     """``"did you mean 'x'? "`` for the nearest of ``names`` (difflib), or ``""`` when none is near."""
     close = difflib.get_close_matches(str(value), list(names), n=1, cutoff=0.6) if isinstance(value, str) else []
     return f"did you mean {close[0]!r}? " if close else ""
@@ -132,7 +146,7 @@ def suggest(value: Any, names: Sequence[str]) -> str:
 
 def _choice(value: Any, choices: tuple, where: str) -> str:
     if not isinstance(value, str) or value not in choices:
-        raise InputError(f"{where}: unknown name {value!r}; {suggest(value, choices)}"
+        raise InputError(f"{where}: unknown name {value!r}; {_suggest(value, choices)}"
                          f"must be one of {', '.join(map(repr, choices))}")
     return value
 
@@ -141,16 +155,16 @@ def _beam(doc: Mapping, plies: tuple[Ply, ...], name: str, notes: list[str]) -> 
     t = _table(doc, "beam", name)
     _unknown(t, BEAM_KEYS, f"{name} [beam]")
     support = _choice(_require(t, "support", f"{name} [beam]"), SUPPORTS, f"{name} [beam] support")
-    span = parse_quantity(_require(t, "span", f"{name} [beam]"), "length", f"{name} [beam] span")
+    span = _length(_require(t, "span", f"{name} [beam]"), f"{name} [beam] span")
     width = _require(t, "width", f"{name} [beam]")
     if isinstance(width, Mapping):
         _unknown(width, {"root", "tip"}, f"{name} [beam] width")
-        root = parse_quantity(_require(width, "root", f"{name} [beam] width"), "length", f"{name} [beam] width.root")
-        tip = parse_quantity(_require(width, "tip", f"{name} [beam] width"), "length", f"{name} [beam] width.tip")
+        root = _length(_require(width, "root", f"{name} [beam] width"), f"{name} [beam] width.root")
+        tip = _length(_require(width, "tip", f"{name} [beam] width"), f"{name} [beam] width.tip")
     else:
-        root = tip = parse_quantity(width, "length", f"{name} [beam] width")
+        root = tip = _length(width, f"{name} [beam] width")
     spacing = t.get("load_spacing")
-    spacing = None if spacing is None else parse_quantity(spacing, "length", f"{name} [beam] load_spacing")
+    spacing = None if spacing is None else _length(spacing, f"{name} [beam] load_spacing")
     if spacing is not None and support != "four-point":
         notes.append(f"{name} [beam] load_spacing: only four-point bending has two load points; ignored for "
                      f"support = {support!r}")
@@ -203,7 +217,7 @@ def _plies(doc: Mapping, materials: Mapping[str, Material], name: str, notes: li
         if isinstance(angle, bool) or not isinstance(angle, (int, float)) or not -90 <= angle <= 180:
             raise InputError(f"{where} angle: a fibre angle in degrees as a bare number (-90 … 180), got {angle!r}")
         if "thickness" in row:
-            thickness = parse_quantity(row["thickness"], "length", f"{where} thickness")
+            thickness = _length(row["thickness"], f"{where} thickness")
         elif mat.thickness is not None:
             thickness = mat.thickness
             notes.append(f"{where}: no thickness given; the nominal ply thickness of {mat_name} "
@@ -217,7 +231,7 @@ def _plies(doc: Mapping, materials: Mapping[str, Material], name: str, notes: li
             raise InputError(f"{where} count: must be a whole number >= 1, got {count!r}")
         ends_at = row.get("ends_at")
         if ends_at is not None:
-            ends_at = parse_quantity(ends_at, "length", f"{where} ends_at")
+            ends_at = _length(ends_at, f"{where} ends_at")
             if not ends_at > 0:
                 raise InputError(f"{where} ends_at: must be > 0 [m] from the root, got {row['ends_at']!r}")
         out.extend(Ply(mat, float(angle), thickness, ends_at) for _ in range(count))

@@ -55,6 +55,15 @@ QUANTITY_KIND = {
 # foam (20 %): it is almost surely a stress written without its unit, or a percent without "%".
 STRAIN_MAX = 0.2
 
+# Where a value lies beyond any structural material, SI (common practice: the stiffest solid, diamond, has a
+# modulus near 1.2 TPa, recalled; foams are near 1 MPa; densities run from foams near 20 kg/m^3 to metals near
+# 20 000 kg/m^3). A value outside is a slip of number or unit, and past it the sums lose their meaning.
+PLAUSIBLE = {
+    **{key: (1e3, 1e13) for key in ("E1", "E2", "G12", "G13", "G23", "Xt", "Xc", "Yt", "Yc", "S12", "S13")},
+    "density": (1.0, 1e5),
+    "thickness": (1e-6, 1.0),
+}
+
 USER_SOURCE = "design file"
 DEFAULT_SOURCES = {
     "G13": "default: G13 = G12 (transversely isotropic ply, or an isotropic core; common practice)",
@@ -344,6 +353,12 @@ def _check_values(values: dict[str, float], kind: str, where: str) -> None:
             magnitude = " (give compressive strengths and strains as positive magnitudes)" if key in ("Xc", "Yc", "eps1c") else ""
             shown = f"{values[key]:.6g} {si_unit[QUANTITY_KIND[key]]}".strip()
             raise _fail(where, key, f"a {what} must be > 0, got {shown}{magnitude}")
+    for key, (lo, hi) in PLAUSIBLE.items():
+        what = positive[key]
+        if key in values and not lo <= values[key] <= hi:
+            shown = f"{values[key]:.6g} {si_unit[QUANTITY_KIND[key]]}".strip()
+            raise _fail(where, key, f"a {what} of {shown} lies outside {lo:g} to {hi:g} "
+                                    f"{si_unit[QUANTITY_KIND[key]]}, beyond any structural material; check the number and its unit")
     for key in ("eps1t", "eps1c"):
         if key in values and values[key] >= STRAIN_MAX:
             raise _fail(where, key, f"an ultimate strain of {100 * values[key]:.3g} % is implausible (must be < {100 * STRAIN_MAX:g} %); a strain in percent needs \"%\", e.g. \"2.1 %\"")

@@ -4,7 +4,7 @@ one clear input error (exit 2), never a traceback or an internal fault (exit 1).
 Seeds: the bundled example designs (life/examples/*.toml) and a small cantilever of the invented user
 material of tests/designs.py. Each case applies 1-3 random mutations to the parsed document — drop a key,
 duplicate a [[ply]], change a value's type (string, number, table, list), rescale a number or the number of a
-quantity string (×0, ×−1, ×1e6, ×1e-6), garble a unit ("mm" → "mn", "m m", "kg", ""), swap a name for
+quantity string (×0, ×−1, ×1e6, ×1e-6, ×1e300, ×1e-300), make a number NaN or infinite, garble a unit ("mm" → "mn", "m m", "kg", ""), swap a name for
 another key's name — writes it as TOML (tomlkit) and runs `bendlife check` (most cases) or `bendlife run`
 (every eighth) in-process.
 
@@ -82,7 +82,7 @@ SEEDS = _seeds()
 NAMES = ["cantilever", "three-point", "four-point", "guided", "beam", "plate", "deflection", "force",
          "goodman", "gerber", "none", "cld", "power", "log-linear", "e-glass-epoxy", "carbon-epoxy",
          "structural-foam", "half", "repeat", "ply", "core", "span", "width", "count", "bundled:feeder-flexure"]
-FACTORS = [0.0, -1.0, 1e6, 1e-6]
+FACTORS = [0.0, -1.0, 1e6, 1e-6, 1e300, 1e-300]  # the four, and two at the ends of the float range
 GARBLES = [("mm", "mn"), ("mm", "m m"), ("mm", "kg"), ("GPa", "GPA"), ("MPa", "Mpa"), ("MPa", "kg/m^3"),
            ("kg/m^3", "kg"), (" ", ""), ("N", "N*m"), ("mm", "")]
 NUMBER = re.compile(r"^\s*([-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?)")
@@ -120,9 +120,9 @@ def _rescale(value, factor):
 def _retype(value, choice: int):
     if isinstance(value, str):
         found = NUMBER.match(value)
-        return [float(found.group(1)) if found else 1.5, {"value": value}, [value], True][choice % 4]
+        return [float(found.group(1)) if found else 1.5, {"value": value}, [value], True, "nan mm"][choice % 5]
     if isinstance(value, (int, float)):
-        return [str(value), f"{value} mm", {"value": value}, [value]][choice % 4]
+        return [str(value), f"{value} mm", {"value": value}, [value], float("nan"), float("-inf")][choice % 6]
     if isinstance(value, dict):
         return ["a table", 1.0, [value] if value else [1], list(value)][choice % 4]
     if isinstance(value, list):
@@ -145,7 +145,7 @@ def mutated(draw):
             k = draw(st.integers(min_value=0, max_value=len(doc["ply"]) - 1))
             doc["ply"].insert(k, dict(doc["ply"][k]) if isinstance(doc["ply"][k], dict) else doc["ply"][k])
         elif op == "retype":
-            parent[key] = _retype(parent[key], draw(st.integers(min_value=0, max_value=3)))
+            parent[key] = _retype(parent[key], draw(st.integers(min_value=0, max_value=5)))
         elif op == "rescale":
             parent[key] = _rescale(parent[key], draw(st.sampled_from(FACTORS)))
         elif op == "garble" and isinstance(parent[key], str):
