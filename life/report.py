@@ -431,7 +431,7 @@ def figure_duty(result: LifeResult, cycles: pd.DataFrame) -> str:
             fig, (a0, ax) = plt.subplots(2, 1, figsize=(7.5, 5.6), gridspec_kw={"height_ratios": [1, 1.5]})
             env = minmax_envelope(duty.signal)
             a0.fill_between(env.start, env.lo * scale, env.hi * scale, color=PALETTE[0], lw=0.4, step="post",
-                            edgecolor=PALETTE[0])
+                            edgecolor=PALETTE[0], rasterized=True)  # thousands of vertices: a PNG inside the SVG
             a0.set_xlim(0, duty.signal.size)
             a0.set_xlabel("sample number in one block")
             a0.set_ylabel(f"drive [{unit}]")
