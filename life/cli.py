@@ -16,7 +16,7 @@ import numpy as np
 import typer
 
 from life import terminal
-from life.compare import comparison_html, comparison_table
+from life.compare import comparison_html, comparison_table, duty_note, with_common_duty
 from life.design import load_design
 from life.errors import InputError as LifeInputError
 from life.estimate import CAUTION, estimate
@@ -62,15 +62,18 @@ def run(
 def compare(
     designs: list[Path] = typer.Argument(..., help="two or more design files (TOML)"),
     out: Path = typer.Option(Path("bendlife-compare"), "--out", "-o", help="folder for comparison.csv and comparison.html"),
+    duty: Optional[Path] = typer.Option(None, "--duty", help="TOML file with one [duty] table: run every design with it"),
 ) -> None:
     """Run several candidate designs and set their figures side by side."""
     if len(designs) < 2:
         raise LifeInputError("compare: give two or more design files to set side by side")
-    results = [estimate(load_design(path)) for path in designs]
+    loaded = [load_design(path) if duty is None else with_common_duty(path, duty) for path in designs]
+    results = [estimate(design) for design in loaded]
     table = comparison_table(results)
+    note = duty_note(duty)
     write_files({"comparison.csv": table.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
-                 "comparison.html": comparison_html(table, results)}, out)
-    typer.echo(terminal.comparison_text(table))
+                 "comparison.html": comparison_html(table, results, note)}, out)
+    typer.echo(terminal.comparison_text(table, note))
     typer.echo(f"\nwrote comparison.csv, comparison.html to {out}\ncaution: {CAUTION}")
 
 

@@ -1,12 +1,61 @@
-"""Side-by-side comparison of candidate designs: one row per design, and an HTML page with the table."""
+"""Side-by-side comparison of candidate designs: one row per design, and an HTML page with the table,
+bar charts, and the designs' force–deflection lines and strain envelopes overlaid.
+
+Each design keeps its own duty, or every design is run with one common duty read from a file whose
+``[duty]`` table has the keys of a design file's ``[duty]`` (``with_common_duty``).
+"""
 from __future__ import annotations
 
 import html
+import tomllib
+from pathlib import Path
 from typing import Sequence
 
-import pandas as pd
+import matplotlib
 
-from life.estimate import CAUTION, LifeResult
+matplotlib.use("Agg")
+import matplotlib.pyplot as plt  # noqa: E402
+import numpy as np  # noqa: E402
+import pandas as pd  # noqa: E402
+
+from life.design import BUNDLED_PREFIX, Design, load_design, parse_design  # noqa: E402
+from life.errors import InputError  # noqa: E402
+from life.estimate import CAUTION, LifeResult  # noqa: E402
+from life.report import PALETTE, STYLE, _svg, force_deflection, span_envelope  # noqa: E402
+
+OWN_DUTY = "each design with its own duty"
+
+
+def duty_note(duty_file: Path | None) -> str:
+    """How the designs were loaded: the words the page and the terminal print."""
+    return OWN_DUTY if duty_file is None else f"common duty from {Path(duty_file).name}"
+
+
+def with_common_duty(design_file: Path, duty_file: Path) -> Design:
+    """The design of ``design_file`` with its [duty] replaced by the [duty] table of ``duty_file``.
+
+    The profile path of the common duty is relative to ``duty_file``; errors in the duty name ``duty_file``.
+    """
+    load_design(design_file)  # the design itself must be valid first (its errors name its own file)
+    duty_file = Path(duty_file)
+    if not duty_file.is_file():
+        raise InputError(f"--duty {duty_file}: no such file")
+    try:
+        doc = tomllib.loads(duty_file.read_text(encoding="utf-8"))
+    except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
+        raise InputError(f"--duty {duty_file.name}: not a valid UTF-8 TOML file ({exc})") from None
+    extra = sorted(set(doc) - {"duty"})
+    if "duty" not in doc or not isinstance(doc["duty"], dict) or extra:
+        raise InputError(f"--duty {duty_file.name}: must hold one [duty] table (the keys of a design file's "
+                         f"[duty]) and nothing else" + (f"; found {', '.join(extra)}" if extra else ""))
+    duty = dict(doc["duty"])
+    profile = duty.get("profile")
+    if isinstance(profile, str) and not profile.startswith(BUNDLED_PREFIX):
+        duty["profile"] = str((duty_file.parent / profile).resolve())
+    design_file = Path(design_file)
+    design_doc = tomllib.loads(design_file.read_text(encoding="utf-8"))
+    design_doc["duty"] = duty
+    return parse_design(design_doc, duty_file.name, design_file.parent, design_file)
 
 COLUMNS = [
     "title", "file", "life_blocks", "life_cycles", "life_days", "mass_kg", "stiffness_n_per_m", "peak_energy_j",
@@ -50,28 +99,96 @@ def _cell(value) -> str:
     return html.escape(str(value))
 
 
-def comparison_html(table: pd.DataFrame, results: Sequence[LifeResult]) -> str:
-    """A self-contained page: the comparison table, each design's warnings, and the caution."""
-    head = "".join(f"<th>{html.escape(c)}</th>" for c in table.columns)
+def ranked(table: pd.DataFrame) -> pd.DataFrame:
+    """The rows ordered by life in blocks, longest first: unbounded lives first, zero lives last."""
+    key = table["life_blocks"].astype(float).fillna(np.inf)
+    return table.assign(_key=key).sort_values("_key", ascending=False, kind="stable").drop(columns="_key")
+
+
+def _labels(results: Sequence[LifeResult]) -> list[str]:
+    return [f"{i}: {r.design.title[:28]}" for i, r in enumerate(results, start=1)]
+
+
+def bar_figure(table: pd.DataFrame, results: Sequence[LifeResult]) -> str:
+    """Life (log scale), specific energy, mass and stiffness of each design, in the order given."""
+    labels = [str(i) for i in range(1, len(results) + 1)]
+    life = table["life_blocks"].astype(float).to_numpy()
+    with plt.rc_context(STYLE):
+        fig, axes = plt.subplots(1, 4, figsize=(9.5, 3.0))
+        shown = np.where(np.isnan(life), np.nan, np.maximum(life, 1e-3))
+        axes[0].bar(labels, np.nan_to_num(shown, nan=0.0), color=PALETTE[0])
+        axes[0].set_yscale("log")
+        for i, v in enumerate(life):
+            if np.isnan(v):
+                axes[0].annotate("unbounded", (i, 1), rotation=90, ha="center", va="bottom", fontsize=7, xycoords=("data", "axes fraction"))
+        axes[0].set_title("life [blocks]")
+        axes[1].bar(labels, table["specific_energy_j_per_kg"], color=PALETTE[3])
+        axes[1].set_title("specific energy [J/kg]")
+        axes[2].bar(labels, table["mass_kg"] * 1e3, color=PALETTE[2])
+        axes[2].set_title("mass [g]")
+        axes[3].bar(labels, table["stiffness_n_per_m"] / 1e3, color=PALETTE[1])
+        axes[3].set_title("stiffness [N/mm]")
+        for ax in axes:
+            ax.set_xlabel("design")
+            ax.grid(axis="x", visible=False)
+        fig.tight_layout()
+        return _svg(fig, "bars")
+
+
+def overlay_figure(results: Sequence[LifeResult]) -> str:
+    """Force–deflection lines over each duty and the largest |ε1| at the outer faces along the span."""
+    with plt.rc_context(STYLE):
+        fig, (a1, a2) = plt.subplots(1, 2, figsize=(9.5, 3.6))
+        for i, (r, label) in enumerate(zip(results, _labels(results))):
+            colour = PALETTE[i % len(PALETTE)]
+            fd = force_deflection(r)
+            a1.plot(fd.deflection * 1e3, fd.force, color=colour, label=label)
+            env = span_envelope(r)
+            peak = np.maximum(np.abs(env.bottom).max(axis=1), np.abs(env.top).max(axis=1))
+            a2.plot(env.x * 1e3, peak * 100, color=colour, label=label)
+        a1.set_xlabel("load-point deflection δ [mm]")
+        a1.set_ylabel("load-point force F [N]")
+        a1.set_title("force–deflection over each duty")
+        a2.set_xlabel("distance from the root x [mm]")
+        a2.set_ylabel("largest |ε1| at the faces [%]")
+        a2.set_title("fibre-strain envelope along the span")
+        a1.legend(loc="upper left")
+        fig.tight_layout()
+        return _svg(fig, "overlay")
+
+
+def comparison_html(table: pd.DataFrame, results: Sequence[LifeResult], duty: str = OWN_DUTY) -> str:
+    """A self-contained page: the table ranked by life, bar charts, overlaid curves, each design's warnings,
+    and the caution. ``duty`` says whether each design kept its own duty or one common duty was used."""
+    order = ranked(table.assign(design=range(1, len(table) + 1)))
+    order = order[["design"] + [c for c in table.columns]]
+    head = "<th>rank</th>" + "".join(f"<th>{html.escape(c)}</th>" for c in order.columns)
     body = "".join(
-        "<tr>" + "".join(f"<td>{_cell(v)}</td>" for v in row) + "</tr>"
-        for row in table.astype(object).where(table.notna(), None).itertuples(index=False)
+        f"<tr><td>{rank}</td>" + "".join(f"<td>{_cell(v)}</td>" for v in row) + "</tr>"
+        for rank, row in enumerate(order.astype(object).where(order.notna(), None).itertuples(index=False), start=1)
     )
     notes = "".join(
-        f"<h3>{html.escape(r.design.title)}</h3><ul>"
+        f"<h3>{i}: {html.escape(r.design.title)}</h3><ul>"
         + ("".join(f"<li>{html.escape(w)}</li>" for w in r.warnings) or "<li>no warnings</li>") + "</ul>"
-        for r in results
+        for i, r in enumerate(results, start=1)
     )
     return f"""<!DOCTYPE html>
 <html lang="en"><head><meta charset="utf-8"><title>bendlife comparison</title>
 <style>body {{ font-family: system-ui, sans-serif; margin: 2em; color: #222 }}
-table {{ border-collapse: collapse }} td, th {{ border: 1px solid #ddd; padding: 3px 8px }} th {{ background: #f2f2f2 }}
+table {{ border-collapse: collapse; font-size: 0.85em }} td, th {{ border: 1px solid #ddd; padding: 3px 6px }}
+th {{ background: #f1eee6 }} figure {{ margin: 1em 0; break-inside: avoid }} svg {{ max-width: 100%; height: auto }}
+.duty {{ font-weight: bold; color: #0b6e6e }}
 .caution {{ background: #fff4e0; border-left: 5px solid #d98b00; padding: 0.6em 1em; max-width: 60em }}</style>
 </head><body><h1>Candidate designs side by side</h1>
 <div class="caution"><b>Caution.</b> {html.escape(CAUTION)}</div>
-<p>SI units: life in blocks of each design's own duty and in cycles; mass kg; stiffness N/m; energy J;
+<p class="duty">Duty: {html.escape(duty)}.</p>
+<p>Ranked by life in blocks, longest first. SI units: life in blocks of the duty and in cycles; mass kg; stiffness N/m; energy J;
 specific energy J/kg; strain as a ratio; x in m from the root.</p>
 <table><tr>{head}</tr>{body}</table>
+<figure>{bar_figure(table, results)}<figcaption>Life on a log scale, specific energy, mass and stiffness; designs numbered
+in the order given.</figcaption></figure>
+<figure>{overlay_figure(results)}<figcaption>Force against load-point deflection over each design's duty, and the largest
+fibre strain at the outer faces along the span over that duty.</figcaption></figure>
 <h2>Warnings</h2>{notes}
 </body></html>
 """

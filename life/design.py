@@ -52,6 +52,8 @@ class Duty:
     blocks_per_day : float | None — repeats of the whole duty per day [1/day]
     residue : str — how a time history's residue is counted: "half" (ASTM E1049-85, half cycles) or "repeat"
         (the block as one of an endless repetition: the history closed on its largest reversal, full cycles)
+    profile_path : Path | None — the time-history file read (for "bundled:NAME", the shipped file); None
+        for a block table
     """
 
     drive: str
@@ -60,6 +62,7 @@ class Duty:
     signal: np.ndarray | None
     blocks_per_day: float | None
     residue: str = "half"
+    profile_path: Path | None = None
 
     @property
     def extremes(self) -> tuple[float, float]:
@@ -339,11 +342,12 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str]) -> Duty:
                              "cycle; left out of the fatigue count")
             source = f"block table, {len(rows)} row{'s' if len(rows) != 1 else ''}"
             signal = None
+            path = None
     except (mechanics_errors.InputError, spectra_errors.InputError) as exc:
         raise InputError(str(exc)) from None
     if cycles.lo.size == 0 or (np.abs(cycles.lo).max() == 0 and np.abs(cycles.hi).max() == 0):
         raise InputError(f"{where}: the duty never loads the part (no cycles, or every drive is zero)")
-    return Duty(drive, cycles, source, signal, per_day, residue)
+    return Duty(drive, cycles, source, signal, per_day, residue, path)
 
 
 def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = None) -> Design:

@@ -11,7 +11,7 @@ import os
 import shutil
 import tempfile
 from pathlib import Path
-from typing import Mapping
+from typing import Mapping, Sequence
 
 import numpy as np
 import pandas as pd
@@ -103,8 +103,11 @@ def station_table(result: LifeResult) -> pd.DataFrame:
     )
 
 
-def render(result: LifeResult) -> dict[str, str]:
-    """All output files as text, keyed by file name."""
+def render(result: LifeResult, sizing: Sequence[tuple[str, str, str]] | None = None) -> dict[str, str]:
+    """All output files as text, keyed by file name.
+
+    sizing : optional rows (quantity, before, after) of a sizing run, shown in the report after the results
+    """
     cycles, note = cycle_table(result)
     summary = result.summary()
     summary["cycles_csv"] = note
@@ -115,7 +118,7 @@ def render(result: LifeResult) -> dict[str, str]:
         "locations.csv": locations.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
         "stations.csv": station_table(result).to_csv(index=False, float_format="%.9g", lineterminator="\n"),
     }
-    files["report.html"] = report_html(result, cycles, note, locations)
+    files["report.html"] = report_html(result, cycles, note, locations, sizing)
     return files
 
 

@@ -1,9 +1,21 @@
-"""The design-review report: one self-contained HTML file (inline SVG figures, no external files)."""
+"""The design-review report: one self-contained HTML file (DESIGN.md, outputs contract: report.html).
+
+Read top to bottom, the report is: identification, inputs, method and assumptions, results (and, when a
+sizing run gives them, the sizing rows), warnings, cautions, review and sign-off. Each section and each
+figure is one function below, in that order. Figures are inline SVG (text kept as text; dense artists
+rasterized into the SVG); nothing is fetched from outside the file. Every string that comes from the user
+(title, material names, file names, warnings that quote them) goes through ``html.escape``.
+"""
 from __future__ import annotations
 
+import hashlib
 import html
 import io
+from dataclasses import dataclass
 from datetime import datetime, timezone
+from importlib import metadata
+from pathlib import Path
+from typing import Sequence
 
 import matplotlib
 
@@ -11,8 +23,20 @@ matplotlib.use("Agg")
 import matplotlib.pyplot as plt  # noqa: E402
 import numpy as np  # noqa: E402
 import pandas as pd  # noqa: E402
+from cycler import cycler  # noqa: E402
+from matplotlib.colors import LogNorm  # noqa: E402
+from matplotlib.patches import Rectangle  # noqa: E402
 
+from life.damage import FACES, FIRST_LOAD_FAILURE, cycle_lives  # noqa: E402
 from life.estimate import CAUTION, LifeResult  # noqa: E402
+from life.meanstress import (  # noqa: E402
+    gerber_amplitude_at_zero_mean,
+    gerber_amplitude_on_ray,
+    goodman_amplitude_at_zero_mean,
+    goodman_amplitude_on_ray,
+    mean_ratio,
+)
+from spectra.counting import Cycles  # noqa: E402
 
 METHODS = [
     ("Laminate", "classical laminate theory: Q, Q̄, ABD (Kaw, Mechanics of Composite Materials, 2nd ed., Eqs. 2.93, "
@@ -40,21 +64,78 @@ LIMITS = [
     "material values marked 'recalled' are typical values given from memory: replace them with tested data",
 ]
 
+RULE_NAMES = {
+    "goodman": "Goodman (linear constant-life lines to Xt and Xc)",
+    "gerber": "Gerber (parabolic constant-life lines to Xt and Xc)",
+    "none": "none (amplitude alone, at the curve's own R)",
+    "cld": "constant-life diagram (piecewise linear through the curves at several R)",
+}
 
-def _svg(fig) -> str:
+CAUTIONS = [
+    "A flexing part that breaks releases its stored energy at once: guard people and parts from the fragments "
+    "and the recoil, and size the guard for the peak stored energy given above.",
+    "This is an estimate, not certification.",
+    "Confirm the life by fatigue tests of prototypes (e.g. ASTM D7774 flexural fatigue, ISO 13003 fatigue by "
+    "cyclic loading) under the real duty.",
+    "Apply environmental knock-downs (moisture, temperature, UV, chemicals, creep) to the material data before "
+    "relying on the figures.",
+    "Local codes and licensed engineering practice decide whether the part may be used.",
+]
+
+# Figures: a style of our own (teal, brick, slate, ochre), text kept as text in the SVG.
+PALETTE = ["#0b6e6e", "#b5482f", "#4f6d7a", "#d39b3a", "#6a4c93", "#5a8a3c", "#8c6d5a", "#2f3e46"]
+STYLE = {
+    "font.size": 9,
+    "font.family": "sans-serif",
+    "axes.titlesize": 10,
+    "axes.titleweight": "bold",
+    "axes.titlelocation": "left",
+    "axes.labelcolor": "#2b2a26",
+    "axes.edgecolor": "#6b6457",
+    "axes.spines.top": False,
+    "axes.spines.right": False,
+    "axes.grid": True,
+    "axes.prop_cycle": cycler(color=PALETTE),
+    "grid.color": "#ddd8cc",
+    "grid.linewidth": 0.6,
+    "legend.frameon": False,
+    "legend.fontsize": 8,
+    "lines.linewidth": 1.6,
+    "figure.facecolor": "white",
+    "svg.fonttype": "none",
+}
+ENVELOPE_BINS = 2000  # a long history is drawn as the min/max of at most this many bins, never point by point
+DROP_COLOUR, CRITICAL_COLOUR = "#8a8577", "#b5482f"
+
+
+# ---------------------------------------------------------------------------------------------
+# Small helpers
+
+def _e(value) -> str:
+    return html.escape(str(value))
+
+
+def _svg(fig, name: str) -> str:
+    """The figure as an inline <svg> element (no XML prologue, no date), then closed."""
     buf = io.StringIO()
-    fig.savefig(buf, format="svg", bbox_inches="tight")
+    with plt.rc_context({"svg.hashsalt": name}):  # distinct element ids per figure in one page
+        fig.savefig(buf, format="svg", bbox_inches="tight", metadata={"Date": None})
     plt.close(fig)
     text = buf.getvalue()
     return text[text.index("<svg"):]
 
 
-def _table(rows, header=None) -> str:
-    out = ["<table>"]
+def _figure(svg: str, number: str, caption: str) -> str:
+    return (f'<figure id="fig-{number}">{svg}<figcaption><b>Figure {number}.</b> {_e(caption)}'
+            "</figcaption></figure>")
+
+
+def _table(rows, header=None, cls: str = "") -> str:
+    out = [f'<table class="{cls}">' if cls else "<table>"]
     if header:
-        out.append("<tr>" + "".join(f"<th>{html.escape(str(h))}</th>" for h in header) + "</tr>")
+        out.append("<tr>" + "".join(f"<th>{_e(h)}</th>" for h in header) + "</tr>")
     for row in rows:
-        out.append("<tr>" + "".join(f"<td>{html.escape(str(c))}</td>" for c in row) + "</tr>")
+        out.append("<tr>" + "".join(f"<td>{_e(c)}</td>" for c in row) + "</tr>")
     out.append("</table>")
     return "\n".join(out)
 
@@ -63,6 +144,50 @@ def _fmt(value, digits=4, scale=1.0, unit=""):
     if value is None:
         return "unbounded"
     return f"{value * scale:.{digits}g} {unit}".strip()
+
+
+def _life(value, unit: str) -> str:
+    if value is None:
+        return "unbounded (no damaging cycle)"
+    if value == 0:
+        return f"0 {unit} (fails at first loading)"
+    return f"{value:.3g} {unit}"
+
+
+def _sha256(path: Path | None) -> str:
+    if path is None:
+        return "—"
+    try:
+        return hashlib.sha256(Path(path).read_bytes()).hexdigest()
+    except OSError:
+        return "— (file not readable when the report was written)"
+
+
+def drive_unit(drive: str) -> tuple[str, float]:
+    """Display unit of the drive and the factor from SI to it: deflection in mm, force in N."""
+    return ("mm", 1e3) if drive == "deflection" else ("N", 1.0)
+
+
+def _tool_version() -> str:
+    try:
+        return metadata.version("bendlife")
+    except metadata.PackageNotFoundError:
+        return "unknown (not installed)"
+
+
+def _drop_positions(result: LifeResult) -> list[float]:
+    return sorted({p.ends_at for p in result.design.beam.plies if p.ends_at is not None})
+
+
+def _mark_drops(ax, result: LifeResult, label: bool = True) -> None:
+    for k, x in enumerate(_drop_positions(result)):
+        ax.axvline(x * 1e3, color=DROP_COLOUR, lw=0.9, ls=(0, (4, 3)), label="ply drop" if (label and k == 0) else None)
+
+
+def _peak_force(result: LifeResult) -> float:
+    """Drive force at the duty extreme of largest magnitude, with its sign [N]."""
+    lo, hi = result.design.duty.extremes
+    return (hi if abs(hi) >= abs(lo) else lo) * result.force_per_drive
 
 
 def _stack_rows(plies) -> list[tuple]:
@@ -78,147 +203,689 @@ def _stack_rows(plies) -> list[tuple]:
     return [(f"{a}" if a == b else f"{a}–{b} ({b - a + 1})",) + cells for a, b, cells in runs]
 
 
-def _span_figure(result: LifeResult, locations: pd.DataFrame) -> str:
+# ---------------------------------------------------------------------------------------------
+# Data behind the figures (also used by the comparison page)
+
+@dataclass(frozen=True)
+class MinMaxEnvelope:
+    """A history decimated for plotting: the smallest and largest sample of each bin.
+
+    start : np.ndarray — index of each bin's first sample, shape (bins,) [-]
+    lo : np.ndarray — smallest sample in the bin, shape (bins,) [unit of the signal]
+    hi : np.ndarray — largest sample in the bin, shape (bins,) [unit of the signal]
+    """
+
+    start: np.ndarray
+    lo: np.ndarray
+    hi: np.ndarray
+
+
+def minmax_envelope(signal: np.ndarray, bins: int = ENVELOPE_BINS) -> MinMaxEnvelope:
+    """Decimate a history into at most ``bins`` (min, max) pairs; every extreme of the history is kept."""
+    signal = np.asarray(signal, float)
+    n = signal.size
+    bins = max(1, min(bins, n))
+    edges = np.linspace(0, n, bins + 1).astype(int)
+    start = edges[:-1]
+    return MinMaxEnvelope(start, np.minimum.reduceat(signal, start), np.maximum.reduceat(signal, start))
+
+
+@dataclass(frozen=True)
+class SpanEnvelope:
+    """Fibre strain ε1 at the two outer faces along the span over the duty's drive range.
+
+    x : np.ndarray — station distance from the root, shape (n,) [m]
+    bottom : np.ndarray — (min, max) ε1 over the duty at the bottom face (ply 1 side), shape (n, 2) [-]
+    top : np.ndarray — (min, max) ε1 over the duty at the top face, shape (n, 2) [-]
+    """
+
+    x: np.ndarray
+    bottom: np.ndarray
+    top: np.ndarray
+
+
+def span_envelope(result: LifeResult) -> SpanEnvelope:
+    """ε1 = (ε1 per unit force) × force at each duty extreme; linear, so the extremes bound the whole duty."""
     resp = result.response
-    peak = max(abs(v) for v in result.design.duty.extremes) * result.force_per_drive
-    eps = np.abs(resp.strain_12[..., 0]).max(axis=(1, 2)) * peak
-    fig, (a1, a2) = plt.subplots(2, 1, figsize=(7.5, 5.2), sharex=True)
-    a1.plot(resp.x * 1e3, eps * 100, marker=".", color="#1f5f8b")
-    a1.set_ylabel("peak |ε1| [%]")
-    a1.set_title("along the span, at the largest drive")
-    a1.grid(alpha=0.3)
-    for mode, group in locations.groupby("mode"):
-        per = group.groupby("x_m")["damage_per_block"].max()
-        if (per > 0).any():
-            a2.semilogy(per.index * 1e3, per.where(per > 0), marker=".", label=mode)
-    a2.set_xlabel("distance from the root x [mm]")
-    a2.set_ylabel("damage per block")
-    if a2.get_legend_handles_labels()[0]:
-        a2.legend(fontsize=8)
-    a2.grid(alpha=0.3, which="both")
-    return _svg(fig)
+    lo, hi = result.design.duty.extremes
+    forces = np.array([lo, hi]) * result.force_per_drive
+    n = resp.x.size
+    first = np.argmax(resp.present, axis=1)
+    last = resp.present.shape[1] - 1 - np.argmax(resp.present[:, ::-1], axis=1)
+    per_n_bottom = resp.strain_12[np.arange(n), first, 0, 0]
+    per_n_top = resp.strain_12[np.arange(n), last, 1, 0]
+    bottom = np.sort(per_n_bottom[:, None] * forces[None, :], axis=1)
+    top = np.sort(per_n_top[:, None] * forces[None, :], axis=1)
+    return SpanEnvelope(resp.x, bottom, top)
 
 
-def _thickness_figure(result: LifeResult) -> str:
+@dataclass(frozen=True)
+class ForceDeflection:
+    """The load-point line over the duty's range, from zero drive to each extreme.
+
+    deflection : np.ndarray — load-point deflection, shape (m,) [m]
+    force : np.ndarray — drive force there, shape (m,) [N]
+    """
+
+    deflection: np.ndarray
+    force: np.ndarray
+
+
+def force_deflection(result: LifeResult, points: int = 50) -> ForceDeflection:
+    """F = δ/C over the duty's range (linear theory; C the load-point compliance, bending + shear)."""
+    lo, hi = result.design.duty.extremes
+    f = np.linspace(min(lo, 0.0), max(hi, 0.0), points) * result.force_per_drive
+    return ForceDeflection(f * result.response.compliance, f)
+
+
+def critical_index(result: LifeResult) -> int:
+    """Index into result.locations of the critical location (its station, ply, face and mode)."""
+    locs, c = result.locations, result.critical
+    match = np.flatnonzero(
+        (locs.station == c.station) & (locs.ply == c.ply - 1) & (locs.mode == c.mode) & (locs.face == FACES.index(c.face))
+    )
+    if match.size == 0:  # the static check's place may be a mode without a fatigue location
+        match = np.flatnonzero((locs.station == c.station) & (locs.ply == c.ply - 1))
+    if match.size == 0:
+        return int(np.argmax(result.damage.damage))
+    best = np.lexsort((result.damage.utilisation[match], result.damage.damage[match]))[-1]  # damage, then utilisation
+    return int(match[best])
+
+
+def _table_cycles(cycles: pd.DataFrame) -> Cycles:
+    return Cycles(cycles["min"].to_numpy(float), cycles["max"].to_numpy(float), cycles["count"].to_numpy(float))
+
+
+# ---------------------------------------------------------------------------------------------
+# Figures
+
+def figure_layup(result: LifeResult) -> str:
+    """Side view of the stack along the span (each ply to its drop) and the planform (width taper)."""
+    beam = result.design.beam
+    L = beam.length * 1e3
+    materials = list(dict.fromkeys(p.material.name for p in beam.plies))
+    colour = {name: PALETTE[i % len(PALETTE)] for i, name in enumerate(materials)}
+    with plt.rc_context(STYLE):
+        fig, (a1, a2) = plt.subplots(2, 1, figsize=(7.5, 4.6), sharex=True, gridspec_kw={"height_ratios": [3, 1.4]})
+        z = 0.0
+        for k, p in enumerate(beam.plies, start=1):
+            end = L if p.ends_at is None else p.ends_at * 1e3
+            shade = 0.95 if p.angle % 180 == 0 else 0.55
+            a1.add_patch(Rectangle((0, z), end, p.thickness * 1e3, facecolor=colour[p.material.name], alpha=shade,
+                                   edgecolor="white", lw=0.6))
+            if p.ends_at is not None:
+                a1.plot([end, end], [z, z + p.thickness * 1e3], color="k", lw=1.2)
+            z += p.thickness * 1e3
+        a1.set_xlim(-0.02 * L, 1.02 * L)
+        a1.set_ylim(-0.05 * z, 1.05 * z)
+        a1.set_ylabel("height from the tension face [mm]")
+        a1.set_title("stack along the span (thickness exaggerated); pale = off-axis ply")
+        for name in materials:
+            a1.add_patch(Rectangle((0, 0), 0, 0, facecolor=colour[name], label=name))
+        a1.text(0.99, 0.02, "tension face under positive drive ↓", transform=a1.transAxes, ha="right", va="bottom",
+                fontsize=7.5, color="#555")
+        a1.legend(loc="lower right", bbox_to_anchor=(1.0, 1.06), ncol=min(3, len(materials)))
+        _mark_drops(a1, result, label=False)
+        x = np.linspace(0, L, 50)
+        half = beam.width(x / 1e3) * 1e3 / 2
+        a2.fill_between(x, -half, half, color=PALETTE[2], alpha=0.35, lw=0)
+        a2.plot(x, half, color=PALETTE[2]), a2.plot(x, -half, color=PALETTE[2])
+        a2.set_ylabel("width [mm]")
+        a2.set_xlabel("distance from the root x [mm]")
+        a2.set_title("planform", fontsize=9)
+        _mark_drops(a2, result, label=False)
+        return _svg(fig, "layup")
+
+
+def figure_force_deflection(result: LifeResult) -> str:
+    """(a) Force against load-point deflection over the duty's range, the energy at the peak drive shaded."""
+    fd = force_deflection(result)
+    lo, hi = result.design.duty.extremes
+    fpd, C = result.force_per_drive, result.response.compliance
+    peak = _peak_force(result)
+    with plt.rc_context(STYLE):
+        fig, ax = plt.subplots(figsize=(6.2, 3.6))
+        ax.plot(fd.deflection * 1e3, fd.force, color=PALETTE[0], label=f"k = {result.response.stiffness / 1e3:.4g} N/mm")
+        f_fill = np.linspace(0.0, peak, 50)
+        ax.fill_between(f_fill * C * 1e3, 0, f_fill, color=PALETTE[3], alpha=0.35,
+                        label=f"stored at the peak drive: U = {result.storage.energy:.4g} J")
+        for d in sorted({lo, hi}):
+            ax.plot(d * fpd * C * 1e3, d * fpd, "o", color=PALETTE[1], ms=5)
+        ax.plot([], [], "o", color=PALETTE[1], ms=5, label="duty extremes")
+        ax.axhline(0, color="#999", lw=0.6), ax.axvline(0, color="#999", lw=0.6)
+        ax.set_xlabel("load-point deflection δ [mm]")
+        ax.set_ylabel("load-point force F [N]")
+        ax.set_title("force–deflection over the duty (linear theory)")
+        ax.legend(loc="upper left")
+        return _svg(fig, "force-deflection")
+
+
+def figure_strain_envelope(result: LifeResult) -> str:
+    """(b) Fibre strain ε1 along the span at both outer faces, over the whole duty; drops and critical marked."""
+    env = span_envelope(result)
+    c = result.critical
+    x = env.x * 1e3
+    with plt.rc_context(STYLE):
+        fig, ax = plt.subplots(figsize=(7.5, 3.6))
+        ax.fill_between(x, env.bottom[:, 0] * 100, env.bottom[:, 1] * 100, color=PALETTE[0], alpha=0.35, lw=0)
+        ax.plot(x, env.bottom[:, 1] * 100, color=PALETTE[0], lw=1.2, label="bottom face (ply 1 side)")
+        ax.plot(x, env.bottom[:, 0] * 100, color=PALETTE[0], lw=1.2)
+        ax.fill_between(x, env.top[:, 0] * 100, env.top[:, 1] * 100, color=PALETTE[2], alpha=0.30, lw=0)
+        ax.plot(x, env.top[:, 0] * 100, color=PALETTE[2], lw=1.2, ls="--", label="top face")
+        ax.plot(x, env.top[:, 1] * 100, color=PALETTE[2], lw=1.2, ls="--")
+        ax.axhline(0, color="#999", lw=0.6)
+        _mark_drops(ax, result)
+        ax.axvline(c.x_m * 1e3, color=CRITICAL_COLOUR, lw=1.4, label=f"critical: {c.mode}, ply {c.ply}, {c.face} face")
+        ax.set_xlabel("distance from the root x [mm]")
+        ax.set_ylabel("fibre strain ε1 [%]")
+        ax.set_title("fibre-strain envelope along the span over the duty (band: min to max)")
+        ax.legend(loc="best")
+        return _svg(fig, "strain-envelope")
+
+
+def figure_through_thickness(result: LifeResult) -> str:
+    """(c) Ply-axis strain and stress through the thickness at the critical station, at the peak drive."""
     resp, c = result.response, result.critical
-    peak = max(abs(v) for v in result.design.duty.extremes) * result.force_per_drive
+    peak = _peak_force(result)
     k = c.station
-    present = resp.present[k]
-    fig, ax = plt.subplots(figsize=(5.5, 3.6))
-    for j in np.flatnonzero(present):
-        ax.plot(resp.strain_12[k, j, :, 0] * peak * 100, resp.z[k, j] * 1e3, color="#8b3a1f")
-        ax.plot(resp.strain_12[k, j, :, 1] * peak * 100, resp.z[k, j] * 1e3, color="#3a8b1f", alpha=0.7)
-    ax.plot([], [], color="#8b3a1f", label="ε1 (fibre)")
-    ax.plot([], [], color="#3a8b1f", label="ε2 (transverse)")
-    ax.axvline(0, color="k", lw=0.5)
-    ax.set_xlabel("ply-axis strain at the largest drive [%]")
-    ax.set_ylabel("z [mm]")
-    ax.set_title(f"through the thickness at x = {c.x_m * 1e3:.1f} mm")
-    ax.legend(fontsize=8)
-    ax.grid(alpha=0.3)
-    return _svg(fig)
+    present = np.flatnonzero(resp.present[k])
+    with plt.rc_context(STYLE):
+        fig, (a1, a2) = plt.subplots(1, 2, figsize=(7.5, 4.0), sharey=True)
+        for j in present:
+            z = resp.z[k, j] * 1e3
+            a1.plot(resp.strain_12[k, j, :, 0] * peak * 100, z, color=PALETTE[0])
+            a1.plot(resp.strain_12[k, j, :, 1] * peak * 100, z, color=PALETTE[3])
+            a1.plot(resp.strain_12[k, j, :, 2] * peak * 100, z, color=PALETTE[4], lw=1.0)
+            a2.plot(resp.stress_12[k, j, :, 0] * peak / 1e6, z, color=PALETTE[0])
+            a2.plot(resp.stress_12[k, j, :, 1] * peak / 1e6, z, color=PALETTE[3])
+            a2.plot(resp.stress_12[k, j, :, 2] * peak / 1e6, z, color=PALETTE[4], lw=1.0)
+        for ax in (a1, a2):
+            for zb in np.unique(resp.z[k, present].ravel()):
+                ax.axhline(zb * 1e3, color="#c9c3b5", lw=0.5)
+            if c.station == k:
+                lo_z, hi_z = resp.z[k, c.ply - 1] * 1e3
+                ax.axhspan(lo_z, hi_z, color=CRITICAL_COLOUR, alpha=0.12)
+            ax.axvline(0, color="#999", lw=0.6)
+            ax.grid(axis="y", visible=False)
+        a1.plot([], [], color=PALETTE[0], label="ε1 / σ1 (fibre)")
+        a1.plot([], [], color=PALETTE[3], label="ε2 / σ2 (transverse)")
+        a1.plot([], [], color=PALETTE[4], lw=1.0, label="γ12 / τ12 (shear)")
+        a1.fill_between([], [], color=CRITICAL_COLOUR, alpha=0.12, label=f"critical ply {c.ply}")
+        a1.legend(loc="best")
+        a1.set_xlabel("ply-axis strain [%]")
+        a1.set_ylabel("z from the mid-plane [mm] (thin lines: ply boundaries)")
+        a2.set_xlabel("ply-axis stress [MPa]")
+        a1.set_title(f"at x = {c.x_m * 1e3:.1f} mm, peak drive force {peak:.4g} N")
+        return _svg(fig, "through-thickness")
 
 
-def _duty_figure(result: LifeResult, cycles: pd.DataFrame) -> str:
+def figure_duty(result: LifeResult, cycles: pd.DataFrame) -> str:
+    """(d) The drive history (min/max envelope of at most 2000 bins) and the rainflow matrix (range × mean)."""
     duty = result.design.duty
-    unit, scale = ("mm", 1e3) if duty.drive == "deflection" else ("N", 1.0)
-    fig, ax = plt.subplots(figsize=(7.5, 2.8))
-    if duty.signal is not None:
-        ax.plot(np.arange(duty.signal.size), duty.signal * scale, lw=0.5, color="#444")
-        ax.set_xlabel("sample")
-        ax.set_ylabel(f"drive [{unit}]")
-        ax.set_title("time history of one block")
-    else:
-        for lo, hi, n in cycles[["min", "max", "count"]].itertuples(index=False):
-            ax.plot([lo * scale, hi * scale], [n, n], lw=3)
-        ax.set_yscale("log")
-        ax.set_xlabel(f"drive [{unit}]")
-        ax.set_ylabel("count per block")
-        ax.set_title("block table: each bar spans a cycle's min to max")
-    ax.grid(alpha=0.3)
-    return _svg(fig)
+    unit, scale = drive_unit(duty.drive)
+    rng = (cycles["max"] - cycles["min"]).to_numpy() * scale
+    mean = 0.5 * (cycles["max"] + cycles["min"]).to_numpy() * scale
+    count = cycles["count"].to_numpy(float)
+    with plt.rc_context(STYLE):
+        if duty.signal is not None:
+            fig, (a0, ax) = plt.subplots(2, 1, figsize=(7.5, 5.6), gridspec_kw={"height_ratios": [1, 1.5]})
+            env = minmax_envelope(duty.signal)
+            a0.fill_between(env.start, env.lo * scale, env.hi * scale, color=PALETTE[0], lw=0.4, step="post",
+                            edgecolor=PALETTE[0], rasterized=True)  # thousands of vertices: a PNG inside the SVG
+            a0.set_xlim(0, duty.signal.size)
+            a0.set_xlabel("sample number in one block")
+            a0.set_ylabel(f"drive [{unit}]")
+            how = "every sample" if env.start.size == duty.signal.size else f"min/max of {env.start.size} bins"
+            a0.set_title(f"drive history of one block ({duty.signal.size} samples; {how})")
+        else:
+            fig, ax = plt.subplots(figsize=(7.5, 3.8))
+        nb = 24
+        r_edges = np.linspace(0.0, max(rng.max(), 1e-12) * 1.0001, nb + 1)
+        m_lo, m_hi = mean.min(), mean.max()
+        pad = max(m_hi - m_lo, rng.max(), 1e-12) * 0.02
+        m_edges = np.linspace(m_lo - pad, m_hi + pad, nb + 1)
+        H, _, _ = np.histogram2d(mean, rng, bins=[m_edges, r_edges], weights=count)
+        H = np.where(H > 0, H, np.nan)
+        mesh = ax.pcolormesh(m_edges, r_edges, H.T, cmap="YlGnBu", norm=LogNorm(vmin=np.nanmin(H), vmax=np.nanmax(H)),
+                             shading="flat", edgecolors="white", linewidth=0.3, rasterized=True)
+        fig.colorbar(mesh, ax=ax, label="cycles per block")
+        ax.set_xlabel(f"cycle mean [{unit}]")
+        ax.set_ylabel(f"cycle range [{unit}]")
+        ax.set_title(f"rainflow matrix: {float(count.sum()):.6g} cycles per block")
+        ax.grid(False)
+        fig.tight_layout()
+        return _svg(fig, "duty")
 
 
-def report_html(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, locations: pd.DataFrame) -> str:
-    """Render the design-review report."""
-    d, s, c = result.design, result.summary(), result.critical
-    beam = d.beam
-    unit, scale = ("mm", 1e3) if d.duty.drive == "deflection" else ("N", 1.0)
-    ply = beam.plies[c.ply - 1]
-    headline = [
-        ("life", f"{_fmt(s['life_cycles'])} cycles · {_fmt(s['life_blocks'])} blocks"
-                 + (f" · {_fmt(s['life_days'])} days" if d.duty.blocks_per_day else "")),
-        ("damage per block", f"{s['damage_per_block']:.3g} (Miner limit {d.miner_limit:g})"),
-        ("critical", f"{c.mode}, ply {c.ply} ({ply.material.name}, {ply.angle:g}°), {c.face} face, "
-                     f"x = {c.x_m * 1e3:.1f} mm, z = {c.z_m * 1e3:+.2f} mm"),
-        ("stiffness", _fmt(s["stiffness_n_per_m"], 4, 1e-3, "N/mm")),
-        ("mass", _fmt(s["mass_kg"], 4, 1e3, "g")),
-        ("peak fibre strain", _fmt(s["peak_strain"], 3, 100, "%")),
-        ("energy at peak drive", _fmt(s["peak_energy_j"], 4, 1, "J")),
-        ("energy in the largest cycle", _fmt(s["cycle_energy_j"], 4, 1, "J")),
-        ("specific energy", _fmt(s["specific_energy_j_per_kg"], 4, 1, "J/kg")),
-        ("energy-storage efficiency", f"{s['energy_efficiency']:.3f}"),
-        ("static reserve", f"{s['static_reserve']:.3g} ({result.static.criterion}; "
-                           + ", ".join(f"{k} {v:.3g}" for k, v in result.static.by_criterion.items() if v is not None)
-                           + ")"),
+def _equivalent_amplitude(model, sa: np.ndarray, sm: np.ndarray) -> np.ndarray:
+    """Each cycle's amplitude moved to the curve's R by the model's own rule (life.meanstress functions)."""
+    curve = model.curves[0]
+    if model.rule == "goodman":
+        return goodman_amplitude_on_ray(goodman_amplitude_at_zero_mean(sa, sm, model.Xt, model.Xc), curve.R, model.Xt, model.Xc)
+    if model.rule == "gerber":
+        return gerber_amplitude_on_ray(gerber_amplitude_at_zero_mean(sa, sm, model.Xt, model.Xc), curve.R, model.Xt, model.Xc)
+    return sa
+
+
+def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame) -> str:
+    """(e) The critical location's fatigue curve (or constant-life diagram) with the duty's cycles there."""
+    locs, d = result.locations, result.design
+    k = critical_index(result)
+    m = int(locs.model[k])
+    with plt.rc_context(STYLE):
+        fig, ax = plt.subplots(figsize=(7.0, 4.0))
+        if m < 0:
+            ax.text(0.5, 0.5, f"no fatigue curve for {locs.mode[k]} at the critical location:\nchecked statically only",
+                    ha="center", va="center", transform=ax.transAxes)
+            ax.set_axis_off()
+            return _svg(fig, "fatigue-curve")
+        model = locs.models[m]
+        strain = model.curves[0].basis == "strain"
+        ys, yunit = (100.0, "%") if strain else (1e-6, "MPa")
+        cyc = _table_cycles(cycles)
+        s = locs.response[k] * result.force_per_drive * d.stress_factor
+        a, b = s * cyc.lo, s * cyc.hi
+        lo, hi = np.minimum(a, b), np.maximum(a, b)
+        sa, sm = 0.5 * (hi - lo), 0.5 * (hi + lo)
+        N = cycle_lives(locs, k, cyc, result.force_per_drive, d.stress_factor)
+        live = sa > 0
+        where = f"{locs.mode[k]}, ply {locs.ply[k] + 1}, {FACES[locs.face[k]]} face, x = {result.response.x[locs.station[k]] * 1e3:.1f} mm"
+        if model.rule == "cld":
+            order = sorted(model.curves, key=lambda cv: mean_ratio(cv.R))
+            for i, life in enumerate([1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9]):
+                amps = [float(cv.amplitude(np.array(life))) for cv in order]
+                xm = [-model.Xc] + [mean_ratio(cv.R) * a_ for cv, a_ in zip(order, amps)] + [model.Xt]
+                ya = [0.0] + amps + [0.0]
+                ax.plot(np.array(xm) * ys, np.array(ya) * ys, color=plt.cm.copper(i / 7), lw=1.1, label=f"N = {life:.0e}")
+            sc = ax.scatter(sm[live] * ys, sa[live] * ys, c=cyc.count[live], cmap="YlGnBu", norm=LogNorm(),
+                            s=14, edgecolors="#333", linewidths=0.3, zorder=3, rasterized=live.sum() > 500)
+            fig.colorbar(sc, ax=ax, label="cycles per block")
+            ax.set_xlabel(f"mean [{yunit}]")
+            ax.set_ylabel(f"amplitude [{yunit}]")
+            ax.set_title(f"constant-life diagram at the critical location ({where})")
+            ax.legend(loc="upper right", ncol=2)
+            return _svg(fig, "fatigue-curve")
+        curve = model.curves[0]
+        seq = _equivalent_amplitude(model, sa, sm)
+        finite = np.isfinite(N) & (N > 0) & live
+        n_max = max(1e9, float(N[finite].max()) * 10 if finite.any() else 1e9)
+        grid = np.logspace(0, np.log10(n_max), 200)
+        ax.plot(grid, curve.amplitude(grid) * ys, color=PALETTE[0], lw=2,
+                label=f"{curve.form} curve at R = {curve.R:g}" + (f", limit {curve.limit * ys:.3g} {yunit}" if curve.limit else ""))
+        order = np.argsort(-seq)
+        cum = np.cumsum(cyc.count[order])
+        ax.step(cum, seq[order] * ys, where="post", color=PALETTE[3], lw=1.3,
+                label="duty: cycles per block at or above the amplitude")
+        if finite.any():
+            dmg = cyc.count[finite] / N[finite]
+            ax.scatter(N[finite], seq[finite] * ys, s=10 + 60 * dmg / dmg.max(), color=PALETTE[1], alpha=0.8, zorder=3,
+                       label="each counted cycle at its life (size: damage)", rasterized=finite.sum() > 500)
+        safe = live & np.isinf(N)
+        if safe.any():
+            ax.scatter(np.full(safe.sum(), n_max), seq[safe] * ys, marker="|", color="#777", s=30,
+                       label="cycles below the fatigue limit (no damage)", rasterized=safe.sum() > 500)
+        broken = live & (N <= 0)
+        if broken.any():
+            ax.scatter(np.full(broken.sum(), FIRST_LOAD_FAILURE), seq[broken] * ys, marker="x", color=CRITICAL_COLOUR,
+                       label="cycles past the static strength")
+        ax.set_xscale("log")
+        ax.set_xlim(0.4, n_max * 1.5)
+        ax.set_ylim(bottom=0)
+        ax.set_xlabel("cycles N (to failure for the curve; cumulative count for the duty)")
+        ax.set_ylabel(f"amplitude at R = {curve.R:g} [{yunit}]")
+        ax.set_title(f"fatigue curve at the critical location ({where})", fontsize=9)
+        ax.legend(loc="upper right")
+        return _svg(fig, "fatigue-curve")
+
+
+def figure_damage(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame) -> str:
+    """(f) Damage per block along the span (largest per mode at each station) and by drive range at the critical location."""
+    d = result.design
+    unit, scale = drive_unit(d.duty.drive)
+    with plt.rc_context(STYLE):
+        fig, (a1, a2) = plt.subplots(2, 1, figsize=(7.5, 5.8))
+        drawn = False
+        for mode, group in locations.groupby("mode"):
+            per = group.groupby("x_m")["damage_per_block"].max()
+            if (per > 0).any():
+                a1.semilogy(per.index * 1e3, per.where(per > 0), marker=".", ms=4, label=mode)
+                drawn = True
+        if drawn:
+            top = max(float(locations["damage_per_block"].max()), d.miner_limit)
+            a1.set_ylim(top * 1e-9, top * 5)  # nine decades: smaller damage is round-off of a zero component
+        else:
+            a1.text(0.5, 0.5, "no location takes fatigue damage", ha="center", va="center", transform=a1.transAxes)
+        _mark_drops(a1, result)
+        a1.axvline(result.critical.x_m * 1e3, color=CRITICAL_COLOUR, lw=1.2, label="critical station")
+        a1.axhline(d.miner_limit, color="#555", lw=0.8, ls=":", label=f"Miner limit {d.miner_limit:g}")
+        a1.set_xlabel("distance from the root x [mm]")
+        a1.set_ylabel("damage per block")
+        a1.set_title("damage along the span (largest of each mode)")
+        a1.legend(loc="best", ncol=2)
+        cyc = _table_cycles(cycles)
+        k = critical_index(result)
+        N = cycle_lives(result.locations, k, cyc, result.force_per_drive, d.stress_factor)
+        dmg = np.where(N > 0, cyc.count / np.where(N > 0, N, 1.0), cyc.count / FIRST_LOAD_FAILURE)
+        rng = (cyc.hi - cyc.lo) * scale
+        edges = np.linspace(0.0, max(rng.max(), 1e-12) * 1.0001, 26)
+        per_bin, _ = np.histogram(rng, bins=edges, weights=dmg)
+        counts, _ = np.histogram(rng, bins=edges, weights=cyc.count)
+        total = per_bin.sum()
+        share = per_bin / total * 100 if total > 0 else per_bin
+        a2.bar(edges[:-1], share, width=np.diff(edges), align="edge", color=PALETTE[1], alpha=0.85,
+               edgecolor="white", label="share of the damage [%]")
+        a2.set_xlabel(f"drive range of the cycle [{unit}]")
+        a2.set_ylabel("share of the damage [%]")
+        a3 = a2.twinx()
+        a3.spines["right"].set_visible(True)
+        a3.step(edges[:-1], np.where(counts > 0, counts, np.nan), where="post", color=PALETTE[2], lw=1.2)
+        a3.set_yscale("log")
+        a3.set_ylabel("cycles per block (line)", color=PALETTE[2])
+        a3.grid(False)
+        a2.set_title("damage by cycle range at the critical location")
+        fig.tight_layout()
+        return _svg(fig, "damage")
+
+
+# ---------------------------------------------------------------------------------------------
+# Sections
+
+def section_identification(result: LifeResult, stamp: str) -> str:
+    d = result.design
+    profile = d.duty.profile_path
+    rows = [
+        ("title", d.title),
+        ("date", stamp),
+        ("tool", f"bendlife {_tool_version()}"),
+        ("design file", d.path.name if d.path else "— (built in memory)"),
+        ("design file SHA-256", _sha256(d.path)),
+        ("duty profile", profile.name if profile else "block table in the design file"),
+        ("profile SHA-256", _sha256(profile) if profile else "— (no separate file)"),
     ]
+    c, s = result.critical, result.summary()
+    ply = d.beam.plies[c.ply - 1]
+    glance = (f"Life {_life(s['life_cycles'], 'cycles')} = {_life(s['life_blocks'], 'blocks of the duty')}"
+              + (f" = {_life(s['life_days'], 'days')}" if d.duty.blocks_per_day else "")
+              + f"; first failure: {c.mode}, ply {c.ply} ({ply.material.name}, {ply.angle:g}°), {c.face} face, "
+              f"x = {c.x_m * 1e3:.1f} mm; static reserve {s['static_reserve']:.3g}; "
+              f"{len(result.warnings)} warning{'s' if len(result.warnings) != 1 else ''}.")
+    return f"""<section id="identification">
+<h1>Design review: {_e(d.title)}</h1>
+<p class="sub">Fatigue-life and stored-energy estimate of a flexing composite beam, written by bendlife.</p>
+<div class="glance"><b>Answer at a glance.</b> {_e(glance)}</div>
+<h2>1. Identification</h2>
+{_table(rows, cls="kv")}
+</section>"""
+
+
+def _material_value(key: str, value) -> str:
+    if value is None:
+        return "—"
+    if key == "density":
+        return f"{value:g} kg/m³"
+    if key == "thickness":
+        return f"{value * 1e3:g} mm"
+    if key in ("nu12",):
+        return f"{value:g}"
+    if key.startswith("eps"):
+        return f"{value * 100:.3g} %"
+    if key.startswith(("E", "G")):
+        return f"{value / 1e9:.4g} GPa"
+    return f"{value / 1e6:.4g} MPa"
+
+
+def _materials(result: LifeResult) -> str:
+    out = []
+    for m in result.design.materials.values():
+        rows = [(key, _material_value(key, getattr(m, key, None)), src) for key, src in m.sources.items()]
+        out.append(f"<h4>{_e(m.name)} <span class=\"kind\">({_e(m.kind)})</span></h4><p>{_e(m.description)}</p>")
+        out.append(_table(rows, header=("value", "", "source"), cls="small"))
+    return "\n".join(out)
+
+
+def section_inputs(result: LifeResult, cycles: pd.DataFrame, cycle_note: str) -> str:
+    d = result.design
+    beam, duty = d.beam, d.duty
+    unit, scale = drive_unit(duty.drive)
     width = (f"{beam.width_root * 1e3:g} mm" if beam.width_root == beam.width_tip
              else f"{beam.width_root * 1e3:g} mm at the root → {beam.width_tip * 1e3:g} mm")
     part = [("support", beam.support), ("span", f"{beam.span * 1e3:g} mm"), ("width", width),
-            ("section", beam.section), ("stations", str(result.response.x.size))]
+            ("section model", beam.section), ("laminate thickness at the root", f"{sum(p.thickness for p in beam.plies) * 1e3:.3f} mm"),
+            ("plies", str(len(beam.plies))), ("stations", str(result.response.x.size))]
     if beam.load_spacing:
         part.append(("load spacing", f"{beam.load_spacing * 1e3:g} mm"))
-    stack = _stack_rows(beam.plies)
-    top = cycles.assign(range=cycles["max"] - cycles["min"]).sort_values("range", ascending=False).head(15)
-    cyc_rows = [(f"{r['min'] * scale:.4g}", f"{r['max'] * scale:.4g}", f"{r['count']:g}", f"{r['energy_j']:.4g}")
-                for _, r in top.iterrows()]
-    worst = locations.sort_values("damage_per_block", ascending=False).head(12)
+    drops = _drop_positions(result)
+    part.append(("ply drops", ", ".join(f"{x * 1e3:g} mm" for x in drops) if drops else "none"))
+    lo, hi = duty.extremes
+    duty_rows = [
+        ("drive", f"{duty.drive} at the load point"),
+        ("source", duty.source),
+        ("cycles per block", f"{duty.cycles.n_total:g}"),
+        ("drive range", f"{lo * scale:.4g} … {hi * scale:.4g} {unit}"),
+        ("blocks per day", f"{duty.blocks_per_day:g}" if duty.blocks_per_day else "not given (no life in days)"),
+        ("residue", duty.residue if duty.signal is not None else "— (block table)"),
+        ("cycles.csv", cycle_note),
+    ]
+    top = cycles.assign(range=cycles["max"] - cycles["min"]).sort_values("range", ascending=False).head(10)
+    cyc_rows = [(f"{r['min'] * scale:.4g}", f"{r['max'] * scale:.4g}", f"{r['range'] * scale:.4g}", f"{r['count']:g}",
+                 f"{r['energy_j']:.4g}") for _, r in top.iterrows()]
+    return f"""<section id="inputs">
+<h2>2. Inputs</h2>
+<h3>Beam and support</h3>
+{_table(part, cls="kv")}
+<h3>Ply stack (from the tension face under positive drive)</h3>
+{_table(_stack_rows(beam.plies), header=("plies (count)", "material", "angle [°]", "thickness [mm]", "ends at [mm]"))}
+{_figure(figure_layup(result), "1", "The layup drawn along the span: each ply runs from the root to its drop (black end line); "
+         "thickness is exaggerated. Below, the planform: the width along the span.")}
+<h3>Materials and the source of every value</h3>
+{_materials(result)}
+<h3>Duty</h3>
+{_table(duty_rows, cls="kv")}
+{_figure(figure_duty(result, cycles), "2", "The duty: one block of the drive history (decimated to a min/max envelope when long) "
+         "and its rainflow matrix, cycles per block by range and mean (ASTM E1049-85 counting).")}
+<h4>Largest counted cycles</h4>
+{_table(cyc_rows, header=(f"min [{unit}]", f"max [{unit}]", f"range [{unit}]", "count", "energy [J]"), cls="small")}
+</section>"""
+
+
+def _curve_text(curve) -> str:
+    slope = f"m = {curve.m:g}" if curve.form == "power" else f"b = {curve.b:g} per decade"
+    basis = "strain" if curve.basis == "strain" else "stress"
+    s1 = f"{curve.S1 * 100:.3g} %" if basis == "strain" else f"{curve.S1 / 1e6:.4g} MPa"
+    extra = ""
+    if curve.limit is not None:
+        extra += ", limit " + (f"{curve.limit * 100:.3g} %" if basis == "strain" else f"{curve.limit / 1e6:.4g} MPa")
+    if curve.knee is not None:
+        extra += f", knee {curve.knee:.3g} cycles"
+    return f"{curve.form}, {basis} basis, R = {curve.R:g}, S1 = {s1}, {slope}{extra}; source: {curve.source}"
+
+
+def section_method(result: LifeResult) -> str:
+    d = result.design
+    locs = result.locations
+    curves = []
+    seen = set()
+    for m in sorted(set(int(v) for v in locs.model if v >= 0)):
+        rows = np.flatnonzero(locs.model == m)
+        j = rows[0]
+        key = (d.beam.plies[locs.ply[j]].material.name, locs.family[j])
+        if key in seen:
+            continue
+        seen.add(key)
+        model = locs.models[m]
+        for cv in model.curves:
+            curves.append((key[0], key[1], model.rule, _curve_text(cv)))
+    choices = [
+        ("theory", "linear elastic, small deflection (ASTM D790 / D6272 consistent); every local stress is the drive "
+                   "times a response per unit force, so the drive is counted once"),
+        ("section model", "narrow beam (free anticlastic curvature, 1/d11)" if d.beam.section == "beam"
+         else "plate (cylindrical bending)"),
+        ("cycle counting", "rainflow, ASTM E1049-85; residue "
+         + ("as half cycles" if d.duty.residue == "half" else "closed: the block as one of a repeating duty")),
+        ("mean-stress rule", RULE_NAMES.get(d.mean_stress, d.mean_stress)),
+        ("damage rule", f"Palmgren–Miner linear damage sum; failure at D = {d.miner_limit:g} (Miner limit)"),
+        ("stress factor", f"{d.stress_factor:g} on every local stress and strain, fatigue and static"),
+    ]
+    return f"""<section id="method">
+<h2>3. Method and assumptions</h2>
+{_table(choices, cls="kv")}
+<h3>Fatigue curves used</h3>
+{_table(curves, header=("material", "direction", "rule", "curve")) if curves else "<p>No fatigue curve applies: every location is checked statically only.</p>"}
+<h3>Models and their sources</h3>
+{_table(METHODS, header=("step", "method"))}
+<h3>Limits of the models</h3>
+<ul>{''.join(f"<li>{_e(x)}</li>" for x in LIMITS)}</ul>
+</section>"""
+
+
+def section_results(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame) -> str:
+    d, s, c = result.design, result.summary(), result.critical
+    ply = d.beam.plies[c.ply - 1]
+    life = [
+        ("life in cycles", _life(s["life_cycles"], "cycles")),
+        ("life in blocks of the duty", _life(s["life_blocks"], "blocks")),
+        ("life in days", _life(s["life_days"], "days") + f" at {d.duty.blocks_per_day:g} blocks per day"
+         if d.duty.blocks_per_day else "— (no blocks_per_day given)"),
+        ("damage per block", f"{s['damage_per_block']:.3g} (Miner limit {d.miner_limit:g})"),
+        ("critical", f"{c.mode}, ply {c.ply} ({ply.material.name}, {ply.angle:g}°), {c.face} face, "
+                     f"x = {c.x_m * 1e3:.1f} mm, z = {c.z_m * 1e3:+.2f} mm"),
+    ]
+    static = [(name, "not checked" if v is None or not np.isfinite(v) else f"{v:.3g}",
+               "governs" if name == result.static.criterion else "") for name, v in result.static.by_criterion.items()]
+    st = result.static
+    figures = [
+        ("stiffness at the load point", _fmt(s["stiffness_n_per_m"], 4, 1e-3, "N/mm")),
+        ("mass", _fmt(s["mass_kg"], 4, 1e3, "g")),
+        ("peak fibre strain |ε1|", _fmt(s["peak_strain"], 3, 100, "%")),
+        ("energy at the peak drive", _fmt(s["peak_energy_j"], 4, 1, "J")),
+        ("energy in the largest cycle", _fmt(s["cycle_energy_j"], 4, 1, "J")),
+        ("specific energy", _fmt(s["specific_energy_j_per_kg"], 4, 1, "J/kg")),
+        ("energy-storage efficiency", f"{s['energy_efficiency']:.3f}"),
+    ]
+    worst = locations.sort_values("damage_per_block", ascending=False).head(10)
     loc_rows = [(f"{r.x_m * 1e3:.1f}", r.ply, r.material, r.face, r["mode"], f"{r.amplitude:.4g}", f"{r['mean']:.4g}",
                  f"{r.damage_per_block:.3g}") for _, r in worst.iterrows()]
-    mats = []
-    for m in d.materials.values():
-        mats.append(f"<h3>{html.escape(m.name)}</h3><p>{html.escape(m.description)}</p>")
-        mats.append(_table(sorted(m.sources.items()), header=("value", "source")))
-    warn = "".join(f"<li>{html.escape(w)}</li>" for w in result.warnings) or "<li>none</li>"
+    return f"""<section id="results">
+<h2>4. Results</h2>
+<h3>Life and the critical place</h3>
+{_table(life, cls="kv")}
+<h3>Static reserves (first-ply failure at the worst duty extreme)</h3>
+<p>Smallest reserve {st.reserve:.3g} by {_e(st.criterion)} at x = {st.x_m * 1e3:.1f} mm, ply {st.ply}
+({_e(st.place.mode)}), at the drive extreme {st.drive:g} (SI).</p>
+{_table(static, header=("criterion", "reserve factor", ""), cls="small")}
+<h3>Stiffness, mass and energy</h3>
+{_table(figures, cls="kv")}
+{_figure(figure_force_deflection(result), "3", "Force against load-point deflection over the duty's range; the shaded area is the "
+         "elastic energy stored at the peak drive, released at once if the part breaks.")}
+{_figure(figure_strain_envelope(result), "4", "Fibre strain along the span at the two outer faces, from the smallest to the largest "
+         "drive of the duty; dashed grey lines are ply drops, the red line is the critical station.")}
+{_figure(figure_through_thickness(result), "5", "Ply-axis strains and stresses through the thickness at the critical station at the "
+         "peak drive; thin lines are ply boundaries, the shaded band is the critical ply.")}
+{_figure(figure_fatigue_curve(result, cycles), "6", "The fatigue curve (or constant-life diagram) of the critical location with the "
+         "duty's cycles there, each moved to the curve's R by the mean-stress rule.")}
+{_figure(figure_damage(result, cycles, locations), "7", "Miner damage per block along the span, and the share of the critical "
+         "location's damage by drive range of the cycles.")}
+<h3>Most damaged locations</h3>
+<p>Amplitude and mean of the largest cycle, in the basis of the location's curve (Pa or strain).</p>
+{_table(loc_rows, header=("x [mm]", "ply", "material", "face", "mode", "amplitude", "mean", "damage/block"), cls="small")}
+</section>"""
+
+
+def section_sizing(sizing: Sequence[tuple[str, str, str]] | None) -> str:
+    """The rows of a sizing run (quantity, before, after), or nothing."""
+    if not sizing:
+        return ""
+    return f"""<section id="sizing">
+<h3>Sizing</h3>
+{_table(sizing, header=("quantity", "before", "after"), cls="small")}
+</section>"""
+
+
+def section_warnings(result: LifeResult) -> str:
+    warn = "".join(f"<li>{_e(w)}</li>" for w in result.warnings) or "<li>none</li>"
+    return f'<section id="warnings"><h2>5. Warnings</h2><ul class="warn">{warn}</ul></section>'
+
+
+def section_cautions(result: LifeResult) -> str:
+    items = "".join(f"<li>{_e(x)}</li>" for x in CAUTIONS)
+    return f"""<section id="cautions"><h2>6. Cautions</h2>
+<div class="caution"><p><b>Caution.</b> {_e(CAUTION)}</p><ul>{items}</ul>
+<p>Peak stored energy of this part: {result.storage.energy:.4g} J.</p></div></section>"""
+
+
+def section_signoff() -> str:
+    rows = "".join(f"<tr><th>{role}</th><td></td><td></td><td></td></tr>"
+                   for role in ("prepared by", "reviewed by", "approved by"))
+    checks = "".join(f"<li>☐ {_e(x)}</li>" for x in (
+        "inputs checked against the drawing and the duty measurement",
+        "material values marked recalled or default replaced by tested data",
+        "warnings above read and resolved or accepted",
+        "prototype fatigue test plan agreed",
+    ))
+    return f"""<section id="signoff"><h2>7. Review and sign-off</h2>
+<ul class="checks">{checks}</ul>
+<table class="sign"><tr><th></th><th>name</th><th>signature</th><th>date</th></tr>{rows}</table>
+<p>Comments:</p><div class="comments"></div></section>"""
+
+
+CSS = """
+:root { --ink: #24231f; --muted: #6b6457; --rule: #d8d2c4; --accent: #0b6e6e; --warm: #fbf3e4; }
+body { font-family: system-ui, -apple-system, "Segoe UI", sans-serif; max-width: 980px; margin: 2em auto;
+       padding: 0 1.2em; color: var(--ink); line-height: 1.45; font-size: 15px }
+h1 { font-size: 1.6em; margin-bottom: 0.1em; color: var(--accent) }
+.sub { color: var(--muted); margin-top: 0 }
+h2 { border-bottom: 2px solid var(--accent); margin-top: 2em; padding-bottom: 0.15em; font-size: 1.3em }
+h3 { margin-top: 1.4em; font-size: 1.08em } h4 { margin: 1em 0 0.2em }
+.kind { color: var(--muted); font-weight: normal }
+table { border-collapse: collapse; margin: 0.5em 0 0.8em; font-size: 0.93em }
+td, th { border: 1px solid var(--rule); padding: 3px 8px; text-align: left; vertical-align: top }
+th { background: #f1eee6 } table.kv td:first-child { color: var(--muted); white-space: nowrap }
+table.small { font-size: 0.85em } td { overflow-wrap: break-word }
+.glance { background: #e8f2f1; border-left: 5px solid var(--accent); padding: 0.6em 1em; margin: 1em 0 }
+.caution { background: var(--warm); border-left: 5px solid #c8861d; padding: 0.3em 1em }
+.warn li { color: #7a3300 } .checks { list-style: none; padding-left: 0.5em }
+figure { margin: 1.2em 0; break-inside: avoid; page-break-inside: avoid }
+figure svg { max-width: 100%; height: auto; display: block }
+figcaption { font-size: 0.9em; color: var(--muted); margin-top: 0.3em }
+table.sign { width: 100% } table.sign td { height: 2.4em; width: 28% }
+.comments { border: 1px solid var(--rule); height: 6em }
+@media print {
+  body { max-width: none; margin: 0; font-size: 10pt }
+  h2 { break-after: avoid; page-break-after: avoid } h3, h4 { break-after: avoid; page-break-after: avoid }
+  #results, #signoff { break-before: page; page-break-before: always }
+  table, .caution, .glance { break-inside: avoid; page-break-inside: avoid }
+  figure svg { max-height: 9.5in }
+  @page { size: A4; margin: 15mm }
+}
+"""
+
+
+def report_html(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, locations: pd.DataFrame,
+                sizing: Sequence[tuple[str, str, str]] | None = None) -> str:
+    """Render the design-review report.
+
+    cycles : pd.DataFrame — the counted cycles as in cycles.csv (min, max, count, energy_j; SI)
+    cycle_note : str — how cycles.csv holds them
+    locations : pd.DataFrame — the locations table as in locations.csv
+    sizing : optional rows (quantity, before, after), strings, shown right after the results
+    """
     stamp = datetime.now(timezone.utc).strftime("%Y-%m-%d %H:%M UTC")
+    body = "\n".join([
+        section_identification(result, stamp),
+        section_inputs(result, cycles, cycle_note),
+        section_method(result),
+        section_results(result, cycles, locations),
+        section_sizing(sizing),
+        section_warnings(result),
+        section_cautions(result),
+        section_signoff(),
+    ])
     return f"""<!DOCTYPE html>
 <html lang="en"><head><meta charset="utf-8">
-<title>bendlife design review — {html.escape(d.title)}</title>
-<style>
-body {{ font-family: system-ui, sans-serif; max-width: 960px; margin: 2em auto; color: #222; line-height: 1.4 }}
-h1 {{ font-size: 1.5em }} h2 {{ border-bottom: 1px solid #ccc; margin-top: 1.8em }}
-table {{ border-collapse: collapse; margin: 0.6em 0 }} td, th {{ border: 1px solid #ddd; padding: 3px 8px; text-align: left }}
-th {{ background: #f2f2f2 }} .caution {{ background: #fff4e0; border-left: 5px solid #d98b00; padding: 0.6em 1em }}
-.warn li {{ color: #8a3b00 }} svg {{ max-width: 100%; height: auto }}
-</style></head><body>
-<h1>Design review: {html.escape(d.title)}</h1>
-<p>bendlife estimate, {stamp}. Design file: {html.escape(str(d.path.name) if d.path else "—")}.</p>
-<div class="caution"><b>Caution.</b> {html.escape(CAUTION)}</div>
-<h2>Result</h2>
-{_table(headline)}
-<h2>Warnings</h2><ul class="warn">{warn}</ul>
-<h2>Part</h2>
-{_table(part)}
-<h3>Ply stack (from the tension face under positive drive)</h3>
-{_table(stack, header=("plies (count)", "material", "angle [°]", "thickness [mm]", "ends at [mm]"))}
-<h2>Duty</h2>
-<p>{html.escape(d.duty.source)}; {d.duty.cycles.n_total:g} cycles per block; drive: {d.duty.drive}.
-cycles.csv: {html.escape(cycle_note)}.</p>
-{_duty_figure(result, cycles)}
-<h3>Largest counted cycles</h3>
-{_table(cyc_rows, header=(f"min [{unit}]", f"max [{unit}]", "count", "energy [J]"))}
-<h2>Along the span</h2>
-{_span_figure(result, locations)}
-<h2>Through the thickness at the critical station</h2>
-{_thickness_figure(result)}
-<h2>Most damaged locations</h2>
-<p>Amplitude and mean of the largest cycle, in the basis of the location's curve (Pa or strain).</p>
-{_table(loc_rows, header=("x [mm]", "ply", "material", "face", "mode", "amplitude", "mean", "damage/block"))}
-<h2>Methods and sources</h2>
-{_table(METHODS, header=("step", "method"))}
-<h2>Limits of the models</h2>
-<ul>{''.join(f"<li>{html.escape(x)}</li>" for x in LIMITS)}</ul>
-<h2>Materials and the source of every value</h2>
-{''.join(mats)}
+<meta name="viewport" content="width=device-width, initial-scale=1">
+<title>bendlife design review — {_e(result.design.title)}</title>
+<style>{CSS}</style></head><body>
+{body}
+<p class="sub">bendlife {_e(_tool_version())} · {stamp}</p>
 </body></html>
 """

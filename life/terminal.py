@@ -1,9 +1,13 @@
-"""Plain-text views for the terminal: the run summary, a design, a cycle table, the material list."""
+"""Views for the terminal: the run summary and the comparison as rich tables (plain text at a fixed width, so\nthey read the same captured as on a TTY), a design, a cycle table, the material list."""
 from __future__ import annotations
 
+import io
 from typing import Mapping
 
 import numpy as np
+from rich import box
+from rich.console import Console
+from rich.table import Table
 
 import pandas as pd
 
@@ -14,6 +18,18 @@ from mechanics.materials import Material
 from spectra.counting import Cycles
 
 
+WIDTH = 100  # fixed console width: the same layout on a terminal, in a pipe and in tests
+
+
+def _render(*renderables) -> str:
+    """Rich renderables as plain text at WIDTH columns (no colour codes, whether or not stdout is a TTY)."""
+    console = Console(file=io.StringIO(), width=WIDTH, color_system=None, force_terminal=False,
+                      highlight=False, emoji=False)
+    for r in renderables:
+        console.print(r)
+    return "\n".join(line.rstrip() for line in console.file.getvalue().rstrip("\n").splitlines())
+
+
 def _life(value: float | None, unit: str) -> str:
     if value is None:
         return "unbounded (no damaging cycle)"
@@ -22,31 +38,42 @@ def _life(value: float | None, unit: str) -> str:
     return f"{value:.3g} {unit}"
 
 
-def summary_text(result: LifeResult, example: bool = False) -> str:
-    """The run summary: life, critical place and mode, stiffness, mass, energies, static reserve, warnings."""
+def summary_table(result: LifeResult) -> Table:
+    """The run's figures as a two-column table (quantity, value with its unit)."""
     d, c, s = result.design, result.critical, result.summary()
-    lines = [f"bendlife — {d.title}" + ("  [bundled example, invented demo data]" if example else "")]
-    lines.append(f"  part        {d.beam.support}, span {d.beam.span * 1e3:.0f} mm, {len(d.beam.plies)} plies, "
-                 f"section {d.beam.section}")
-    lines.append(f"  duty        {d.duty.source}; {d.duty.cycles.n_total:g} cycles per block, {d.duty.drive} at the load point")
-    lines.append("")
-    lines.append(f"  life        {_life(result.life_cycles, 'cycles')}")
-    lines.append(f"              {_life(result.life_blocks, 'blocks of the duty')}")
+    ply = d.beam.plies[c.ply - 1]
+    t = Table(box=box.SIMPLE_HEAD, show_edge=False, pad_edge=False)
+    t.add_column("quantity", no_wrap=True)
+    t.add_column("value")
+    t.add_row("life, cycles", _life(result.life_cycles, "cycles"))
+    t.add_row("life, blocks", _life(result.life_blocks, "blocks of the duty"))
     if d.duty.blocks_per_day:
-        lines.append(f"              {_life(result.life_days, 'days')} at {d.duty.blocks_per_day:g} blocks per day")
-    lines.append(f"  damage      {result.damage_per_block:.3g} per block (Miner limit {d.miner_limit:g}, "
-                 f"mean stress {d.mean_stress}, stress factor {d.stress_factor:g})")
-    lines.append(f"  critical    {c.mode} in ply {c.ply} ({d.beam.plies[c.ply - 1].material.name}, "
-                 f"{d.beam.plies[c.ply - 1].angle:g}°), {c.face} face, x = {c.x_m * 1e3:.1f} mm from the root, "
-                 f"z = {c.z_m * 1e3:+.2f} mm")
-    lines.append(f"  stiffness   {s['stiffness_n_per_m'] / 1e3:.4g} N/mm at the load point")
-    lines.append(f"  mass        {s['mass_kg'] * 1e3:.4g} g")
-    lines.append(f"  peak strain {s['peak_strain'] * 100:.3g} % along the fibres")
-    lines.append(f"  energy      {s['peak_energy_j']:.4g} J at peak drive, {s['cycle_energy_j']:.4g} J in the largest cycle, "
-                 f"{s['specific_energy_j_per_kg']:.4g} J/kg, storage efficiency {s['energy_efficiency']:.3f}")
-    reserve = s["static_reserve"]
-    lines.append(f"  static      reserve factor {reserve:.3g} ({result.static.criterion}) at x = "
-                 f"{result.static.x_m * 1e3:.0f} mm, ply {result.static.ply}")
+        t.add_row("life, days", _life(result.life_days, "days") + f" at {d.duty.blocks_per_day:g} blocks per day")
+    t.add_row("damage", f"{result.damage_per_block:.3g} per block (Miner limit {d.miner_limit:g})")
+    t.add_row("rule", f"mean stress {d.mean_stress}, stress factor {d.stress_factor:g}")
+    t.add_row("critical mode", c.mode)
+    t.add_row("critical ply", f"ply {c.ply} ({ply.material.name}, {ply.angle:g}°), {c.face} face")
+    t.add_row("critical place", f"x = {c.x_m * 1e3:.1f} mm from the root, z = {c.z_m * 1e3:+.2f} mm")
+    t.add_row("stiffness", f"{s['stiffness_n_per_m'] / 1e3:.4g} N/mm at the load point")
+    t.add_row("mass", f"{s['mass_kg'] * 1e3:.4g} g")
+    t.add_row("peak strain", f"{s['peak_strain'] * 100:.3g} % along the fibres")
+    t.add_row("peak energy", f"{s['peak_energy_j']:.4g} J at peak drive")
+    t.add_row("cycle energy", f"{s['cycle_energy_j']:.4g} J in the largest cycle")
+    t.add_row("specific energy", f"{s['specific_energy_j_per_kg']:.4g} J/kg, storage efficiency {s['energy_efficiency']:.3f}")
+    t.add_row("static reserve", f"{s['static_reserve']:.3g} ({result.static.criterion}) at x = "
+                                f"{result.static.x_m * 1e3:.0f} mm, ply {result.static.ply}")
+    return t
+
+
+def summary_text(result: LifeResult, example: bool = False) -> str:
+    """The run summary: a header, the table of figures, the warnings, and the caution as the last line."""
+    d = result.design
+    lines = [f"bendlife — {d.title}" + ("  [bundled example, invented demo data]" if example else "")]
+    lines.append(f"  part  {d.beam.support}, span {d.beam.span * 1e3:.0f} mm, {len(d.beam.plies)} plies, "
+                 f"section {d.beam.section}")
+    lines.append(f"  duty  {d.duty.source}; {d.duty.cycles.n_total:g} cycles per block, {d.duty.drive} at the load point")
+    lines.append("")
+    lines.append(_render(summary_table(result)))
     if result.warnings:
         lines.append("")
         lines.append("warnings:")
@@ -97,18 +124,19 @@ def materials_text(lib: Mapping[str, Material]) -> str:
     return "\n".join(lines)
 
 
-def comparison_text(table: pd.DataFrame) -> str:
-    """The comparison as a fixed-width table."""
+def comparison_text(table: pd.DataFrame, duty: str = "each design with its own duty") -> str:
+    """The comparison as a table, one row per design in the order given, and the duty it used."""
     def fmt(v, scale=1.0):
         return "unbounded" if v is None or v != v else f"{v * scale:.4g}"
 
-    lines = [f"{'design':34s} {'life blocks':>12s} {'life cycles':>12s} {'mass g':>8s} {'k N/mm':>8s} "
-             f"{'U peak J':>9s} {'J/kg':>8s}  critical"]
+    t = Table(box=box.SIMPLE_HEAD, show_edge=False, pad_edge=False)
+    for name, justify in [("design", "left"), ("life blocks", "right"), ("life cycles", "right"), ("mass g", "right"),
+                          ("k N/mm", "right"), ("U peak J", "right"), ("J/kg", "right"), ("critical", "left")]:
+        t.add_column(name, justify=justify, overflow="fold")
     for r in table.astype(object).where(table.notna(), None).itertuples(index=False):
-        lines.append(f"{r.title[:34]:34s} {fmt(r.life_blocks):>12s} {fmt(r.life_cycles):>12s} {fmt(r.mass_kg, 1e3):>8s} "
-                     f"{fmt(r.stiffness_n_per_m, 1e-3):>8s} {fmt(r.peak_energy_j):>9s} "
-                     f"{fmt(r.specific_energy_j_per_kg):>8s}  {r.critical_mode}")
-    return "\n".join(lines)
+        t.add_row(r.title, fmt(r.life_blocks), fmt(r.life_cycles), fmt(r.mass_kg, 1e3), fmt(r.stiffness_n_per_m, 1e-3),
+                  fmt(r.peak_energy_j), fmt(r.specific_energy_j_per_kg), str(r.critical_mode))
+    return f"duty: {duty}\n" + _render(t)
 
 
 def sizing_text(answer: SizingResult) -> str:

@@ -150,7 +150,9 @@ def test_comparison_html_is_self_contained_with_titles_warnings_and_caution(resu
     rs = [results["thin"], results["thick"], results["safe"]]
     page = comparison_html(comparison_table(rs), rs)
     assert page.startswith("<!DOCTYPE html>")
-    assert not re.search(r"""(src|href)\s*=""", page, re.IGNORECASE)  # nothing fetched from outside
+    refs = re.findall(r"""(?:src|href)\s*=\s*["']([^"']*)["']""", page, re.IGNORECASE)
+    assert all(r.startswith("#") for r in refs), refs  # nothing fetched from outside: inline SVG's own ids only
+    assert not re.search(r"<link\b|<script\b|<img\b|@import|url\(\s*['\"]?http", page, re.IGNORECASE)
     assert html.escape(CAUTION) in page
     for r in rs:
         assert html.escape(r.design.title) in page
@@ -158,6 +160,65 @@ def test_comparison_html_is_self_contained_with_titles_warnings_and_caution(resu
             assert html.escape(w) in page
     assert "thin <4 plies>" not in page  # the title is escaped, not markup
     assert page.count("<tr>") == 1 + len(rs)  # header and one row per design
+    assert page.count("<svg") == 2  # bar charts; overlaid force–deflection and strain envelopes
+    assert "Duty: each design with its own duty." in page
+
+
+def test_page_ranks_by_life(results):
+    """Rows of the page ordered by life in blocks: unbounded (safe) first, then thick, then thin (the hand
+    calculation below: a quarter of the stress lives far longer)."""
+    rs = [results["thin"], results["thick"], results["safe"]]
+    page = comparison_html(comparison_table(rs), rs)
+    rows = re.findall(r"<tr><td>(\d+)</td><td>(\d+)</td><td>([^<]*)</td>", page)
+    assert [(rank, design) for rank, design, _ in rows] == [("1", "3"), ("2", "2"), ("3", "1")]
+
+
+@pytest.mark.parametrize("common", [False, True])
+def test_cli_compare_rows_equal_run_summaries(files, tmp_path, monkeypatch, capsys, common):
+    """Each row of comparison.csv equals summary.json of `bendlife run` on that design (to the 9 digits the
+    CSV keeps). With --duty, the design is run on a copy of its file whose [duty] is the common one."""
+    import json
+
+    duty = tmp_path / "common.toml"
+    duty.write_text('[duty]\ndrive = "force"\ncycles = [ { min = "-5 N", max = "15 N", count = 300 } ]\n',
+                    encoding="utf-8")
+    names = ["thin", "thick"]
+    args = ["compare", *(files[n] for n in names), "--out", tmp_path / "cmp"] + (["--duty", duty] if common else [])
+    code, stdout, err = bendlife(args, monkeypatch, capsys)
+    assert code == 0, err
+    expected_note = "common duty from common.toml" if common else "each design with its own duty"
+    assert f"duty: {expected_note}" in stdout
+    assert f"Duty: {expected_note}." in (tmp_path / "cmp" / "comparison.html").read_text(encoding="utf-8")
+    table = pd.read_csv(tmp_path / "cmp" / "comparison.csv")
+    for i, name in enumerate(names):
+        design = files[name]
+        if common:  # the same design with the common duty written into it by hand
+            text = design.read_text(encoding="utf-8")
+            design = tmp_path / f"{name}-common.toml"
+            design.write_text(re.sub(r"\[duty\]\n.*?\n\n", "[duty]\ndrive = \"force\"\ncycles = [ { min = \"-5 N\", "
+                                     "max = \"15 N\", count = 300 } ]\n\n", text, flags=re.DOTALL), encoding="utf-8")
+        out = tmp_path / f"run-{name}"
+        code, _, err = bendlife(["run", design, "--out", out], monkeypatch, capsys)
+        assert code == 0, err
+        s = json.loads((out / "summary.json").read_text(encoding="utf-8"))
+        if common:
+            assert s["cycles_per_block"] == 300
+        row = table.loc[i]
+        assert row["title"] == s["title"]
+        assert row["critical_mode"] == s["critical"]["mode"]
+        for key in ["life_blocks", "life_cycles", "mass_kg", "stiffness_n_per_m", "peak_energy_j",
+                    "specific_energy_j_per_kg"]:
+            assert row[key] == pytest.approx(s[key], rel=1e-8), key  # CSV keeps 9 significant digits
+
+
+def test_cli_compare_wrong_duty_file_names_it(files, tmp_path, monkeypatch, capsys):
+    """A --duty file with a wrong key: exit 2, the message names the duty file and the key."""
+    duty = tmp_path / "common.toml"
+    duty.write_text('[duty]\ndrive = "force"\ncycles = [ { min = "0 N", max = "15", count = 300 } ]\n', encoding="utf-8")
+    code, _, err = bendlife(["compare", files["thin"], files["thick"], "--duty", duty, "--out", tmp_path / "c"],
+                            monkeypatch, capsys)
+    assert code == 2
+    assert "common.toml" in err and "max" in err and "Traceback" not in err
 
 
 def test_cli_compare_writes_csv_and_html(files, results, tmp_path, monkeypatch, capsys):

@@ -71,12 +71,14 @@ def case(request, wide, example):
 
 
 def test_self_contained(case):
-    """Nothing is fetched: no src/href/url other than a fragment inside the page, no <link>, no <script>,
-    no @import (matplotlib's inline SVG refers to its own glyphs and clip paths by '#id' only)."""
+    """Nothing is fetched: no src/href/url other than a fragment inside the page or an inline data: image (a
+    rasterized artist inside an SVG), no <link>, no <script>, no @import (matplotlib's inline SVG refers to its
+    own markers and clip paths by '#id' only)."""
     _, page = case
     assert page.startswith("<!DOCTYPE html>") and page.rstrip().endswith("</html>")
     refs = re.findall(r"""(?:src|href)\s*=\s*["']([^"']*)["']""", page, re.IGNORECASE)
-    assert all(ref.startswith("#") for ref in refs), [r for r in refs if not r.startswith("#")]
+    local = [r for r in refs if r.startswith("#") or r.startswith("data:image/png;base64,")]
+    assert local == refs, [r[:40] for r in refs if r not in local]
     assert all(u.startswith("#") for u in re.findall(r"url\(\s*([^)]*)\)", page))
     assert not re.search(r"<link\b|<script\b|<img\b|<iframe\b|@import", page, re.IGNORECASE)
     # web addresses appear only in the SVG's <metadata> (matplotlib's RDF identifiers) and as XML namespace
@@ -109,11 +111,105 @@ def test_critical_by_hand(wide):
     assert "fibre-compression, ply 4 (report-glass, 0°), top face, x = 0.0 mm" in page
 
 
+FIGURES = {  # figure number: what its axes say (issue 4, figures a–f, plus the layup drawing)
+    "1": ["stack along the span", "planform", "distance from the root x [mm]"],
+    "2": ["rainflow matrix", "cycle range [", "cycle mean ["],
+    "3": ["load-point deflection δ [mm]", "load-point force F [N]", "stored at the peak drive"],
+    "4": ["fibre strain ε1 [%]", "bottom face", "top face", "critical:"],
+    "5": ["ply-axis strain [%]", "ply-axis stress [MPa]", "z from the mid-plane [mm]"],
+    "6": ["critical location"],
+    "7": ["damage per block", "damage by cycle range", "share of the damage [%]"],
+}
+
+
+def figures(page: str) -> dict[str, str]:
+    """The <figure id="fig-N"> elements of the page by number."""
+    return dict(re.findall(r'<figure id="fig-(\d+)">(.*?)</figure>', page, re.DOTALL))
+
+
 def test_an_inline_svg_per_figure(case):
-    """Three figures (duty, along the span, through the thickness), each an inline <svg> element."""
+    """Seven figures, each one inline <svg> with its caption, axes labelled with units."""
     _, page = case
-    assert page.count("<svg") == 3 and page.count("</svg>") == 3
+    found = figures(page)
+    assert sorted(found) == sorted(FIGURES)
+    for number, words in FIGURES.items():
+        body = found[number]
+        assert body.count("<svg") == 1 and "<figcaption><b>Figure " + number in body
+        for w in words:
+            assert html.escape(w) in body or w in body, (number, w)
+    assert page.count("<svg") == 7 and page.count("</svg>") == 7
     assert "<?xml" not in page  # the SVG's XML prologue is cut: it is not allowed inside HTML
+
+
+def test_fatigue_figure_names_the_critical_curve(wide):
+    """Figure 6 of the hand case: the one R = −1 power curve of report-glass (Goodman; S1 800 MPa, m = 10)."""
+    _, page = wide
+    body = figures(page)["6"]
+    assert "power curve at R = -1" in body
+    assert "amplitude at R = -1 [MPa]" in body  # a stress-basis curve, drawn in MPa
+
+
+def test_duty_history_only_for_a_time_history(wide, example):
+    """A block table has no history to draw: only the rainflow matrix; the example's 18 000-sample ride is drawn
+    as the min/max of 2000 bins, never point by point."""
+    assert "drive history of one block" not in figures(wide[1])["2"]
+    body = figures(example[1])["2"]
+    assert "drive history of one block (18000 samples; min/max of 2000 bins)" in body
+
+
+def test_sections_in_reading_order(case):
+    """Identification, inputs, method, results, warnings, cautions, review and sign-off, in that order."""
+    _, page = case
+    ids = re.findall(r'<section id="([\w-]+)">', page)
+    assert ids == ["identification", "inputs", "method", "results", "warnings", "cautions", "signoff"]
+
+
+def test_method_names_and_cautions(case):
+    """The method names (rainflow, the chosen rule, Miner) and every caution the issue asks for."""
+    result, page = case
+    assert "rainflow, ASTM E1049-85" in page
+    assert "Goodman (linear constant-life lines to Xt and Xc)" in page  # both designs use the default rule
+    assert "Palmgren–Miner linear damage sum; failure at D = 1 (Miner limit)" in page
+    for words in ["releases its stored energy at once", "estimate, not certification", "ASTM D7774", "ISO 13003",
+                  "environmental knock-downs", "licensed engineering practice decide"]:
+        assert words in page, words
+    assert f"Peak stored energy of this part: {result.storage.energy:.4g} J." in page
+
+
+def test_identification_hashes_and_version(example):
+    """SHA-256 of the design file and of the bundled profile, computed here with hashlib, and the tool version."""
+    import hashlib
+    from importlib import metadata
+
+    from spectra.profiles import bundled_profile
+
+    result, page = example
+    assert hashlib.sha256(example_design().read_bytes()).hexdigest() in page
+    assert result.design.duty.profile_path == bundled_profile("cargo-bike-ride")
+    assert hashlib.sha256(bundled_profile("cargo-bike-ride").read_bytes()).hexdigest() in page
+    assert f"bendlife {metadata.version('bendlife')}" in page
+
+
+def test_block_table_has_no_profile(wide):
+    result, page = wide
+    assert result.design.duty.profile_path is None
+    assert "block table in the design file" in page
+
+
+def test_sizing_rows_follow_the_results_escaped(wide):
+    """render(result, sizing=rows): a Sizing table right after the results, before the warnings, escaped."""
+    from life.outputs import render
+
+    result, _ = wide
+    rows = [("thickness <scale>", "1", "0.8125"), ("life_blocks", "1.2e+03", "5e+04")]
+    page = render(result, sizing=rows)["report.html"]
+    results, sizing, warnings = (page.index(f'<section id="{s}">') for s in ("results", "sizing", "warnings"))
+    assert results < sizing < warnings
+    table = page[sizing:warnings]
+    assert "<tr><th>quantity</th><th>before</th><th>after</th></tr>" in table
+    assert "<tr><td>thickness &lt;scale&gt;</td><td>1</td><td>0.8125</td></tr>" in table
+    assert "<tr><td>life_blocks</td><td>1.2e+03</td><td>5e+04</td></tr>" in table
+    assert 'id="sizing"' not in render(result)["report.html"]  # no rows, no table
 
 
 def test_every_warning_escaped(case):
@@ -159,3 +255,53 @@ def test_example_stack_has_sixteen_plies(example):
     """The bundled example lists 1 + 6 + 2 + 6 + 1 plies (life/examples/cargo-bike-rear-spring.toml)."""
     result, page = example
     assert len(result.design.beam.plies) == 16
+
+
+def test_minmax_envelope_keeps_every_extreme():
+    """The decimated duty: at most 2000 bins, each bin's (min, max) exactly those of its samples (numpy by
+    brute force here), so the history's own extremes survive."""
+    from hypothesis import given, settings
+    from hypothesis import strategies as st
+    import numpy as np
+
+    from life.report import ENVELOPE_BINS, minmax_envelope
+
+    @settings(max_examples=60, deadline=None)
+    @given(st.lists(st.floats(-1e3, 1e3), min_size=1, max_size=6000))
+    def check(values):
+        x = np.array(values)
+        env = minmax_envelope(x)
+        assert env.start.size == min(ENVELOPE_BINS, x.size)
+        ends = list(env.start[1:]) + [x.size]
+        for a, b, lo, hi in zip(env.start, ends, env.lo, env.hi):
+            assert lo == x[a:b].min() and hi == x[a:b].max()
+        assert env.lo.min() == x.min() and env.hi.max() == x.max()
+
+    check()
+
+
+CHROMIUM = next((p for p in ("chromium", "chromium-browser") if __import__("shutil").which(p)), None)
+
+
+@pytest.mark.skipif(CHROMIUM is None, reason="no chromium binary found (.ci/run installs the Debian package "
+                                              "'chromium' where it can)")
+def test_opens_in_a_real_browser(example, tmp_path):
+    """Headless Chromium loads the file and renders a screenshot that is not blank: the pixels vary and hold
+    many distinct colours (text, figure fills, the caution box)."""
+    import subprocess
+
+    import numpy as np
+    from matplotlib.image import imread
+
+    _, page = example
+    report = tmp_path / "report.html"
+    report.write_text(page, encoding="utf-8")
+    shot = tmp_path / "shot.png"
+    subprocess.run([CHROMIUM, "--headless", "--no-sandbox", "--disable-gpu", f"--screenshot={shot}",
+                    "--window-size=1000,2000", f"file://{report}"],
+                   check=True, capture_output=True, timeout=120)
+    pixels = imread(shot)[..., :3]
+    assert pixels.shape[:2] == (2000, 1000)
+    assert pixels.std() > 0.05  # blank white would be 0 (pixels in 0…1)
+    colours = np.unique((pixels.reshape(-1, 3) * 255).round().astype(int), axis=0)
+    assert len(colours) > 50  # a blank or single-box page has a handful

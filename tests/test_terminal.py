@@ -44,6 +44,16 @@ def hand_design(force: str, blocks_per_day: float | None = 100.0, limit: str | N
     return parse_design(doc, "hand.toml", Path("."))
 
 
+def table_rows_of(text: str) -> dict[str, str]:
+    """The summary table's rows, label -> value (two columns separated by two or more spaces)."""
+    rows = {}
+    for line in text.splitlines():
+        parts = re.split(r"\s{2,}", line.strip(), maxsplit=1)
+        if len(parts) == 2:
+            rows[parts[0]] = parts[1]
+    return rows
+
+
 def number_before(pattern: str, text: str) -> float:
     """The number printed just before ``pattern`` (a regex) at its first match."""
     found = re.search(r"(?<![\w.])([-+]?\d[\d.]*(?:e[-+]?\d+)?)\s*" + pattern, text, re.MULTILINE)
@@ -69,7 +79,10 @@ def test_summary_figures_by_hand(finite):
     assert number_before(r"blocks of the duty", text) == pytest.approx(12.0**10 / 1000, rel=5e-3)
     assert number_before(r"days", text) == pytest.approx(12.0**10 / 1000 / 100, rel=5e-3)
     assert "at 100 blocks per day" in text
-    assert re.search(r"critical\s+fibre-compression in ply 10 \(hand-glass, 0°\), top face, x = 0\.0 mm", text)
+    rows = table_rows_of(text)
+    assert rows["critical mode"] == "fibre-compression"
+    assert rows["critical ply"] == "ply 10 (hand-glass, 0°), top face"
+    assert rows["critical place"].startswith("x = 0.0 mm from the root")
     C = 0.2**3 / (3 * 40e9 * 0.02 * 0.005**3 / 12) + 0.2 / (5 / 6 * 4e9 * 0.02 * 0.005)
     # rel 1e-3: stiffness, mass and energy print to 4 significant digits
     assert number_before(r"N/mm", text) == pytest.approx(1e-3 / C, rel=1e-3)
@@ -109,20 +122,67 @@ def test_unbounded_life_reads_unbounded():
     Goodman σa0 = 6/(1 − 6/600) = 6.06 MPa, far below the limit: no cycle does damage."""
     result = estimate(hand_design("5 N", limit="100 MPa"))
     assert result.life_unbounded
-    text = summary_text(result)
-    life = text[text.index("  life"):text.index("  damage")]
-    assert life.count("unbounded") == 3  # cycles, blocks, days
-    assert not re.search(r"\d\s*cycles", life)
+    rows = table_rows_of(summary_text(result))
+    life = [rows["life, cycles"], rows["life, blocks"], rows["life, days"]]
+    assert all(v.startswith("unbounded") for v in life)  # cycles, blocks, days
+    assert not any(re.search(r"\d\s*cycles", v) for v in life)
 
 
 def test_zero_life_reads_fails_at_first_loading():
     """0 → 300 N: root σ = 6·300·0.2/(0.02·0.005²) = 720 MPa > Xc = 600 MPa: the first load breaks the part."""
     result = estimate(hand_design("300 N"))
     assert result.life_cycles == 0
-    text = summary_text(result)
-    life = text[text.index("  life"):text.index("  damage")]
-    assert life.count("fails at first loading") == 3  # cycles, blocks, days
-    assert "0 cycles (fails at first loading)" in life
+    rows = table_rows_of(summary_text(result))
+    assert rows["life, cycles"] == "0 cycles (fails at first loading)"
+    assert rows["life, blocks"] == "0 blocks of the duty (fails at first loading)"
+    assert rows["life, days"].startswith("0 days (fails at first loading)")
+
+
+def test_summary_is_a_fixed_width_table(finite):
+    """Captured (not a TTY), the table keeps its fixed width: no line past 100 columns, no colour codes."""
+    table = finite[:finite.index("\nwarnings:")]
+    assert all(len(line) <= 100 for line in table.splitlines())
+    assert "\x1b[" not in finite
+    assert re.search(r"^quantity\s+value$", finite, re.MULTILINE)
+
+
+def test_cli_run_prints_the_values_of_summary_json(tmp_path, monkeypatch, capsys):
+    """`bendlife run DESIGN`: the printed life, stiffness, mass and energy are summary.json's to the digits shown
+    (3 significant for lives, 4 for the rest)."""
+    import json
+
+    from cli_runner import bendlife
+
+    design = tmp_path / "hand.toml"
+    design.write_text("""\
+title = "hand check cantilever"
+[beam]
+support = "cantilever"
+span = "200 mm"
+width = "20 mm"
+stations = 6
+[[ply]]
+material = "e-glass-epoxy"
+angle = 0
+thickness = "0.5 mm"
+count = 10
+[duty]
+drive = "force"
+cycles = [ { min = "0 N", max = "50 N", count = 1000 } ]
+blocks_per_day = 100
+""", encoding="utf-8")
+    code, out, err = bendlife(["run", design, "--out", tmp_path / "out"], monkeypatch, capsys)
+    assert code == 0, err
+    s = json.loads((tmp_path / "out" / "summary.json").read_text(encoding="utf-8"))
+    rows = table_rows_of(out)
+    assert float(rows["life, cycles"].split()[0]) == float(f"{s['life_cycles']:.3g}")
+    assert float(rows["life, blocks"].split()[0]) == float(f"{s['life_blocks']:.3g}")
+    assert float(rows["life, days"].split()[0]) == float(f"{s['life_days']:.3g}")
+    assert float(rows["stiffness"].split()[0]) == float(f"{s['stiffness_n_per_m'] / 1e3:.4g}")
+    assert float(rows["mass"].split()[0]) == float(f"{s['mass_kg'] * 1e3:.4g}")
+    assert float(rows["peak energy"].split()[0]) == float(f"{s['peak_energy_j']:.4g}")
+    assert rows["critical mode"] == s["critical"]["mode"]
+    assert out.rstrip().splitlines()[-1].startswith("wrote summary.json")
 
 
 # ---------------------------------------------------------------------------------------------
