@@ -139,8 +139,19 @@ def _duty_figure(result: LifeResult, cycles: pd.DataFrame) -> str:
     return _svg(fig)
 
 
-def report_html(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, locations: pd.DataFrame) -> str:
-    """Render the design-review report."""
+def _sizing_section(rows) -> str:
+    """The sizing table (quantity, before, after), or nothing."""
+    if not rows:
+        return ""
+    return "<h2>Sizing</h2>\n" + _table(rows, header=("quantity", "before", "after"))
+
+
+def report_html(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, locations: pd.DataFrame,
+                sizing: list[tuple[str, str, str]] | None = None) -> str:
+    """Render the design-review report.
+
+    sizing : list of (quantity, before, after) rows — ``bendlife size``: shown after the Result section
+    """
     d, s, c = result.design, result.summary(), result.critical
     beam = d.beam
     unit, scale = ("mm", 1e3) if d.duty.drive == "deflection" else ("N", 1.0)
@@ -196,6 +207,7 @@ th {{ background: #f2f2f2 }} .caution {{ background: #fff4e0; border-left: 5px s
 <div class="caution"><b>Caution.</b> {html.escape(CAUTION)}</div>
 <h2>Result</h2>
 {_table(headline)}
+{_sizing_section(sizing)}
 <h2>Warnings</h2><ul class="warn">{warn}</ul>
 <h2>Part</h2>
 {_table(part)}

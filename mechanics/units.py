@@ -33,6 +33,7 @@ KINDS = {
     "stress": ("[pressure]", "Pa"),
     "density": ("[mass] / [length] ** 3", "kg/m**3"),
     "energy": ("[energy]", "J"),
+    "stiffness": ("[force] / [length]", "N/m"),
     "strain": ("", ""),
 }
 EXAMPLES = {
@@ -41,6 +42,7 @@ EXAMPLES = {
     "stress": '"38.6 GPa" or "1062 MPa"',
     "density": '"1800 kg/m^3"',
     "energy": '"1.5 J"',
+    "stiffness": '"25 N/mm" or "140 lbf/in"',
     "strain": '0.021 or "2.1 %"',
 }
 
