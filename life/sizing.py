@@ -37,8 +37,9 @@ from life.design import BUNDLED_PREFIX, Design, parse_design
 from life.errors import InputError
 from life.estimate import LifeResult, estimate
 from mechanics.beam import Beam, moment_shear, respond
+from mechanics.errors import InputError as MechanicsInputError
 from mechanics.laminate import Layer, laminate, ply_field, unit_bending
-from mechanics.units import UREG
+from mechanics.units import UREG, parse_quantity
 
 VARY = ("thickness", "width")
 SCALE_LIMITS = (0.1, 10.0)  # the sane range of scale factors (issue 7): beyond it the design is another part
@@ -207,8 +208,6 @@ class RateResult:
 
 def parse_rate(text: str) -> float:
     """The ``--rate`` value, a force per deflection with its unit ("25 N/mm") [N/m]."""
-    from mechanics.errors import InputError as MechanicsInputError
-    from mechanics.units import parse_quantity
     try:
         rate = parse_quantity(text, "stiffness", "--rate")
     except MechanicsInputError as exc:

@@ -81,12 +81,12 @@ def parse_quantity(value: object, kind: str, where: str) -> float:
     ----------
     value : str or number — ``"0.8 mm"``; a bare number only where ``kind`` is ``"strain"``
     kind : str — one of ``KINDS`` (``"length"``, ``"force"``, ``"stress"``, ``"density"``,
-        ``"energy"``, ``"strain"``)
+        ``"energy"``, ``"stiffness"``, ``"strain"``)
     where : str — file and key for the error message, e.g. ``"design.toml [beam] span"``
 
     Returns
     -------
-    float — the value in SI units (m, N, Pa, kg/m³, J, or a bare strain ratio)
+    float — the value in SI units (m, N, Pa, kg/m³, J, N/m, or a bare strain ratio)
     """
     dims, si_unit = KINDS[kind]
     q = _quantity(value, where)

@@ -266,3 +266,13 @@ def test_stations_csv_follows_the_beam_formulas(result, written):
     assert table["peak_strain"].max() == pytest.approx(result.summary()["peak_strain"], rel=1e-8)
     assert table["damage_per_block"].max() == pytest.approx(result.summary()["damage_per_block"], rel=1e-8)
     assert (table["plies"] == 3).all()
+
+
+def test_render_shows_the_sizing_table_after_the_result(result):
+    """render(result, sizing=rows): the report gains a Sizing table of (quantity, before, after), HTML-escaped,
+    after the Result section; without rows there is none."""
+    rows = [("life [blocks]", "8560", "2e+04"), ("width", "60 → 36 mm", "<b>x</b>")]
+    page = render(result, sizing=rows)["report.html"]
+    assert page.index("<h2>Result</h2>") < page.index("<h2>Sizing</h2>") < page.index("<h2>Warnings</h2>")
+    assert "<td>60 → 36 mm</td>" in page and "&lt;b&gt;x&lt;/b&gt;" in page
+    assert "<h2>Sizing</h2>" not in render(result)["report.html"]
