@@ -50,6 +50,7 @@ CLIP = 60.0  # log-life gap given to the root finder for a zero (static failure)
 RATE_TOLERANCE = 1e-6  # relative error on the spring rate at which the width step stops
 WIDE_BEAM = 10.0  # width/thickness beyond which a "beam" section bends more like a plate (common practice)
 TIP_FLOOR = 0.1  # narrowest tip of a width taper, as a fraction of the root width (load introduction; our choice)
+DROP_SPACING = 10.0  # successive ply drops at least this many dropped-ply thicknesses apart (common practice; recalled)
 TAPER_SUPPORTS = ("cantilever", "three-point")  # moment falls linearly from the root to zero at the end
 
 
@@ -307,9 +308,12 @@ def taper_width(design: Design) -> TaperResult:
     load introduction. Criterion: the narrowest tip at which the interlaminar static reserve is still no
     smaller than the bending reserve (the tip in shear is no weaker than the root in bending), never narrower
     than ``TIP_FLOOR`` of the root; without an interlaminar strength only the floor applies. The tip width is
-    rounded up to 0.1 mm.
+    rounded up to 0.1 mm. The design's own ply drops are removed (every ply runs the full length): past a drop
+    the evened strain would jump above the root's.
     """
     _taper_check(design)
+    dropped = [k for k, p in enumerate(design.beam.plies, start=1) if p.ends_at is not None]
+    design = replace(design, beam=replace(design.beam, plies=tuple(replace(p, ends_at=None) for p in design.beam.plies)))
     b0 = design.beam.width_root
 
     def tapered(f: float) -> Design:
@@ -335,7 +339,9 @@ def taper_width(design: Design) -> TaperResult:
     tip = math.ceil(b0 * f * 1e4 - 1e-9) / 1e4  # up to the next 0.1 mm
     tip = min(tip, b0)
     note = (f"linear width taper {b0 * 1e3:.4g} → {tip * 1e3:.4g} mm (tip {tip / b0:.0%} of the root; a "
-            f"triangular planform evens the strain); tip width from {why}")
+            f"triangular planform evens the strain); tip width from {why}"
+            + (f"; the design's ply drops (plies {', '.join(map(str, dropped))}) removed: past a drop the strain of "
+               "the evened planform would rise" if dropped else ""))
     return TaperResult("width taper", replace(design, beam=replace(design.beam, width_tip=tip)), note)
 
 
@@ -355,7 +361,9 @@ def drop_plies(design: Design) -> TaperResult:
     each time the one nearest the remaining laminate's mid-plane (it carries the least bending). Ply k may end
     where the laminate without it keeps the surface strain at or below the root's: with e_k the largest |ε1|
     per unit moment per width of the laminate left, the drop station x_k is the smallest x with
-    m(x)/b(x)·e_k ≤ m(0)/b(0)·e_0 (cantilever, uniform width: x_k = L(1 − e_0/e_k)), rounded up to the whole mm.
+    m(x)/b(x)·e_k ≤ m(0)/b(0)·e_0 (cantilever, uniform width: x_k = L(1 − e_0/e_k)), rounded up to the whole mm,
+    and at least ``DROP_SPACING`` dropped-ply thicknesses beyond the previous drop (staggered drops; a later drop
+    only lowers the strain).
     Drops are removed from the tip end while the interlaminar reserve of the result would fall below its
     bending reserve (the thin tip must carry the shear force). The design's own drops are replaced.
     """
@@ -383,6 +391,8 @@ def drop_plies(design: Design) -> TaperResult:
         if ok.size == 0:
             break
         x = math.ceil(x_grid[ok[0]] * 1e3 - 1e-9) / 1e3
+        if ends:  # staggered: no two drops on top of each other (later is on the safe side)
+            x = max(x, math.ceil((max(ends.values()) + DROP_SPACING * full[left[j]].thickness) * 1e3 - 1e-9) / 1e3)
         if x >= L - 1e-3:
             break
         ends[left[j]] = x
@@ -582,6 +592,13 @@ def plan(design: Design, target_blocks: float, vary: str = "thickness", rate: fl
         shaped = taper_width(first.design)
         again = size(shaped.design, target_blocks, "thickness")
         count += len(again.history)
+        if _shear_margin(again.result) < 0:  # the re-sized thickness moved the tip criterion: one more pass
+            shaped = taper_width(scaled_design(first.design, "thickness", again.scale))
+            again = size(shaped.design, target_blocks, "thickness")
+            count += len(again.history)
+            if _shear_margin(again.result) < 0:
+                warnings.append("the tapered tip is weaker in interlaminar shear than the root in bending after "
+                                "re-sizing the thickness: widen the tip")
         sized, ratio = finish(again.design, base_steps + [
             Step("width taper", None, shaped.note), Step("thickness re-sized for the life", again.scale, again.note)],
             "sized.toml")
