@@ -574,7 +574,6 @@ def plan(design: Design, target_blocks: float, vary: str = "thickness", rate: fl
     warnings: list[str] = []
 
     def finish(d: Design, steps: list[Step], name: str) -> tuple[Proposal, float]:
-        nonlocal count
         ratio = d.beam.width_root / sum(p.thickness for p in d.beam.plies)
         if rate is not None:
             r = size_rate(d, rate)
@@ -592,15 +591,19 @@ def plan(design: Design, target_blocks: float, vary: str = "thickness", rate: fl
         shaped = taper_width(first.design)
         again = size(shaped.design, target_blocks, "thickness")
         count += len(again.history)
+        resized, resized_note = again.scale, again.note
         if _shear_margin(again.result) < 0:  # the re-sized thickness moved the tip criterion: one more pass
             shaped = taper_width(scaled_design(first.design, "thickness", again.scale))
             again = size(shaped.design, target_blocks, "thickness")
             count += len(again.history)
+            resized *= again.scale
+            resized_note = (f"{again.note} (after a second pass, the tip width set again at the re-sized thickness; "
+                            f"× {resized:.4g} in all)")
             if _shear_margin(again.result) < 0:
                 warnings.append("the tapered tip is weaker in interlaminar shear than the root in bending after "
                                 "re-sizing the thickness: widen the tip")
         sized, ratio = finish(again.design, base_steps + [
-            Step("width taper", None, shaped.note), Step("thickness re-sized for the life", again.scale, again.note)],
+            Step("width taper", None, shaped.note), Step("thickness re-sized for the life", resized, resized_note)],
             "sized.toml")
         dropped = drop_plies(first.design)
         again = size(dropped.design, target_blocks, "thickness")
