@@ -21,7 +21,7 @@ from life.design import load_design
 from life.errors import InputError as LifeInputError
 from life.estimate import CAUTION, estimate
 from life.outputs import render, sizing_json, write_files
-from life.sizing import size as size_design
+from life.sizing import parse_rate, plan, sizing_rows
 from mechanics.errors import InputError as MechanicsInputError
 from mechanics.materials import describe, library
 from mechanics.units import unit_factor
@@ -82,13 +82,21 @@ def size(
     design: Path = typer.Argument(..., help="design file (TOML)"),
     life: float = typer.Option(..., "--life", help="target life in blocks of the duty"),
     vary: str = typer.Option("thickness", "--vary", help="thickness (every ply) or width"),
-    out: Path = typer.Option(Path("bendlife-size"), "--out", "-o", help="folder for sized.toml and sizing.json"),
+    rate: Optional[str] = typer.Option(None, "--rate", help='spring rate with its unit, e.g. "30 N/mm" (deflection drive): the width for it, after the thickness for the life'),
+    taper: bool = typer.Option(False, "--taper", help="propose a width taper (sized.toml) and ply drops (sized-drops.toml) that even the strain"),
+    out: Path = typer.Option(Path("bendlife-size"), "--out", "-o", help="folder for sized.toml, sizing.json, report.html"),
 ) -> None:
-    """Find the thinnest (or narrowest) version of a design whose life reaches a target."""
-    answer = size_design(load_design(design), life, vary)
-    write_files({"sized.toml": answer.text, "sizing.json": sizing_json(answer)}, out)
+    """Size a design for a target life: the thickness (or width), the width for a spring rate, a taper."""
+    k = None if rate is None else parse_rate(rate)
+    answer = plan(load_design(design), life, vary, k, taper)
+    files = {"sized.toml": answer.sized.text}
+    if answer.drops is not None:
+        files["sized-drops.toml"] = answer.drops.text
+    files["sizing.json"] = sizing_json(answer)
+    files["report.html"] = render(answer.sized.result, sizing=sizing_rows(answer))["report.html"]
+    written = write_files(files, out)
     typer.echo(terminal.sizing_text(answer))
-    typer.echo(f"\nwrote sized.toml, sizing.json to {out}\ncaution: {CAUTION}")
+    typer.echo(f"\nwrote {', '.join(p.name for p in written)} to {out}\ncaution: {CAUTION}")
 
 
 @app.command()

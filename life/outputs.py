@@ -20,7 +20,7 @@ from life.damage import FACES
 from life.errors import InputError
 from life.estimate import LifeResult
 from life.report import report_html
-from life.sizing import SizingResult
+from life.sizing import SizingAnswer, sizing_rows
 from mechanics.energy import cycle_energy
 from spectra.counting import Cycles, merge_identical
 
@@ -122,16 +122,22 @@ def render(result: LifeResult, sizing: Sequence[tuple[str, str, str]] | None = N
     return files
 
 
-def sizing_json(answer: SizingResult) -> str:
-    """sizing.json: the scale found, the target, the sized design's summary and every evaluation."""
+def sizing_json(answer: SizingAnswer) -> str:
+    """sizing.json: the target, every step with its factor, the before/after table and both summaries."""
+    def proposal(p) -> dict:
+        return {"file": p.name, "steps": [{"what": st.what, "factor": st.factor, "note": st.note} for st in p.steps],
+                "summary": p.result.summary()}
+
     doc = {
-        "vary": answer.vary,
         "target_life_blocks": answer.target_blocks,
-        "scale": answer.scale,
-        "life_grows_with_scale": answer.grows,
-        "note": answer.note,
-        "evaluations": [{"scale": s, "life_blocks": None if not np.isfinite(v) else v} for s, v in answer.history],
-        "sized": answer.result.summary(),
+        "rate_n_per_m": answer.rate,
+        "width_to_thickness": answer.width_to_thickness,
+        "evaluations": answer.evaluations,
+        "warnings": list(answer.warnings),
+        "table": [{"quantity": q, "before": b, "after": a} for q, b, a in sizing_rows(answer)],
+        "before": answer.before.summary(),
+        "sized": proposal(answer.sized),
+        "drops": None if answer.drops is None else proposal(answer.drops),
     }
     return json.dumps(doc, indent=2, allow_nan=False) + "\n"
 

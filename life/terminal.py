@@ -13,7 +13,7 @@ import pandas as pd
 
 from life.design import Design
 from life.estimate import CAUTION, LifeResult
-from life.sizing import SizingResult
+from life.sizing import SizingAnswer, sizing_rows
 from mechanics.materials import Material
 from spectra.counting import Cycles
 
@@ -139,15 +139,22 @@ def comparison_text(table: pd.DataFrame, duty: str = "each design with its own d
     return f"duty: {duty}\n" + _render(t)
 
 
-def sizing_text(answer: SizingResult) -> str:
-    """The sizing answer in a few lines."""
-    s = answer.result.summary()
-    life = "unbounded" if s["life_blocks"] is None else f"{s['life_blocks']:.4g}"
-    return "\n".join([
-        f"sizing {answer.vary} for a life of {answer.target_blocks:g} blocks: scale factor {answer.scale:.4g}",
-        f"  {answer.note}",
-        f"  sized design: life {life} blocks, mass {s['mass_kg'] * 1e3:.4g} g, "
-        f"stiffness {s['stiffness_n_per_m'] / 1e3:.4g} N/mm, peak strain {s['peak_strain'] * 100:.3g} %, "
-        f"critical {s['critical']['mode']}",
-        f"  {len(answer.history)} estimates evaluated",
-    ])
+def sizing_text(answer: SizingAnswer) -> str:
+    """The sizing answer: the steps, then a before/after table, then the sizing warnings."""
+    lines = [f"sizing for a life of {answer.target_blocks:g} blocks of the duty"]
+    lines += [f"  {st.what}: {st.note}" for st in answer.sized.steps]
+    if answer.drops is not None:
+        lines.append("  alternative (sized-drops.toml):")
+        lines += [f"    {st.what}: {st.note}" for st in answer.drops.steps[1:]]
+    rows = sizing_rows(answer)
+    w = max(len(q) for q, _, _ in rows)
+    wb = max(len("before"), *(len(b) for _, b, _ in rows))
+    lines.append("")
+    lines.append(f"  {'quantity':{w}s}  {'before':>{wb}s}  after")
+    lines.extend(f"  {q:{w}s}  {b:>{wb}s}  {a}" for q, b, a in rows)
+    if answer.warnings:
+        lines.append("")
+        lines.append("warnings:")
+        lines.extend(f"  - {x}" for x in answer.warnings)
+    lines.append(f"\n  {answer.evaluations} estimates in the thickness/width searches")
+    return "\n".join(lines)

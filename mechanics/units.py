@@ -33,6 +33,7 @@ KINDS = {
     "stress": ("[pressure]", "Pa"),
     "density": ("[mass] / [length] ** 3", "kg/m**3"),
     "energy": ("[energy]", "J"),
+    "stiffness": ("[force] / [length]", "N/m"),
     "strain": ("", ""),
 }
 EXAMPLES = {
@@ -41,6 +42,7 @@ EXAMPLES = {
     "stress": '"38.6 GPa" or "1062 MPa"',
     "density": '"1800 kg/m^3"',
     "energy": '"1.5 J"',
+    "stiffness": '"25 N/mm" or "140 lbf/in"',
     "strain": '0.021 or "2.1 %"',
 }
 
@@ -80,12 +82,12 @@ def parse_quantity(value: object, kind: str, where: str) -> float:
     ----------
     value : str or number — ``"0.8 mm"``; a bare number only where ``kind`` is ``"strain"``
     kind : str — one of ``KINDS`` (``"length"``, ``"force"``, ``"stress"``, ``"density"``,
-        ``"energy"``, ``"strain"``)
+        ``"energy"``, ``"stiffness"``, ``"strain"``)
     where : str — file and key for the error message, e.g. ``"design.toml [beam] span"``
 
     Returns
     -------
-    float — the value in SI units (m, N, Pa, kg/m³, J, or a bare strain ratio)
+    float — the value in SI units (m, N, Pa, kg/m³, J, N/m, or a bare strain ratio)
     """
     dims, si_unit = KINDS[kind]
     q = _quantity(value, where)

@@ -178,7 +178,7 @@ def test_example_terminal_summary(example_run):
         return float(found.group(1))
 
     # rel 5e-3: the terminal prints lives to 3 significant digits
-    assert re.search(r"^\s*life\s", text, re.MULTILINE)
+    assert re.search(r"^\s*life, cycles\s", text, re.MULTILINE)
     assert number(r"cycles\s*$") == pytest.approx(s["life_cycles"], rel=5e-3)
     assert number(r"blocks of the duty") == pytest.approx(s["life_blocks"], rel=5e-3)
     assert number(r"days") == pytest.approx(s["life_days"], rel=5e-3)
@@ -630,3 +630,53 @@ def test_same_input_same_summary_bytes_and_no_time_in_it(tmp_path, monkeypatch, 
     text = first.decode("utf-8")
     assert not re.search(r"\d{4}-\d{2}-\d{2}|\d{1,2}:\d{2}:\d{2}", text), "a date or time in summary.json"
     assert not {"date", "time", "timestamp", "created"} & set(strict_json(text))
+
+
+# bendlife size
+
+
+SIZE_DUTY = 'drive = "{drive}"\ncycles = [ {{ min = "{lo}", max = "{hi}", count = 1000 }} ]'
+
+
+def size_design(tmp_path: Path, drive: str = "deflection", lo: str = "0 mm", hi: str = "10 mm") -> Path:
+    """A 200 mm cantilever of 10 × 0.5 mm e-glass/epoxy (h = 5 mm): at 10 mm deflection ε ≈ 3δh/(2L²) = 0.19 %."""
+    path = tmp_path / "size.toml"
+    path.write_text(cantilever(SIZE_DUTY.format(drive=drive, lo=lo, hi=hi), count=10), encoding="utf-8")
+    return path
+
+
+def test_size_writes_the_sized_files_and_a_table(tmp_path, monkeypatch, capsys):
+    """--rate and --taper: sized.toml and sized-drops.toml are valid design files (bendlife check reads them),
+    sizing.json is strict JSON with the before/after table, report.html has the Sizing table."""
+    out = tmp_path / "out"
+    ran = bendlife(["size", size_design(tmp_path), "--life", "1e7", "--rate", "5 N/mm", "--taper", "--out", out],
+                   monkeypatch, capsys)
+    assert ran.code == 0, ran.err
+    assert {"sized.toml", "sized-drops.toml", "sizing.json", "report.html"} <= {p.name for p in out.iterdir()}
+    doc = strict_json((out / "sizing.json").read_text(encoding="utf-8"))
+    assert doc["sized"]["summary"]["life_blocks"] >= 1e7
+    assert doc["sized"]["summary"]["stiffness_n_per_m"] == pytest.approx(5e3, rel=1e-3)  # the issue's 0.1 %
+    assert doc["table"][0]["quantity"] == "life [blocks]"
+    assert "<h3>Sizing</h3>" in (out / "report.html").read_text(encoding="utf-8")
+    assert "quantity" in ran.out and "storage efficiency" in ran.out
+    for name in ("sized.toml", "sized-drops.toml"):
+        assert bendlife(["check", out / name], monkeypatch, capsys).code == 0
+
+
+@pytest.mark.parametrize("drive, lo, hi, args, says", [
+    ("force", "0 N", "20 N", ["--rate", "5 N/mm"], "only for a deflection-driven part"),
+    ("deflection", "0 mm", "10 mm", ["--rate", "5"], "has no unit"),
+    ("deflection", "0 mm", "10 mm", ["--rate", "5 mm"], "not a stiffness"),
+    ("force", "-2600 N", "2600 N", ["--vary", "width"], "static first-ply failure even at width × 10"),
+    ("deflection", "0 mm", "10 mm", ["--vary", "width"], "do not depend on the width"),
+    ("deflection", "0 mm", "10 mm", ["--vary", "length"], "--vary"),
+])
+def test_size_wrong_input_exits_2_with_the_reason(tmp_path, drive, lo, hi, args, says, monkeypatch, capsys):
+    """±2600 N on h = 5 mm, b = 20 mm: σ = 6FL/(bh²) = 6240 MPa; at width × 10, 624 MPa, still past the
+    e-glass/epoxy Xc = 610 MPa (Tsai & Hahn): no factor in 0.1–10 reaches any life."""
+    out = tmp_path / "out"
+    ran = bendlife(["size", size_design(tmp_path, drive, lo, hi), "--life", "1e3", *args, "--out", out],
+                   monkeypatch, capsys)
+    assert ran.code == 2, ran
+    assert says in ran.err and "Traceback" not in ran.err
+    assert not out.exists()

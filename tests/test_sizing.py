@@ -1,99 +1,268 @@
-"""Sizing against the closed-form beam and S-N formulas."""
+"""Sizing against closed-form beam and S-N formulas worked by hand.
+
+The part: a uniform unidirectional cantilever (10 plies × 0.5 mm of DESIGN.md's example glass, E1 40 GPa,
+Xt 1000 / Xc 600 MPa, an R = −1 power curve σa = 800 MPa·N^(−1/10)), L = 200 mm, b = 20 mm, h = 5 mm.
+End load: σ = 6FL/(bh²) (Roark, 7th ed., Table 8.1 case 1a) = 2.4 MPa per N at the root; a narrow UD beam
+has σ2 = τ12 = 0, so σ1 = σx there.
+"""
 from __future__ import annotations
 
+import math
 import tomllib
 from pathlib import Path
 
 import pytest
 
+from designs import user_glass
 from life.design import load_design
 from life.errors import InputError
-from designs import user_glass
-from life.sizing import TOLERANCE, size
+from life.estimate import estimate
+from life.sizing import (SAFE_STEP, TIP_FLOOR, drop_plies, plan, read_back, scaled_design, size, size_rate,
+                         sizing_rows, taper_width)
+from mechanics.beam import respond
 
 DESIGN = """title = "sizing check"
 [beam]
 support = "cantilever"
 span = "200 mm"
 width = "{width}"
-""" + user_glass("size-glass", nu12=0.3) + """[[ply]]
+""" + user_glass("size-glass", nu12=0.3, extra="{extra}") + """{fatigue}[[ply]]
 material = "size-glass"
 angle = 0
 thickness = "0.5 mm"   # a comment the sized file keeps
 count = 10
 [duty]
 drive = "{drive}"
-cycles = [ {{ min = "-{amp}", max = "{amp}", count = 1000 }} ]
+cycles = [ {{ min = "{lo}", max = "{hi}", count = 1000 }} ]
 [fatigue]
-mean_stress = "none"
+mean_stress = "{rule}"
 """
 
+# The solver lands on the safe side of the root by SAFE_STEP (2e-5) in log s, beyond Brent's 1e-7 bracket;
+# the issue asks for 1 %, the check holds to 1e-4, which leaves room for that step and nothing else.
+SOLVER = 1e-4
 
-def _write(tmp_path: Path, drive="force", amp="50 N", width="20 mm") -> Path:
+
+def _write(tmp_path: Path, drive="force", lo="-50 N", hi="50 N", width="20 mm", rule="goodman", extra="",
+           fatigue="") -> Path:
     path = tmp_path / "design.toml"
-    path.write_text(DESIGN.format(drive=drive, amp=amp, width=width))
+    text = DESIGN.format(drive=drive, lo=lo, hi=hi, width=width, rule=rule, extra="{extra}", fatigue=fatigue)
+    text = text.replace("{extra}\n", f"{extra}\n" if extra else "")
+    path.write_text(text)
     return path
 
 
-def test_thickness_for_a_target_life_force_drive(tmp_path):
-    """Fully reversed ±50 N, L = 200 mm, b = 20 mm, h = 5 mm (Roark, 7th ed., Table 8.1 case 1a; σ = 6PL/(bh²)):
-    σa = 120 MPa at scale 1 and σa ∝ 1/s² with every ply thickness × s. With no mean stress and
-    σa = 800 MPa·N^(−1/10), the life per block is N/1000, so a target of T blocks needs
-    σa(s) = 800 MPa·(1000·T)^(−1/10), i.e. s = sqrt(120 / (800·(1000 T)^(−0.1)))."""
+def _goodman_target(target_blocks: float) -> float:
+    """σar that gives ``target_blocks`` blocks of 1000 cycles: N = (σar/S1)^(−m), S1 = 800 MPa, m = 10 [MPa]."""
+    return 800.0 * (1000.0 * target_blocks) ** -0.1
+
+
+def test_thickness_for_a_target_life_force_drive_goodman(tmp_path):
+    """10 → 50 N (R = 0.2) at scale 1: σmax = 120, σmin = 24 MPa, so σa = 48, |σm| = 72 MPa on both faces.
+    Goodman (σa0 = σa/(1 − |σm|/X)) is worse on the compression face (Xc = 600 < Xt = 1000): with every ply
+    × s, σa = 48/s², σm = 72/s², σar = (48/s²)/(1 − 72/(600 s²)) = 48/(s² − 0.12) MPa.
+    Target 1e6 blocks: σar = 800·(1e9)^(−0.1) = 100.48 MPa, so s² = 48/100.48 + 0.12, s = 0.7747."""
     target = 1e6
-    s_expected = (120.0 / (800.0 * (1000 * target) ** -0.1)) ** 0.5
-    r = size(load_design(_write(tmp_path)), target, "thickness")
+    s_hand = math.sqrt(48.0 / _goodman_target(target) + 0.12)
+    r = size(load_design(_write(tmp_path, lo="10 N", hi="50 N")), target, "thickness")
     assert r.grows
-    assert r.scale == pytest.approx(s_expected, rel=2 * TOLERANCE)  # the bisection stops at that bracket width
+    assert r.scale == pytest.approx(s_hand, rel=SOLVER)
+    assert r.scale >= s_hand * (1 - 1e-7)  # on the safe (thicker) side
     assert r.result.life_blocks >= target
-    assert r.result.life_blocks == pytest.approx(target, rel=20 * 2 * TOLERANCE)  # life ∝ s^20 here
-    doc = tomllib.loads(r.text)
-    assert doc["ply"][0]["thickness"].endswith("mm")
-    assert float(doc["ply"][0]["thickness"].split()[0]) == pytest.approx(0.5 * s_expected, rel=2 * TOLERANCE)
-    assert "a comment the sized file keeps" in r.text
 
 
-def test_width_for_a_target_life_force_drive(tmp_path):
-    """σ ∝ 1/b (same formula): s = 120 / (800·(1000 T)^(−0.1)) on the width."""
+def test_width_for_a_target_life_force_drive_goodman(tmp_path):
+    """Same duty, width × w: σ ∝ 1/w, σar = (48/w)/(1 − 72/(600 w)) = 48/(w − 0.12), w = 48/σar + 0.12 = 0.5977."""
     target = 1e6
-    r = size(load_design(_write(tmp_path)), target, "width")
-    assert r.scale == pytest.approx(120.0 / (800.0 * (1000 * target) ** -0.1), rel=2 * TOLERANCE)
-    assert tomllib.loads(r.text)["beam"]["width"].endswith("mm")
+    r = size(load_design(_write(tmp_path, lo="10 N", hi="50 N")), target, "width")
+    assert r.scale == pytest.approx(48.0 / _goodman_target(target) + 0.12, rel=SOLVER)
+    assert r.result.life_blocks >= target
+
+
+def test_written_file_keeps_comments_and_reaches_the_target(tmp_path):
+    """sized.toml is a valid design file with a header, the ply row's comment kept, and values rounded to 6 digits
+    that still reach the target (read back). Fully reversed ±50 N, no mean stress: σa = 120/s² MPa."""
+    target = 1e6
+    answer = plan(load_design(_write(tmp_path, rule="none")), target)
+    text = answer.sized.text
+    assert text.startswith("# Sized by bendlife")
+    assert "a comment the sized file keeps" in text
+    doc = tomllib.loads(text)
+    s_hand = math.sqrt(120.0 / _goodman_target(target))
+    assert float(doc["ply"][0]["thickness"].split()[0]) == pytest.approx(0.5 * s_hand, rel=SOLVER)
+    assert answer.sized.result.life_blocks >= target
+    assert read_back(text, answer.before.design, "sized.toml").beam.plies[0].thickness == pytest.approx(
+        0.5e-3 * s_hand, rel=SOLVER)
+
+
+def test_deflection_drive_life_independent_of_width_and_rate_proportional(tmp_path):
+    """Deflection drive: F = δ·k with k ∝ b (bending and shear compliance both ∝ 1/b), and the moment per width
+    F·m/b does not change, so the life is the same at any width; the rate is linear in it. Tolerance 1e-9: the
+    compliance integrals are converged to 1e-11 (QUADPACK epsrel)."""
+    design = load_design(_write(tmp_path, drive="deflection", lo="0 mm", hi="20 mm"))
+    lives = [estimate(scaled_design(design, "width", w)).life_blocks for w in (0.5, 1.0, 3.0)]
+    assert lives[0] == pytest.approx(lives[1], rel=1e-9)
+    assert lives[2] == pytest.approx(lives[1], rel=1e-9)
+    k = [respond(scaled_design(design, "width", w).beam).stiffness for w in (1.0, 3.0)]
+    assert k[1] == pytest.approx(3.0 * k[0], rel=1e-9)
+
+
+def test_rate_gives_the_stiffness_asked(tmp_path):
+    """--rate 25 N/mm after the thickness for the life: the written file's stiffness is 25 N/mm within 0.1 % (the
+    issue's figure; the widths are written to 6 digits), and its life still reaches the target."""
+    design = load_design(_write(tmp_path, drive="deflection", lo="0 mm", hi="20 mm"))
+    answer = plan(design, 1e6, rate=25e3)
+    assert answer.sized.result.response.stiffness == pytest.approx(25e3, rel=1e-3)
+    assert answer.sized.result.life_blocks >= 1e6
+    assert [s.what for s in answer.sized.steps] == ["thickness for the life", "width for the spring rate"]
+    ratio = answer.sized.result.design.beam.width_root / answer.sized.result.response.thickness[0]
+    assert answer.width_to_thickness == pytest.approx(ratio, rel=1e-5)  # 6-digit values written
+
+
+def test_rate_warns_when_too_wide_for_a_beam(tmp_path):
+    """A rate that needs b/h > 10 on a "beam" section gets the plate warning (common practice criterion)."""
+    design = load_design(_write(tmp_path, drive="deflection", lo="0 mm", hi="20 mm"))
+    r = size_rate(design, respond(design.beam).stiffness * 4.0)  # 80 mm on 5 mm: b/h = 16
+    assert r.factor == pytest.approx(4.0, rel=1e-6)
+    assert r.width_to_thickness == pytest.approx(16.0, rel=1e-9)
+    assert any("plate" in w for w in r.warnings)
+
+
+def test_rate_refused_under_a_force_drive(tmp_path):
+    with pytest.raises(InputError, match="deflection-driven"):
+        plan(load_design(_write(tmp_path)), 1e6, rate=25e3)
 
 
 def test_deflection_drive_gives_the_thickest_that_reaches_the_target(tmp_path):
-    """Under a fixed deflection ε = 3δh/(2L²) grows with h (Roark case 1a, bending part; shear adds about
-    (E/κG)(h/L)²·¾ ≈ 0.0045 to the compliance here): life falls with thickness, and the answer is the
-    thickest part that reaches the target."""
-    r = size(load_design(_write(tmp_path, drive="deflection", amp="20 mm")), 1e6, "thickness")
-    assert not r.grows
-    assert "thickest" in r.note
+    """Under a fixed deflection ε = 3δh/(2L²) grows with h (Roark case 1a): the life falls with thickness and the
+    answer is the thickest part that reaches the target; a thinner one lives longer."""
+    design = load_design(_write(tmp_path, drive="deflection", lo="-20 mm", hi="20 mm"))
+    r = size(design, 1e6, "thickness")
+    assert not r.grows and "thickest" in r.note
     assert r.result.life_blocks >= 1e6
+    assert estimate(scaled_design(design, "thickness", r.scale * 1.01)).life_blocks < 1e6
 
 
 def test_width_under_a_deflection_drive_has_no_answer(tmp_path):
-    """ε = 3δh/(2L²) does not depend on the width: sizing the width is refused with a reason."""
-    with pytest.raises(InputError, match="hardly"):
-        size(load_design(_write(tmp_path, drive="deflection", amp="20 mm")), 1e6, "width")
+    with pytest.raises(InputError, match="do not depend on the width"):
+        size(load_design(_write(tmp_path, drive="deflection", lo="-20 mm", hi="20 mm")), 1e6, "width")
+
+
+def test_unreachable_static_failure_named(tmp_path):
+    """±2600 N: σ = 6240 MPa at scale 1, 624 MPa > Xc = 600 MPa even at width × 10: static first-ply failure."""
+    with pytest.raises(InputError, match=r"static first-ply failure even at width × 10.*ply \d+"):
+        size(load_design(_write(tmp_path, lo="-2600 N", hi="2600 N")), 1e3, "width")
+
+
+def test_unbounded_everywhere_said_so(tmp_path):
+    """±0.5 mm deflection: ε ≈ 3δh/(2L²) = 9.4e-5, σ ≈ 3.75 MPa, 37.5 MPa at × 10, below a 100 MPa fatigue limit:
+    every factor in the range reaches any target."""
+    path = _write(tmp_path, drive="deflection", lo="-0.5 mm", hi="0.5 mm", fatigue='limit = "100 MPa"\n')
+    with pytest.raises(InputError, match="every thickness factor in 0.1–10 reaches it.*unbounded"):
+        size(load_design(path), 1e6, "thickness")
+
+
+def test_static_failure_at_scale_one_sized_past_it(tmp_path):
+    """±700 N: σ = 1680 MPa > Xc at scale 1 (life 0), yet a thicker part passes. No mean stress:
+    s = sqrt(1680 / (800·(1000 T)^(−0.1)))."""
+    target = 1e3
+    r = size(load_design(_write(tmp_path, lo="-700 N", hi="700 N", rule="none")), target, "thickness")
+    assert r.scale == pytest.approx(math.sqrt(1680.0 / _goodman_target(target)), rel=SOLVER)
+
+
+def _taper_efficiency(f: float) -> float:
+    """Storage efficiency of an end-loaded cantilever, width b0·(f + (1 − f)ξ), ξ = 1 − x/L, uniform h:
+    U = (6F²L³/(E b0 h³))·I, I = ∫0¹ ξ²/(f + aξ) dξ = [(1 − f²)/2 − 2f(1 − f) + f² ln(1/f)]/a³ (a = 1 − f);
+    peak strain at the root 6FL/(E b0 h²); ½Eε²V = 9F²L³(1 + f)/(E b0 h³); efficiency = 2I/(3(1 + f)).
+    f = 1 gives 1/9, f → 0 gives 1/3 (REFERENCES.md, stored energy)."""
+    if f == 1.0:
+        return 1.0 / 9.0
+    a = 1.0 - f
+    integral = ((1 - f * f) / 2 - 2 * f * (1 - f) + f * f * math.log(1 / f)) / a**3
+    return 2 * integral / (3 * (1 + f))
+
+
+def test_taper_raises_efficiency_towards_a_third_and_keeps_the_life(tmp_path):
+    """No interlaminar strength: the tip is the 10 % floor, efficiency 2I/(3(1+f)) = 0.2810 at f = 0.1 against
+    1/9 uniform. Tolerance 1e-6: bending energy only (shear excluded), compliance integrated to 1e-11, and the
+    peak strain sits at the root station. The re-sized proposal's life reaches the target."""
+    design = load_design(_write(tmp_path))
+    target = 1e6
+    answer = plan(design, target, taper=True)
+    assert answer.before.storage.efficiency == pytest.approx(1 / 9, rel=1e-6)
+    beam = answer.sized.result.design.beam
+    f = beam.width_tip / beam.width_root
+    assert f == pytest.approx(TIP_FLOOR, abs=1e-4)  # rounded up to the 0.1 mm
+    assert answer.sized.result.storage.efficiency == pytest.approx(_taper_efficiency(f), rel=1e-6)
+    assert 1 / 9 < answer.sized.result.storage.efficiency < 1 / 3
+    assert answer.sized.result.life_blocks >= target
+    assert answer.drops.result.life_blocks >= target
+    assert answer.drops.result.storage.efficiency > 1 / 9
+    assert answer.sized.result.response.mass < answer.before.response.mass * 0.9  # narrower tip, lighter
+
+
+def test_taper_tip_carries_the_shear(tmp_path):
+    """With S13 the tip is as narrow as the interlaminar reserve allows: UD narrow beam, every bending criterion
+    gives Xc/σ at the root's compression face (σ2 = τ12 = 0), τ = 3V/(2 b_t h) at the tip's mid-plane
+    (homogeneous section). Equal reserves: S13/τ = Xc/σ → b_t/b0 = h·Xc/(4·L·S13) = 5·600/(4·200·12.5) = 0.3,
+    so b_t = 6.0 mm (rounded up to 0.1 mm; Brent to 1e-4 in log f)."""
+    design = load_design(_write(tmp_path, extra='S13 = "12.5 MPa"'))
+    t = taper_width(design)
+    assert t.design.beam.width_tip == pytest.approx(6.0e-3, abs=0.1e-3 + 1e-6)
+    assert "interlaminar" in t.note
+
+
+def test_ply_drops_at_the_closed_form_stations(tmp_path):
+    """Uniform width, homogeneous UD: the surface strain per unit moment ∝ 1/h², so with k of 10 plies dropped
+    the laminate left may start where (L − x)/L = ((10 − k)/10)²: x_k = 200·(1 − ((10 − k)/10)²) mm = 38, 72,
+    102, 128, 150, 168, 182, 192 mm; the skins (plies 1, 10) run the full length. The station is read off a
+    0.1 mm grid and rounded up to the mm: within +1.1 mm."""
+    t = drop_plies(load_design(_write(tmp_path)))
+    plies = t.design.beam.plies
+    assert plies[0].ends_at is None and plies[-1].ends_at is None
+    stations = sorted(p.ends_at * 1e3 for p in plies if p.ends_at is not None)
+    expected = [200 * (1 - ((10 - k) / 10) ** 2) for k in range(1, 9)]
+    assert len(stations) == 8
+    for got, want in zip(stations, expected):
+        assert want - 1e-9 <= got <= want + 1.1
+
+
+def test_ply_drop_file_splits_count_rows(tmp_path):
+    """The count = 10 row becomes one row per ply end; the file reads back with the same drops."""
+    answer = plan(load_design(_write(tmp_path)), 1e6, taper=True)
+    doc = tomllib.loads(answer.drops.text)
+    assert sum(row.get("count", 1) for row in doc["ply"]) == 10
+    assert sum("ends_at" in row for row in doc["ply"]) == 8
+    back = read_back(answer.drops.text, answer.before.design, "sized-drops.toml")
+    assert sum(p.ends_at is not None for p in back.beam.plies) == 8
+
+
+def test_taper_refused_for_a_guided_beam(tmp_path):
+    """A guided beam's moment reverses (±M0 at the ends): no root-to-tip taper evens it."""
+    path = _write(tmp_path)
+    path.write_text(path.read_text().replace('"cantilever"', '"guided"'))
+    with pytest.raises(InputError, match="reverses"):
+        plan(load_design(path), 1e6, taper=True)
+
+
+def test_sizing_rows_are_before_after_strings(tmp_path):
+    answer = plan(load_design(_write(tmp_path)), 1e6)
+    rows = sizing_rows(answer)
+    assert all(len(r) == 3 and all(isinstance(c, str) for c in r) for r in rows)
+    assert rows[0][0] == "life [blocks]"
+    assert any(q.startswith("factor: thickness") for q, _, _ in rows)
 
 
 def test_relative_profile_path_is_made_absolute(tmp_path):
     """sized.toml is written elsewhere: a relative profile path would no longer resolve."""
     (tmp_path / "hist.csv").write_text("f_n\n0\n50\n-50\n50\n-50\n0\n")
-    text = DESIGN.format(drive="force", amp="50 N", width="20 mm").replace(
-        'cycles = [ { min = "-50 N", max = "50 N", count = 1000 } ]',
-        'profile = "hist.csv"\ncolumn = "f_n"\nunit = "N"')
-    path = tmp_path / "design.toml"
-    path.write_text(text)
-    r = size(load_design(path), 1e3, "thickness")
-    assert tomllib.loads(r.text)["duty"]["profile"] == str((tmp_path / "hist.csv").resolve())
+    path = _write(tmp_path, rule="none")
+    path.write_text(path.read_text().replace(
+        'cycles = [ { min = "-50 N", max = "50 N", count = 1000 } ]', 'profile = "hist.csv"\ncolumn = "f_n"\nunit = "N"'))
+    answer = plan(load_design(path), 1e3)
+    assert tomllib.loads(answer.sized.text)["duty"]["profile"] == str((tmp_path / "hist.csv").resolve())
 
 
-def test_sizing_from_a_design_that_fails_statically(tmp_path):
-    """±700 N fails the 5 mm stack at once (σ = 6PL/(bh²) = 1680 MPa > Xc = 600 MPa; Roark case 1a): life 0 at
-    scales 1 and 1.1, yet a thicker part passes. Same closed form as above with σa(1) = 1680 MPa:
-    s = sqrt(1680 / (800·(1000 T)^(−0.1)))."""
-    target = 1e3
-    r = size(load_design(_write(tmp_path, amp="700 N")), target, "thickness")
-    assert r.grows
-    assert r.scale == pytest.approx((1680.0 / (800.0 * (1000 * target) ** -0.1)) ** 0.5, rel=2 * TOLERANCE)
+def test_safe_step_covers_six_digits():
+    """6 significant digits round a value by at most 5e-6 of itself: the safe-side step must be larger."""
+    assert SAFE_STEP > 5e-6

@@ -249,3 +249,18 @@ def test_cli_count_prints_the_astm_table(tmp_path, monkeypatch, capsys):
         np.seterr(**saved)
     assert info.value.code in (0, None)
     check_astm_table(capsys.readouterr().out)
+
+
+def test_sizing_text_is_a_before_after_table(tmp_path):
+    """The sizing view lists the steps, then one line per row of sizing_rows with its before and after."""
+    from life.sizing import plan, sizing_rows
+    from life.terminal import sizing_text
+    doc = {"title": "t", "beam": {"support": "cantilever", "span": "200 mm", "width": "20 mm", "stations": 4},
+           "material": {"g": GLASS}, "ply": [{"material": "g", "angle": 0, "thickness": "0.5 mm", "count": 10}],
+           "duty": {"drive": "force", "cycles": [{"min": "-50 N", "max": "50 N", "count": 1000}]},
+           "fatigue": {"mean_stress": "none"}}
+    answer = plan(parse_design(doc, "t.toml", tmp_path), 1e6)
+    text = sizing_text(answer)
+    assert "thickness for the life: the thinnest design" in text
+    for quantity, before, after in sizing_rows(answer):
+        assert re.search(rf"{re.escape(quantity)}\s+{re.escape(before)}\s+{re.escape(after)}", text), quantity
