@@ -119,15 +119,31 @@ def _thickness_figure(result: LifeResult) -> str:
     return _svg(fig)
 
 
+PLOT_POINTS = 20_000  # a time history longer than this is drawn as its min/max envelope (light SVG)
+
+
 def _duty_figure(result: LifeResult, cycles: pd.DataFrame) -> str:
     duty = result.design.duty
     unit, scale = ("mm", 1e3) if duty.drive == "deflection" else ("N", 1.0)
     fig, ax = plt.subplots(figsize=(7.5, 2.8))
-    if duty.signal is not None:
+    trace = getattr(duty, "trace", None)
+    if duty.signal is not None and duty.signal.size <= PLOT_POINTS:
         ax.plot(np.arange(duty.signal.size), duty.signal * scale, lw=0.5, color="#444")
         ax.set_xlabel("sample")
         ax.set_ylabel(f"drive [{unit}]")
         ax.set_title("time history of one block")
+    elif trace is not None or duty.signal is not None:
+        if trace is not None:
+            start, lo, hi, samples = trace.start, trace.lo, trace.hi, trace.samples
+        else:  # a long signal without its envelope: min and max per bin here
+            samples = duty.signal.size
+            start = np.arange(0, samples, -(-samples // (PLOT_POINTS // 10)))
+            lo, hi = np.minimum.reduceat(duty.signal, start), np.maximum.reduceat(duty.signal, start)
+        ax.fill_between(start, lo * scale, hi * scale, step="post", lw=0.5, color="#444")
+        ax.set_xlabel("sample")
+        ax.set_ylabel(f"drive [{unit}]")
+        per = int(start[1] - start[0]) if start.size > 1 else samples
+        ax.set_title(f"time history of one block, {samples} samples: min and max of every {per}")
     else:
         for lo, hi, n in cycles[["min", "max", "count"]].itertuples(index=False):
             ax.plot([lo * scale, hi * scale], [n, n], lw=3)
