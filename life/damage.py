@@ -37,7 +37,7 @@ FIRST_LOAD_FAILURE = 0.5  # cycles to failure given to a cycle beyond static str
 NEGLIGIBLE = 1e-9
 CHUNK = 500_000  # local (location × cycle) pairs evaluated at once: about 40 MB of temporaries
 EXACT_PAIRS = 20_000_000  # location × cycle pairs evaluated one by one; beyond, cycles are aggregated
-BRACKET_LEVELS = 1024  # drive levels across the duty's span for the bracketing grid (aggregation at scale)
+BRACKET_LEVELS = 256  # drive levels across the duty's span for the bracketing grid (aggregation at scale)
 BRACKET_RULES = ("goodman", "gerber", "none")  # rules whose lives fall when a local cycle's interval grows
 
 

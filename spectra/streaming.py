@@ -32,7 +32,7 @@ from spectra.profiles import COMMENT, read_time_history
 CHUNK_SAMPLES = 1 << 20  # samples per chunk read: 8 MB of floats, a few times that in parser buffers
 ENVELOPE_BIN = 1 << 10  # samples per envelope bin while reading; CHUNK_SAMPLES is a multiple of it
 ENVELOPE_BINS = 2000  # bins of the envelope kept for plots (a line plot of this many points is light)
-KEEP_SIGNAL = 10_000_000  # histories up to this many samples are also kept whole (80 MB) and counted at once
+KEEP_SIGNAL = 1_000_000  # histories up to this many samples are also kept whole (8 MB) and counted at once
 
 
 @dataclass(frozen=True, eq=False)  # eq=False: `==` on arrays has no single truth value
