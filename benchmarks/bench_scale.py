@@ -22,7 +22,6 @@ from __future__ import annotations
 import argparse
 import os
 import re
-import resource
 import subprocess
 import sys
 import tempfile

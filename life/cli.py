@@ -139,6 +139,7 @@ def count(
 @app.command()
 def materials(name: Optional[str] = typer.Argument(None, help="a material to show in full")) -> None:
     """List the bundled materials, or show one with the source of every value."""
+    from life import terminal
     from mechanics.materials import describe, library
 
     lib = library()
