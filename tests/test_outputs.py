@@ -266,3 +266,19 @@ def test_stations_csv_follows_the_beam_formulas(result, written):
     assert table["peak_strain"].max() == pytest.approx(result.summary()["peak_strain"], rel=1e-8)
     assert table["damage_per_block"].max() == pytest.approx(result.summary()["damage_per_block"], rel=1e-8)
     assert (table["plies"] == 3).all()
+
+
+def test_cycles_csv_at_scale_holds_at_most_max_rows_and_says_binned(monkeypatch):
+    """Outputs at scale (DESIGN.md: an aggregated form at scale, said in the report): with MAX_CYCLE_ROWS
+    lowered to 100, the bundled example's cycle table has at most 100 rows, keeps the total count (exact:
+    multiples of 0.5 summed), and its note names the binning width."""
+    from life import outputs
+    from life.cli import example_design
+
+    result = estimate(load_design(example_design()))
+    monkeypatch.setattr(outputs, "MAX_CYCLE_ROWS", 100)
+    table, note = outputs.cycle_table(result)
+    assert len(table) <= 100
+    assert float(table["count"].sum()) == result.design.duty.cycles.n_total
+    assert "binned cycles" in note and "rounded to" in note
+    assert (table["max"] >= table["min"]).all()

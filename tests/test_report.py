@@ -159,3 +159,24 @@ def test_example_stack_has_sixteen_plies(example):
     """The bundled example lists 1 + 6 + 2 + 6 + 1 plies (life/examples/cargo-bike-rear-spring.toml)."""
     result, page = example
     assert len(result.design.beam.plies) == 16
+
+
+def test_duty_figure_of_a_long_history_draws_its_envelope():
+    """A duty kept only as its min/max envelope (signal None, as for a long streamed history) is drawn as
+    the envelope, said in the figure title; the report stays small (no point-by-point plot)."""
+    import dataclasses
+
+    import numpy as np
+
+    from spectra.streaming import Envelope
+
+    result = estimate(load_design(example_design()))
+    duty = result.design.duty
+    start = np.arange(0, 4_000_000, 2048)
+    trace = Envelope(start=start, lo=np.full(start.size, 0.01), hi=np.full(start.size, 0.04), samples=4_000_000)
+    design = dataclasses.replace(result.design, duty=dataclasses.replace(duty, signal=None, trace=trace))
+    long = dataclasses.replace(result, design=design)
+    cycles, note = cycle_table(long)
+    text = report_html(long, cycles, note, location_table(long))
+    assert "4000000 samples: min and max of every 2048" in text
+    assert len(text) < 3_000_000
