@@ -258,6 +258,42 @@ def _closing_points(v: np.ndarray, first: np.ndarray, second: np.ndarray, bound:
     return out
 
 
+def _alternates(v: np.ndarray) -> bool:
+    """Whether the reversal values rise and fall in turn (never two steps the same way, never a zero step).
+
+    They always do, except where the reference's test d1 * d2 < 0 underflows to zero (steps below about
+    1e-154): it then misses a turn, and the sequence it gives need not alternate.
+    """
+    if v.size < 3:  # a constant series gives its first and last sample: nothing to count in between
+        return True
+    d = np.diff(v)
+    return bool(np.all(d != 0.0) and np.all(np.signbit(d[1:]) != np.signbit(d[:-1])))
+
+
+def _reference_count(v: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """The §5.4.4 stack count of the reversal values ``v`` step by step, as `rainflow.extract_cycles` does it.
+
+    Only for sequences that do not alternate (see `_alternates`); a plain loop, as they are rare and short.
+    """
+    points: list[float] = []
+    first, second, count = [], [], []
+    for value in v.tolist():
+        points.append(value)
+        while len(points) >= 3:
+            X, Y = abs(points[-1] - points[-2]), abs(points[-2] - points[-3])
+            if X < Y:
+                break
+            if len(points) == 3:  # Y contains the starting point: half cycle, drop the first point
+                first.append(points[0]), second.append(points[1]), count.append(0.5)
+                points.pop(0)
+            else:  # full cycle: drop the peak and the valley of Y
+                first.append(points[-3]), second.append(points[-2]), count.append(1.0)
+                del points[-3:-1]
+    for a, b in zip(points, points[1:]):
+        first.append(a), second.append(b), count.append(0.5)
+    return np.array(first, dtype=float), np.array(second, dtype=float), np.array(count, dtype=float)
+
+
 def _four_point(v: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Rainflow cycles of the reversal values ``v``, in the reference package's order.
 
@@ -274,6 +310,8 @@ def _four_point(v: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     reversal given by `_closing_points`; cycles counted at the same arrival come off the
     stack from its top, the latest first, and a half cycle, if any, after them.
     """
+    if not _alternates(v):
+        return _reference_count(v)
     removed = _remove_full_cycles(v)
     R = removed.residue
     r = np.abs(np.diff(v[R]))
@@ -534,16 +572,22 @@ def count_chunk(state: OpenCount, chunk: np.ndarray) -> ChunkCount:
     """
     x = _signal(chunk)
     a, b, residue = _step(state.residue, x)
+    if a is None:
+        raise InputError("count_chunk: the signal steps by less than about 1e-154 (SI) between samples, where the "
+                         "reversal test d1·d2 < 0 underflows; scale the signal, or count it whole with rainflow_cycles")
     full = Cycles(lo=np.minimum(a, b), hi=np.maximum(a, b), count=np.ones(a.size))
     return ChunkCount(full, OpenCount(residue, state.samples + x.size))
 
 
-def _step(residue: np.ndarray, x: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    """count_chunk without the checks: the full cycles' two values (first, second) and the new residue."""
+def _step(residue: np.ndarray, x: np.ndarray) -> tuple[np.ndarray | None, np.ndarray | None, np.ndarray]:
+    """count_chunk without the checks: the full cycles' two values (first, second) and the new residue;
+    None, None for reversals that do not alternate (see `_alternates`)."""
     series = np.concatenate((residue, x))
     if series.size < 3:
         return np.empty(0), np.empty(0), series
     v = series[_reversal_positions(series)]
+    if not _alternates(v):
+        return None, None, v
     removed = _remove_full_cycles(v)
     return v[removed.start], v[removed.end], v[removed.residue]
 
@@ -556,6 +600,8 @@ def _chunked(x: np.ndarray, residue: str) -> Cycles:
     left, first, second = np.empty(0), [], []
     for begin in range(0, x.size, SIGNAL_CHUNK):
         a, b, left = _step(left, x[begin : begin + SIGNAL_CHUNK])
+        if a is None:  # reversals that do not alternate (see _alternates): count in the reference's order
+            return _extracted(x) if residue == "half" else _full_cycles(_extracted(_closed_loop(x)))
         first.append(a)
         second.append(b)
     rest = rainflow_cycles(left, residue)
