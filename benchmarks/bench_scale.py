@@ -135,6 +135,7 @@ def counting(csv: Path) -> tuple[float, float, float, int]:
 
 
 def main() -> None:
+    sys.path.insert(0, str(REPO))  # this tree's bendlife, not an installed one
     parser = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
     parser.add_argument("--sizes", nargs="*", type=float, default=[1e5, 1e6, 1e7])
     parser.add_argument("--stream", type=float, default=None, help="also run bendlife on this many samples (e.g. 1e8)")

@@ -19,6 +19,8 @@ from __future__ import annotations
 
 import csv
 import math
+import queue
+import threading
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Callable, Iterator
@@ -172,6 +174,52 @@ def history_chunks(
         _refuse(path, column, scale, where)
 
 
+READ_AHEAD = 2  # chunks the reading thread may hold ready while the last one is counted
+
+
+def _read_ahead(chunks: Iterator[np.ndarray], depth: int = READ_AHEAD) -> Iterator[np.ndarray]:
+    """The chunks of ``chunks``, read by a second thread while the caller counts the previous ones.
+
+    pandas' C parser and numpy release the interpreter lock while they work, so reading and counting
+    overlap on two processors. An error while reading is raised here, in the caller's thread; the reader
+    stops when the caller stops asking.
+    """
+    ready: queue.Queue = queue.Queue(maxsize=depth)
+    stop = threading.Event()
+
+    def hand(item: tuple) -> bool:
+        while not stop.is_set():
+            try:
+                ready.put(item, timeout=0.1)
+                return True
+            except queue.Full:
+                continue
+        return False
+
+    def read() -> None:
+        try:
+            for chunk in chunks:
+                if not hand(("chunk", chunk)):
+                    return
+            hand(("end", None))
+        except BaseException as exc:  # handed to the caller's thread, raised there
+            hand(("error", exc))
+
+    reader = threading.Thread(target=read, name="bendlife-reader", daemon=True)
+    reader.start()
+    try:
+        while True:
+            kind, item = ready.get()
+            if kind == "end":
+                return
+            if kind == "error":
+                raise item
+            yield item
+    finally:
+        stop.set()
+        reader.join()
+
+
 def _envelope(parts: list[tuple[np.ndarray, np.ndarray]], samples: int, bins: int = ENVELOPE_BINS) -> Envelope:
     """The envelope from per-bin (lo, hi) of ENVELOPE_BIN samples each, merged down to at most ``bins`` bins."""
     lo = np.concatenate([p[0] for p in parts]) if parts else np.empty(0)
@@ -210,6 +258,8 @@ def count_history(
         chunk; the library prints nothing
     chunk_samples : int — samples per chunk, a multiple of ENVELOPE_BIN
 
+    The file is read by a second thread while the chunks read are counted (`_read_ahead`).
+
     Returns
     -------
     CountedHistory — cycles, sample count, envelope, and the signal when it was kept.
@@ -226,7 +276,7 @@ def count_history(
     state = OPEN
     parts: list[Cycles] = []
     held = samples = 0
-    for values in history_chunks(path, column, scale, where, chunk_samples, progress):
+    for values in _read_ahead(history_chunks(path, column, scale, where, chunk_samples, progress)):
         samples += values.size
         bins.append(_bins(values))
         if kept is not None:
