@@ -1,6 +1,9 @@
 """The ``bendlife`` command: parse arguments, call the library, print. Nothing else lives here.
 
 Exit codes: 0 done; 2 the input is wrong (one message on stderr, no traceback); 1 an internal fault.
+
+Lean start: the library (numpy, pandas, scipy, matplotlib, pint) is imported inside the commands, so that
+``bendlife --help`` shows at once and ``bendlife check`` never loads scipy or matplotlib.
 """
 from __future__ import annotations
 
@@ -12,25 +15,16 @@ from importlib import resources
 from pathlib import Path
 from typing import Optional
 
-import numpy as np
 import typer
 
-from life import terminal
-from life.compare import comparison_html, comparison_table, duty_note, with_common_duty
-from life.design import load_design
+from life.caution import CAUTION
 from life.errors import InputError as LifeInputError
-from life.estimate import CAUTION, estimate
-from life.outputs import render, sizing_json, write_files
-from life.sizing import parse_rate, plan, sizing_rows
 from mechanics.errors import InputError as MechanicsInputError
-from mechanics.materials import describe, library
-from mechanics.units import unit_factor
-from spectra.counting import RESIDUE_MODES, merge_identical, rainflow_cycles
 from spectra.errors import InputError as SpectraInputError
-from spectra.profiles import read_time_history
 
 INPUT_ERRORS = (LifeInputError, MechanicsInputError, SpectraInputError)
 EXAMPLE = "cargo-bike-rear-spring.toml"
+PROGRESS_BYTES = 20_000_000  # a time history file larger than this (about 10⁶ samples) gets a progress bar
 
 app = typer.Typer(
     add_completion=False,
@@ -50,8 +44,15 @@ def run(
     out: Path = typer.Option(Path("bendlife-out"), "--out", "-o", help="folder for summary.json, cycles.csv, locations.csv, stations.csv, report.html"),
 ) -> None:
     """Estimate the fatigue life, stiffness, mass and stored energy of a design."""
+    from life import terminal
+    from life.design import load_design
+    from life.estimate import estimate
+    from life.outputs import render, write_files
+
     path = design if design is not None else example_design()
-    result = estimate(load_design(path))
+    with _progress() as progress:
+        loaded = load_design(path, progress=progress)
+    result = estimate(loaded)
     files = render(result)
     written = write_files(files, out)
     typer.echo(terminal.summary_text(result, example=design is None))
@@ -65,6 +66,12 @@ def compare(
     duty: Optional[Path] = typer.Option(None, "--duty", help="TOML file with one [duty] table: run every design with it"),
 ) -> None:
     """Run several candidate designs and set their figures side by side."""
+    from life import terminal
+    from life.compare import comparison_html, comparison_table, duty_note, with_common_duty
+    from life.design import load_design
+    from life.estimate import estimate
+    from life.outputs import write_files
+
     if len(designs) < 2:
         raise LifeInputError("compare: give two or more design files to set side by side")
     loaded = [load_design(path) if duty is None else with_common_duty(path, duty) for path in designs]
@@ -87,6 +94,11 @@ def size(
     out: Path = typer.Option(Path("bendlife-size"), "--out", "-o", help="folder for sized.toml, sizing.json, report.html"),
 ) -> None:
     """Size a design for a target life: the thickness (or width), the width for a spring rate, a taper."""
+    from life import terminal
+    from life.design import load_design
+    from life.outputs import render, sizing_json, write_files
+    from life.sizing import parse_rate, plan, sizing_rows
+
     k = None if rate is None else parse_rate(rate)
     answer = plan(load_design(design), life, vary, k, taper)
     files = {"sized.toml": answer.sized.text}
@@ -102,6 +114,9 @@ def size(
 @app.command()
 def check(design: Path = typer.Argument(..., help="design file (TOML)")) -> None:
     """Validate a design file without running the estimate."""
+    from life import terminal
+    from life.design import load_design
+
     typer.echo(terminal.design_text(load_design(design)))
     typer.echo("the design file is valid")
 
@@ -115,6 +130,11 @@ def count(
     residue: str = typer.Option("half", "--residue", help="half (ASTM E1049-85) or repeat (a block of a repeated duty)"),
 ) -> None:
     """Rainflow-count a time history (ASTM E1049-85) and print the cycle table."""
+    from life import terminal
+    from mechanics.units import unit_factor
+    from spectra.counting import RESIDUE_MODES, merge_identical, rainflow_cycles
+    from spectra.profiles import read_time_history
+
     if residue not in RESIDUE_MODES:
         raise LifeInputError(f"--residue: must be one of {', '.join(RESIDUE_MODES)}, got {residue!r}")
     if not unit.strip():
@@ -130,6 +150,9 @@ def count(
 @app.command()
 def materials(name: Optional[str] = typer.Argument(None, help="a material to show in full")) -> None:
     """List the bundled materials, or show one with the source of every value."""
+    from life import terminal
+    from mechanics.materials import describe, library
+
     lib = library()
     if name is None:
         typer.echo(terminal.materials_text(lib))
@@ -141,8 +164,38 @@ def materials(name: Optional[str] = typer.Argument(None, help="a material to sho
     typer.echo(describe(lib[name]))
 
 
+class _progress:
+    """A progress bar on stderr while a long time history is read (rich), as a callback for the library.
+
+    Shown only for a file over PROGRESS_BYTES and only on a terminal; the library itself prints nothing.
+    """
+
+    def __enter__(self):
+        self.bar = None
+        return self.update
+
+    def update(self, done: int, total: int) -> None:
+        if self.bar is None:
+            if total < PROGRESS_BYTES or not sys.stderr.isatty():
+                return
+            from rich.console import Console
+            from rich.progress import BarColumn, DownloadColumn, Progress, TimeRemainingColumn
+
+            self.bar = Progress("reading and counting the time history", BarColumn(), DownloadColumn(),
+                                TimeRemainingColumn(), console=Console(stderr=True), transient=True)
+            self.bar.start()
+            self.task = self.bar.add_task("read", total=total)
+        self.bar.update(self.task, completed=done)
+
+    def __exit__(self, *exc) -> None:
+        if self.bar is not None:
+            self.bar.stop()
+
+
 def main() -> None:
     """Console entry point: turn input errors into exit 2 with one message, faults into exit 1."""
+    import numpy as np  # here, not at the top: lean start
+
     np.seterr(all="ignore")  # the library handles inf/NaN explicitly; no floating-point chatter on the terminal
     try:
         app(standalone_mode=False)

@@ -20,7 +20,7 @@ from life.curves import curve_from_mapping
 from life.meanstress import FatigueModel, fatigue_model
 from mechanics.beam import BeamResponse
 from mechanics.materials import Material
-from spectra.counting import Cycles
+from spectra.counting import Cycles, merge_identical
 
 # Fatigue modes, the Material.fatigue table that holds each one's curves, and the ply-axis component.
 MODE_TABLES = {
@@ -36,6 +36,9 @@ FIRST_LOAD_FAILURE = 0.5  # cycles to failure given to a cycle beyond static str
 # log-linear curve, which runs out at N = 10^(1/b) however small the amplitude, would count it.
 NEGLIGIBLE = 1e-9
 CHUNK = 500_000  # local (location × cycle) pairs evaluated at once: about 40 MB of temporaries
+EXACT_PAIRS = 20_000_000  # location × cycle pairs evaluated one by one; beyond, cycles are aggregated
+BRACKET_LEVELS = 256  # drive levels across the duty's span for the bracketing grid (aggregation at scale)
+BRACKET_RULES = ("goodman", "gerber", "none")  # rules whose lives fall when a local cycle's interval grows
 
 
 @dataclass(frozen=True)
@@ -226,6 +229,10 @@ class DamageResult:
     mean : np.ndarray — local mean of that cycle, shape (k,) [Pa or -]
     utilisation : np.ndarray — largest local value over the duty as a fraction of the model's static strength,
         max(hi/Xt, −lo/Xc), shape (k,) [-]; 0 for locations without a fatigue model
+    lower : np.ndarray | None — None when ``damage`` is exact everywhere; at scale (see ``miner_damage``) a
+        lower bound of the damage per block, shape (k,): where ``lower == damage`` the damage is exact,
+        elsewhere the true damage lies in [lower, damage]
+    aggregation : str — how the cycles were evaluated: "each cycle", "identical cycles merged" or "bracketed"
     """
 
     damage: np.ndarray
@@ -233,6 +240,8 @@ class DamageResult:
     amplitude: np.ndarray
     mean: np.ndarray
     utilisation: np.ndarray
+    lower: np.ndarray | None = None
+    aggregation: str = "each cycle"
 
 
 def miner_damage(locs: Locations, cycles: Cycles, force_per_drive: float, stress_factor: float) -> DamageResult:
@@ -244,15 +253,26 @@ def miner_damage(locs: Locations, cycles: Cycles, force_per_drive: float, stress
     Notes
     -----
     Local extremes of a cycle (dlo, dhi): r·dlo and r·dhi, sorted (r < 0 flips them), r = response × force per
-    drive × stress factor; N from the location's fatigue model; D = Σ count/N (Palmgren–Miner).
+    drive × stress factor; N from the location's fatigue model; D = Σ count/N (Palmgren–Miner). Every location
+    and cycle is evaluated in numpy, in blocks of CHUNK pairs; no Python loop runs over cycles.
+
+    At scale (more than EXACT_PAIRS location × cycle pairs) the cycles are aggregated, exactly first:
+    identical extremes are merged (counts summed), which changes no damage beyond round-off. If that is still
+    too many, the damage is bracketed (rules in BRACKET_RULES; "cld" stays exact): every cycle is widened to
+    the grid of BRACKET_LEVELS drive levels across the duty's span (min rounded down, max up) and narrowed to
+    it (min up, max down; a cycle narrowed to nothing does no damage), both sets merged on the grid. Under
+    these rules a local cycle whose interval contains another's has no more cycles to failure (the tests check
+    it on every rule and library material), and the map from drive to local stress is linear, so at every
+    location D(narrowed) <= D <= D(widened). Every location whose upper bound reaches the largest lower
+    bound — the critical one among them — and every location where a widened cycle passes the static
+    strength is then evaluated exactly, cycle by cycle: the life, the critical location and the static-failure
+    flags are exact. The others report the upper bound (conservative), with ``lower`` the lower bound.
     """
     k = locs.response.size
-    damage = np.zeros(k)
-    failed = np.zeros(k, bool)
     amp = np.zeros(k)
     mean = np.zeros(k)
     scale = locs.response * force_per_drive * stress_factor
-    dlo, dhi, count = cycles.lo, cycles.hi, cycles.count
+    dlo, dhi = cycles.lo, cycles.hi
     nc = dlo.size
     # the largest local amplitude is that of the largest drive range (linearity)
     if nc:
@@ -261,18 +281,73 @@ def miner_damage(locs: Locations, cycles: Cycles, force_per_drive: float, stress
         mean = scale * (dhi[big] + dlo[big]) / 2.0 + 0.0  # + 0.0: no "-0" in the outputs
     peak_drive = max(float(np.abs(dlo).max()), float(np.abs(dhi).max())) if nc else 0.0
     utilisation = np.zeros(k)
+    rows = np.zeros(k, bool)  # locations with a curve and a stress that is not round-off
     for m, model in enumerate(locs.models):
         mine = locs.model == m
         if nc:
             ends = scale[mine, None] * np.array([dlo.min(), dhi.max()])[None, :]
             utilisation[mine] = np.maximum(ends.max(axis=1) / model.Xt, -ends.min(axis=1) / model.Xc)
-        negligible = np.abs(scale) * peak_drive < NEGLIGIBLE * min(model.Xt, model.Xc)
-        rows = np.flatnonzero(mine & ~negligible)
-        if rows.size == 0 or nc == 0:
-            continue
+        rows |= mine & ~(np.abs(scale) * peak_drive < NEGLIGIBLE * min(model.Xt, model.Xc))
+    rows = np.flatnonzero(rows)
+    aggregation = "each cycle"
+    if rows.size * nc > EXACT_PAIRS:
+        cycles = merge_identical(cycles)
+        aggregation = "identical cycles merged"
+    bracket = rows.size * cycles.lo.size > EXACT_PAIRS and cycles.hi.max() > cycles.lo.min() and all(locs.models[m].rule in BRACKET_RULES
+                                                               for m in np.unique(locs.model[rows]))
+    if not bracket:
+        damage, failed = _damage(locs, rows, scale, cycles)
+        return DamageResult(damage, failed, amp, mean, utilisation, None, aggregation)
+    wide, narrow = _bracketing(cycles)
+    upper, failed_wide = _damage(locs, rows, scale, wide)
+    lower, _ = _damage(locs, rows, scale, narrow)
+    exact = rows[(upper[rows] >= lower[rows].max()) | failed_wide[rows]]
+    damage_exact, failed = _damage(locs, exact, scale, cycles)
+    upper[exact] = damage_exact[exact]
+    lower[exact] = damage_exact[exact]
+    return DamageResult(upper, failed, amp, mean, utilisation, lower, "bracketed")
+
+
+def _bracketing(cycles: Cycles) -> tuple[Cycles, Cycles]:
+    """The cycles widened to and narrowed to a grid of BRACKET_LEVELS drive levels, each set merged on the grid.
+
+    The grid runs from the smallest to the largest drive of the cycles; a widened cycle contains the cycle,
+    a narrowed one lies inside it (a cycle with no grid level inside is left out of the narrowed set).
+    """
+    base, top = float(cycles.lo.min()), float(cycles.hi.max())
+    step = (top - base) / BRACKET_LEVELS
+    grid = lambda i: np.minimum(base + i * step, top)  # noqa: E731 — level i of the grid [drive unit]
+    # widened: the level at or below lo and at or above hi (checked against the drive itself: no round-off inside)
+    i_lo = np.floor((cycles.lo - base) / step)
+    i_lo -= grid(i_lo) > cycles.lo
+    i_hi = np.ceil((cycles.hi - base) / step)
+    i_hi += grid(i_hi) < cycles.hi
+    wide = merge_identical(Cycles(np.minimum(grid(i_lo), cycles.lo), np.maximum(grid(i_hi), cycles.hi), cycles.count))
+    # narrowed: the level at or above lo and at or below hi
+    j_lo = np.ceil((cycles.lo - base) / step)
+    j_lo += grid(j_lo) < cycles.lo
+    j_hi = np.floor((cycles.hi - base) / step)
+    j_hi -= grid(j_hi) > cycles.hi
+    keep = j_lo < j_hi
+    narrow = merge_identical(Cycles(np.maximum(grid(j_lo[keep]), cycles.lo[keep]),
+                                    np.minimum(grid(j_hi[keep]), cycles.hi[keep]), cycles.count[keep]))
+    return wide, narrow
+
+
+def _damage(locs: Locations, rows: np.ndarray, scale: np.ndarray, cycles: Cycles) -> tuple[np.ndarray, np.ndarray]:
+    """Miner damage and static-failure flags at the locations ``rows`` (others 0 and False), cycle by cycle."""
+    k = locs.response.size
+    damage = np.zeros(k)
+    failed = np.zeros(k, bool)
+    dlo, dhi, count = cycles.lo, cycles.hi, cycles.count
+    nc = dlo.size
+    if nc == 0 or rows.size == 0:
+        return damage, failed
+    for m, model in enumerate(locs.models):
+        mine = rows[locs.model[rows] == m]
         step = max(1, CHUNK // nc)
-        for start in range(0, rows.size, step):
-            r = rows[start : start + step]
+        for start in range(0, mine.size, step):
+            r = mine[start : start + step]
             s = scale[r, None]
             a, b = s * dlo[None, :], s * dhi[None, :]
             lo, hi = np.minimum(a, b), np.maximum(a, b)
@@ -280,7 +355,7 @@ def miner_damage(locs: Locations, cycles: Cycles, force_per_drive: float, stress
             zero = N <= 0
             failed[r] = zero.any(axis=1)
             damage[r] = (count[None, :] / np.where(zero, FIRST_LOAD_FAILURE, N)).sum(axis=1)
-    return DamageResult(damage, failed, amp, mean, utilisation)
+    return damage, failed
 
 
 def cycle_lives(locs: Locations, k: int, cycles: Cycles, force_per_drive: float, stress_factor: float) -> np.ndarray:

@@ -11,7 +11,7 @@ import re
 import tomllib
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any, Mapping, Sequence
+from typing import Any, Callable, Mapping, Sequence
 
 import numpy as np
 
@@ -24,8 +24,9 @@ from mechanics.laminate import SECTIONS
 from mechanics.materials import Material, resolve_materials
 from mechanics.units import dimension_name, parse_quantity, unit_factor
 from spectra import errors as spectra_errors
-from spectra.counting import RESIDUE_MODES, Cycles, rainflow_cycles
-from spectra.profiles import COMMENT, block_table, bundled_profile, read_time_history
+from spectra.counting import RESIDUE_MODES, Cycles
+from spectra.profiles import COMMENT, block_table, bundled_profile
+from spectra.streaming import Envelope, count_history
 
 BUNDLED_PREFIX = "bundled:"  # profile = "bundled:NAME" reads a demo profile shipped with bendlife
 
@@ -48,12 +49,15 @@ class Duty:
     drive : str — ``"force"`` or ``"deflection"``
     cycles : Cycles — counted (time history) or tabulated cycles [N or m]
     source : str — where they came from, for reports
-    signal : np.ndarray | None — the time history in SI, when one was given [N or m]
+    signal : np.ndarray | None — the time history in SI, when one was given and is short enough to keep
+        (spectra.streaming.KEEP_SIGNAL samples) [N or m]
     blocks_per_day : float | None — repeats of the whole duty per day [1/day]
     residue : str — how a time history's residue is counted: "half" (ASTM E1049-85, half cycles) or "repeat"
         (the block as one of an endless repetition: the history closed on its largest reversal, full cycles)
     profile_path : Path | None — the time-history file read (for "bundled:NAME", the shipped file); None
         for a block table
+    trace : Envelope | None — a time history's min/max per bin of samples, for plots (also when ``signal`` is
+        None) [N or m]
     """
 
     drive: str
@@ -63,6 +67,7 @@ class Duty:
     blocks_per_day: float | None
     residue: str = "half"
     profile_path: Path | None = None
+    trace: Envelope | None = None
 
     @property
     def extremes(self) -> tuple[float, float]:
@@ -273,7 +278,8 @@ def _check_header(path: Path, profile: str, where: str) -> None:
         return  # read_time_history says what is wrong with the file
 
 
-def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str]) -> Duty:
+def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
+          progress: Callable[[int, int], None] | None = None) -> Duty:
     t = _table(doc, "duty", name)
     where = f"{name} [duty]"
     _unknown(t, DUTY_KEYS, where)
@@ -312,15 +318,16 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str]) -> Duty:
                 raise InputError(f"{where} column: the name of the profile's column as a string, e.g. \"deflection\", "
                                  f"got {column!r}")
             _check_header(path, profile, where)
-            history = read_time_history(path, column, scale, f"{where} profile")
-            if float(np.ptp(history.values)) == 0.0:
+            history = count_history(path, column, scale, f"{where} profile", residue, progress=progress)
+            low, high = float(history.envelope.lo.min()), float(history.envelope.hi.max())
+            if high == low:
                 raise InputError(
-                    f"{where} profile: {profile}, column {column!r} is constant ({history.values[0] / scale:g} {unit} "
-                    f"in all {history.values.size} samples): no cycle to count; a time history must vary")
-            cycles = rainflow_cycles(history.values, residue)
-            source = (f"time history {profile} column {column!r} [{unit}], {history.values.size} samples, "
+                    f"{where} profile: {profile}, column {column!r} is constant ({low / scale:g} {unit} "
+                    f"in all {history.samples} samples): no cycle to count; a time history must vary")
+            cycles = history.cycles
+            source = (f"time history {profile} column {column!r} [{unit}], {history.samples} samples, "
                       + ("residue as half cycles" if residue == "half" else "counted as a repeating block"))
-            signal = history.values
+            signal, trace = history.signal, history.envelope
         else:
             rows = t["cycles"]
             if not isinstance(rows, list) or not rows:
@@ -341,20 +348,23 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str]) -> Duty:
                 notes.append(f"{where} cycles rows {', '.join(map(str, steady))}: min = max, a steady load with no "
                              "cycle; left out of the fatigue count")
             source = f"block table, {len(rows)} row{'s' if len(rows) != 1 else ''}"
-            signal = None
+            signal = trace = None
             path = None
     except (mechanics_errors.InputError, spectra_errors.InputError) as exc:
         raise InputError(str(exc)) from None
     if cycles.lo.size == 0 or (np.abs(cycles.lo).max() == 0 and np.abs(cycles.hi).max() == 0):
         raise InputError(f"{where}: the duty never loads the part (no cycles, or every drive is zero)")
-    return Duty(drive, cycles, source, signal, per_day, residue, path)
+    return Duty(drive, cycles, source, signal, per_day, residue, path, trace)
 
 
-def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = None) -> Design:
+def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = None,
+                 progress: Callable[[int, int], None] | None = None) -> Design:
     """Build a Design from a parsed TOML document.
 
     name : str — the file name used in messages
     base_dir : Path — folder that relative profile paths start from
+    progress : Callable[[int, int], None] | None — called with (bytes read, file size) while a time history
+        is read (for a progress display; the library prints nothing)
     """
     _unknown(doc, TOP_KEYS, name)
     _unknown(_table(doc, "beam", name), BEAM_KEYS, f"{name} [beam]")  # before the plies: a stray key says where
@@ -372,7 +382,7 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
         beam = _beam(doc, plies, name, notes)
     except mechanics_errors.InputError as exc:  # a missing unit or wrong dimension (mechanics.units)
         raise InputError(str(exc)) from None
-    duty = _duty(doc, name, base_dir, notes)
+    duty = _duty(doc, name, base_dir, notes, progress)
     fat = _table(doc, "fatigue", name, required=False)
     _unknown(fat, FATIGUE_KEYS, f"{name} [fatigue]")
     rule = _choice(fat.get("mean_stress", "goodman"), RULES, f"{name} [fatigue] mean_stress")
@@ -384,8 +394,8 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     return Design(title, path, beam, duty, rule, miner, factor, used, dict(doc), tuple(notes))
 
 
-def load_design(path: Path) -> Design:
-    """Read and validate a design file."""
+def load_design(path: Path, progress: Callable[[int, int], None] | None = None) -> Design:
+    """Read and validate a design file; ``progress`` as in `parse_design`."""
     path = Path(path)
     if not path.is_file():
         raise InputError(f"{path}: no such design file")
@@ -400,4 +410,4 @@ def load_design(path: Path) -> Design:
         raise InputError(f"{path.name}: not valid TOML ({text})") from None
     except UnicodeDecodeError:
         raise InputError(f"{path.name}: not a UTF-8 text file") from None
-    return parse_design(doc, path.name, path.parent, path)
+    return parse_design(doc, path.name, path.parent, path, progress)

@@ -11,6 +11,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
+from life.caution import CAUTION
 from life.curves import DATA_CYCLES_MAX
 from life.damage import FACES, DamageResult, Locations, build_models, cycle_lives, locations, miner_damage
 from life.meanstress import model_warnings
@@ -22,11 +23,6 @@ from mechanics.strength import interlaminar_reserve, max_stress_reserve, strengt
 
 IMPLAUSIBLE_STRAIN = 0.2  # a fibre strain no structural composite or wood reaches (common practice): an input slip
 
-CAUTION = (
-    "Estimates, not certification: confirm by fatigue tests of prototypes, apply environmental knock-downs "
-    "(moisture, temperature, UV), and let local codes and licensed engineering practice decide. "
-    "A flexing part that fails releases its stored energy suddenly."
-)
 
 
 @dataclass(frozen=True)
@@ -267,7 +263,7 @@ def estimate(design: Design) -> LifeResult:
             station=int(locs.station[k]),
         )
     storage = storage_figures(resp, peak_force)
-    big = int(np.lexsort((cycles.hi, cycles.hi - cycles.lo))[-1])
+    big = _largest_cycle(cycles)
     e_cycle = float(cycle_energy(resp.compliance, cycles.lo[big] * fpd, cycles.hi[big] * fpd))
     return LifeResult(
         design=design,
@@ -287,6 +283,17 @@ def estimate(design: Design) -> LifeResult:
         force_per_drive=fpd,
         warnings=tuple(dict.fromkeys(warnings)),
     )
+
+
+def _largest_cycle(cycles) -> int:
+    """Index of the cycle of largest range, of equal ranges the one of largest max, of those the last.
+
+    The same index as ``np.lexsort((hi, hi - lo))[-1]``, in linear time (no sort of millions of cycles).
+    """
+    span = cycles.hi - cycles.lo
+    widest = np.flatnonzero(span == span.max())
+    top = cycles.hi[widest]
+    return int(widest[np.flatnonzero(top == top.max())[-1]])
 
 
 EXTRAPOLATED_SHARE = 0.1  # warn when more than this share of the critical damage is read past the data

@@ -29,18 +29,37 @@ BIN_RESOLUTION = 1e-4  # bin width as a fraction of the largest |drive| when bin
 
 
 def cycle_table(result: LifeResult) -> tuple[pd.DataFrame, str]:
-    """Counted drive cycles, identical ones merged; binned at scale. Returns the table and a note on its form."""
+    """Counted drive cycles, identical ones merged; binned at scale. Returns the table and a note on its form.
+
+    At most MAX_CYCLE_ROWS rows: with more distinct cycles, min and max are rounded to a grid of width
+    BIN_RESOLUTION × the largest |drive|, the width doubled until the binned cycles fit (the note says so and
+    gives the width; the counts are kept). The note also says how the damage treated the cycles.
+    """
     cycles: Cycles = merge_identical(result.design.duty.cycles)
     note = f"{cycles.lo.size} distinct cycles, identical cycles merged"
     if cycles.lo.size > MAX_CYCLE_ROWS:
+        distinct = cycles.lo.size
         peak = float(max(np.abs(cycles.lo).max(), np.abs(cycles.hi).max()))
         width = BIN_RESOLUTION * peak
-        binned = Cycles(np.round(cycles.lo / width) * width, np.round(cycles.hi / width) * width, cycles.count)
-        cycles = merge_identical(binned)
+        while True:
+            binned = merge_identical(Cycles(np.round(cycles.lo / width) * width, np.round(cycles.hi / width) * width,
+                                            cycles.count))
+            if binned.lo.size <= MAX_CYCLE_ROWS:
+                break
+            width *= 2.0
+        cycles = binned
         note = (
             f"{cycles.lo.size} binned cycles: min and max rounded to {width:.3g} (SI), "
-            f"1e-4 of the largest drive, as the duty has more than {MAX_CYCLE_ROWS} distinct cycles"
+            f"{width / peak:.2g} of the largest drive, as the duty has {distinct} distinct cycles "
+            f"(more than {MAX_CYCLE_ROWS}); the damage uses the cycles as counted"
         )
+    aggregation = getattr(result.damage, "aggregation", "each cycle")
+    if aggregation == "identical cycles merged":
+        note += "; damage: identical cycles merged (exact)"
+    elif aggregation == "bracketed":
+        note += ("; damage: bracketed between the cycles widened and narrowed to a grid of the drive, and exact "
+                 "at the critical location and every location that could be as damaged (locations.csv gives the "
+                 "upper bound elsewhere)")
     fpd = result.force_per_drive
     energy = cycle_energy(result.response.compliance, cycles.lo * fpd, cycles.hi * fpd)
     table = pd.DataFrame({"min": cycles.lo, "max": cycles.hi, "count": cycles.count, "energy_j": energy})

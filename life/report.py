@@ -49,7 +49,7 @@ METHODS = [
     ("Interlaminar shear", "τxz from equilibrium of the ply stresses, ∂τxz/∂z = −∂σx/∂x (Whitney 1987, ch. 6)"),
     ("Static strength", "first-ply failure by maximum stress, by Tsai-Wu with F12* = −1/2 (Tsai & Hahn 1980) and by "
      "maximum fibre strain; interlaminar shear against the interlaminar strength"),
-    ("Counting", "reversals and rainflow per ASTM E1049-85 §5.4.4 (the rainflow package); the residue as half "
+    ("Counting", "reversals and rainflow per ASTM E1049-85 §5.4.4 (vectorised four-point rule, cycle for cycle equal to the rainflow package, which the tests use as the reference); the residue as half "
      "cycles, or, with residue = \"repeat\", the block closed on its largest reversal as one of a repeating duty"),
     ("Fatigue", "S-N or strain-life curves (power or log-linear), mean stress by Goodman, Gerber or a piecewise-linear "
      "constant-life diagram, Palmgren–Miner damage sum"),
@@ -427,16 +427,17 @@ def figure_duty(result: LifeResult, cycles: pd.DataFrame) -> str:
     mean = 0.5 * (cycles["max"] + cycles["min"]).to_numpy() * scale
     count = cycles["count"].to_numpy(float)
     with plt.rc_context(STYLE):
-        if duty.signal is not None:
+        env = minmax_envelope(duty.signal) if duty.signal is not None else duty.trace  # a long history: its streamed envelope
+        if env is not None:
+            samples = duty.signal.size if duty.signal is not None else duty.trace.samples
             fig, (a0, ax) = plt.subplots(2, 1, figsize=(7.5, 5.6), gridspec_kw={"height_ratios": [1, 1.5]})
-            env = minmax_envelope(duty.signal)
             a0.fill_between(env.start, env.lo * scale, env.hi * scale, color=PALETTE[0], lw=0.4, step="post",
                             edgecolor=PALETTE[0], rasterized=True)  # thousands of vertices: a PNG inside the SVG
-            a0.set_xlim(0, duty.signal.size)
+            a0.set_xlim(0, samples)
             a0.set_xlabel("sample number in one block")
             a0.set_ylabel(f"drive [{unit}]")
-            how = "every sample" if env.start.size == duty.signal.size else f"min/max of {env.start.size} bins"
-            a0.set_title(f"drive history of one block ({duty.signal.size} samples; {how})")
+            how = "every sample" if env.start.size == samples else f"min/max of {env.start.size} bins"
+            a0.set_title(f"drive history of one block ({samples} samples; {how})")
         else:
             fig, ax = plt.subplots(figsize=(7.5, 3.8))
         nb = 24

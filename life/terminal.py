@@ -2,7 +2,7 @@
 from __future__ import annotations
 
 import io
-from typing import Mapping
+from typing import TYPE_CHECKING, Mapping
 
 import numpy as np
 from rich import box
@@ -13,9 +13,11 @@ import pandas as pd
 
 from life.design import Design
 from life.estimate import CAUTION, LifeResult
-from life.sizing import SizingAnswer, sizing_rows
 from mechanics.materials import Material
 from spectra.counting import Cycles
+
+if TYPE_CHECKING:  # life.sizing loads scipy.optimize: only when a sizing answer is printed
+    from life.sizing import SizingAnswer
 
 
 WIDTH = 100  # fixed console width: the same layout on a terminal, in a pipe and in tests
@@ -141,6 +143,8 @@ def comparison_text(table: pd.DataFrame, duty: str = "each design with its own d
 
 def sizing_text(answer: SizingAnswer) -> str:
     """The sizing answer: the steps, then a before/after table, then the sizing warnings."""
+    from life.sizing import sizing_rows
+
     lines = [f"sizing for a life of {answer.target_blocks:g} blocks of the duty"]
     lines += [f"  {st.what}: {st.note}" for st in answer.sized.steps]
     if answer.drops is not None:

@@ -31,7 +31,6 @@ from dataclasses import dataclass
 from typing import Sequence
 
 import numpy as np
-from scipy import integrate
 
 from mechanics.errors import InputError
 from mechanics.laminate import (
@@ -229,6 +228,8 @@ def moment_shear(beam: Beam, x: np.ndarray, m0: float = 0.0) -> tuple[np.ndarray
 
 def _integral(fun, segs: Sequence[Segment]) -> float:
     """Σ over segments of ∫ fun(x, seg) dx by adaptive Gauss–Kronrod quadrature (QUADPACK via scipy)."""
+    from scipy import integrate  # here: loading a design (bendlife check) does not need scipy
+
     total = 0.0
     for seg in segs:
         value, _ = integrate.quad(lambda x: fun(x, seg), seg.x0, seg.x1, epsabs=0.0, epsrel=1e-11, limit=200)

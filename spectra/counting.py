@@ -5,8 +5,11 @@ its two extremes, the signal values at the reversals where it starts and ends, s
 that the life layer can map both extremes to every location (the sign of the local
 stress flips on the compression side, so range and mean alone would not do).
 
-The counting itself is the `rainflow` package (an implementation of ASTM E1049-85,
-section 5.4.4); this module only turns its output into named arrays. It knows no
+The counting is a vectorised (numpy) formulation of the rainflow count of ASTM
+E1049-85, section 5.4.4, that returns exactly the cycles of the `rainflow` package
+(the reference implementation, and the oracle of the tests): same full and half
+cycles, same extremes, in the same order. Long histories are counted chunk by chunk
+with the residue carried over (`count_chunk`, `close_count`). It knows no
 units: a cycle's extremes are in the unit of the signal handed in (SI by the
 convention of bendlife: m for a deflection, N for a force).
 
@@ -19,8 +22,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from typing import Callable, Iterable
+
 import numpy as np
-import rainflow
 
 from spectra.errors import InputError
 
@@ -116,7 +120,7 @@ def _signal(signal: np.ndarray) -> np.ndarray:
 
 
 def _counted_series(x: np.ndarray) -> np.ndarray:
-    """The series handed to `rainflow`.
+    """The series as the reference package counts it.
 
     `rainflow` 3.2 treats the first and last points as reversals, but for a series of
     exactly two samples its `reversals` yields only the first one. Repeating the last
@@ -125,6 +129,29 @@ def _counted_series(x: np.ndarray) -> np.ndarray:
     if x.size == 2:
         return np.append(x, x[-1])
     return x
+
+
+def _reversal_positions(x: np.ndarray) -> np.ndarray:
+    """Sample positions of the reversals of ``x`` (3+ samples), the reference package's rule.
+
+    A sample is a reversal when the differences to the previous distinct sample and to
+    the next distinct sample have a product < 0 (computed in floating point, as the
+    `rainflow` package does); repeated samples are one point; the first and the last
+    sample are always reversals (the last one even when it ends a plateau of a constant
+    series: a constant series gives its first and last sample).
+    """
+    n = x.size
+    d = np.diff(x)
+    change = np.flatnonzero(d)  # x[j] != x[j + 1]: the run of equal samples ending at j is left
+    if change.size == 0:
+        return np.array([0, n - 1], dtype=np.intp)
+    step = d[change]  # differences between consecutive distinct values, as the reference computes them
+    turns = np.flatnonzero((step[:-1] * step[1:]) < 0)
+    out = np.empty(turns.size + 2, dtype=np.intp)
+    out[0] = 0
+    out[1:-1] = change[turns + 1]  # the last sample of the run where the history turns
+    out[-1] = n - 1
+    return out
 
 
 def reversals(signal: np.ndarray) -> np.ndarray:
@@ -143,20 +170,174 @@ def reversals(signal: np.ndarray) -> np.ndarray:
     A reversal is a sample where the first derivative changes sign; rainflow counting
     in ASTM E1049-85, §5.4.4, works on the history reduced to its peaks and valleys
     (the example of its Fig. 6 is given as reversals). Repeated samples (plateaus) and
-    intermediate points of monotone runs are dropped. Computed by `rainflow.reversals`. A 1-sample signal gives that
-    sample; a constant signal gives its first and last sample; an empty one, nothing.
+    intermediate points of monotone runs are dropped. Vectorised; the same points as
+    `rainflow.reversals` (the tests check it). A 1-sample signal gives that sample; a
+    constant signal gives its first and last sample; an empty one, nothing.
     """
     x = _signal(signal)
     if x.size < 2:
         return x.copy()
     series = _counted_series(x)
-    return np.fromiter((value for _, value in rainflow.reversals(series.tolist())), dtype=float)
+    return series[_reversal_positions(series)]
+
+
+@dataclass(frozen=True, eq=False)
+class _Removed:
+    """Full cycles taken out of a reversal sequence by the four-point rule (positions in it)."""
+
+    start: np.ndarray  # position of the cycle's first reversal (B)
+    end: np.ndarray  # position of its second reversal (C)
+    closing: np.ndarray  # position of the reversal after C when the pair was taken out (D)
+    residue: np.ndarray  # positions of the reversals left, in order
+
+
+def _remove_full_cycles(v: np.ndarray) -> _Removed:
+    """Take every full cycle out of the reversal values ``v`` by the four-point rule, in rounds.
+
+    With four consecutive points A, B, C, D of the sequence left so far and the ranges
+    Y0 = |B - A|, Y = |C - B|, X = |D - C|: B, C is a full cycle when Y0 > Y <= X.
+    This is the cycle §5.4.4 of ASTM E1049-85 counts when X >= Y and Y does not contain
+    the starting point: in its stack the ranges strictly decrease between pushes, so
+    the range below Y is larger than Y (Y0 > Y), and the range Y is counted as soon as
+    a range X >= Y follows. Two candidates never share a point (B, C a candidate needs
+    Y <= X, the pair C, D would need Y > X), so every round takes out all candidates at
+    once; taking out B, C leaves A, D adjacent, still alternating. What is left when no
+    candidate remains is the residue; its consecutive pairs are the half cycles.
+    """
+    idx = np.arange(v.size)
+    vals = v
+    start, end, closing = [], [], []
+    while idx.size >= 4:
+        d = np.abs(np.diff(vals))  # |later - earlier|, as the reference computes X and Y
+        j = np.flatnonzero((d[:-2] > d[1:-1]) & (d[1:-1] <= d[2:])) + 1
+        if j.size == 0:
+            break
+        start.append(idx[j])
+        end.append(idx[j + 1])
+        closing.append(idx[j + 2])
+        keep = np.ones(idx.size, dtype=bool)
+        keep[j] = False
+        keep[j + 1] = False
+        idx = idx[keep]
+        vals = vals[keep]
+    joined = [np.concatenate(p) if p else np.empty(0, dtype=np.intp) for p in (start, end, closing)]
+    return _Removed(joined[0], joined[1], joined[2], idx)
+
+
+TRIGGER_BLOCK = 4_000_000  # reversal positions scanned at once while ordering cycles (about 100 MB of temporaries)
+_LAST = np.iinfo(np.intp).max
+
+
+def _closing_points(v: np.ndarray, first: np.ndarray, second: np.ndarray, bound: np.ndarray) -> np.ndarray:
+    """For each range first → second: the first position t in (second, bound] with |v[t] - v[second]| >= |v[first] - v[second]|.
+
+    This is the reversal whose arrival makes §5.4.4 count the range (X >= Y): every
+    reversal between ``second`` and it lies closer to ``second`` than ``first`` does, and
+    is taken out before it arrives. ``bound`` is a position known to qualify, so only
+    the positions before it are scanned.
+    """
+    out = bound.copy()
+    scan = np.flatnonzero(bound - second > 1)
+    ends = np.cumsum(bound[scan] - second[scan] - 1)
+    begin = 0
+    while begin < scan.size:
+        done = int(ends[begin - 1]) if begin else 0
+        stop = max(int(np.searchsorted(ends, done + TRIGGER_BLOCK, side="right")), begin + 1)
+        rows = scan[begin:stop]
+        q = second[rows]
+        length = bound[rows] - q - 1
+        group = np.repeat(np.arange(rows.size), length)
+        offset = np.cumsum(length) - length
+        t = np.arange(group.size) - offset[group] + q[group] + 1
+        hit = np.flatnonzero(np.abs(v[t] - v[q][group]) >= np.abs(v[first[rows]] - v[q])[group])
+        g = group[hit]
+        lead = np.ones(g.size, dtype=bool)
+        np.not_equal(g[1:], g[:-1], out=lead[1:])
+        out[rows[g[lead]]] = t[hit[lead]]
+        begin = stop
+    return out
+
+
+def _alternates(v: np.ndarray) -> bool:
+    """Whether the reversal values rise and fall in turn (never two steps the same way, never a zero step).
+
+    They always do, except where the reference's test d1 * d2 < 0 underflows to zero (steps below about
+    1e-154): it then misses a turn, and the sequence it gives need not alternate.
+    """
+    if v.size < 3:  # a constant series gives its first and last sample: nothing to count in between
+        return True
+    d = np.diff(v)
+    return bool(np.all(d != 0.0) and np.all(np.signbit(d[1:]) != np.signbit(d[:-1])))
+
+
+def _reference_count(v: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """The §5.4.4 stack count of the reversal values ``v`` step by step, as `rainflow.extract_cycles` does it.
+
+    Only for sequences that do not alternate (see `_alternates`); a plain loop, as they are rare and short.
+    """
+    points: list[float] = []
+    first, second, count = [], [], []
+    for value in v.tolist():
+        points.append(value)
+        while len(points) >= 3:
+            X, Y = abs(points[-1] - points[-2]), abs(points[-2] - points[-3])
+            if X < Y:
+                break
+            if len(points) == 3:  # Y contains the starting point: half cycle, drop the first point
+                first.append(points[0]), second.append(points[1]), count.append(0.5)
+                points.pop(0)
+            else:  # full cycle: drop the peak and the valley of Y
+                first.append(points[-3]), second.append(points[-2]), count.append(1.0)
+                del points[-3:-1]
+    for a, b in zip(points, points[1:]):
+        first.append(a), second.append(b), count.append(0.5)
+    return np.array(first, dtype=float), np.array(second, dtype=float), np.array(count, dtype=float)
+
+
+def _four_point(v: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Rainflow cycles of the reversal values ``v``, in the reference package's order.
+
+    Returns the values of each cycle's first and second reversal and its count (1.0 or
+    0.5), in the order `rainflow.extract_cycles` yields them.
+
+    Notes
+    -----
+    The full cycles and the residue come from `_remove_full_cycles`. The residue's
+    ranges first grow (not strictly), then strictly shrink: where a range is followed by
+    one at least as large, §5.4.4 counts it as a half cycle on the way, with S in Y
+    (X >= Y), and drops its first point; the others are the half cycles of the residue
+    left at the end. Every cycle counted on the way is counted at the arrival of the
+    reversal given by `_closing_points`; cycles counted at the same arrival come off the
+    stack from its top, the latest first, and a half cycle, if any, after them.
+    """
+    if not _alternates(v):
+        return _reference_count(v)
+    removed = _remove_full_cycles(v)
+    R = removed.residue
+    r = np.abs(np.diff(v[R]))
+    grows = r[1:] >= r[:-1]
+    dropped = grows.size if grows.all() else int(np.argmin(grows))  # leading half cycles counted on the way
+    first = np.concatenate((removed.start, R[:dropped]))
+    second = np.concatenate((removed.end, R[1 : dropped + 1]))
+    bound = np.concatenate((removed.closing, R[2 : dropped + 2]))
+    arrival = _closing_points(v, first, second, bound)
+    left = R.size - 1 - dropped  # half cycles of the residue left at the end
+    n_full = removed.start.size
+    order = np.lexsort((
+        np.concatenate((-removed.end, np.zeros(dropped, np.intp), np.arange(left))),  # top of the stack first
+        np.concatenate((np.zeros(n_full, np.intp), np.ones(dropped, np.intp), np.full(left, 2))),
+        np.concatenate((arrival, np.full(left, _LAST))),
+    ))
+    a = np.concatenate((first, R[dropped : R.size - 1]))[order]
+    b = np.concatenate((second, R[dropped + 1 :]))[order]
+    count = np.concatenate((np.ones(n_full), np.full(R.size - 1, 0.5)))[order]
+    return v[a], v[b], count
 
 
 RESIDUE_MODES = ("half", "repeat")  # accepted values of `rainflow_cycles(..., residue=...)`
 
 
-def rainflow_cycles(signal: np.ndarray, residue: str = "half") -> Cycles:
+def rainflow_cycles(signal: np.ndarray, residue: str = "half", order: str = "counted") -> Cycles:
     """Rainflow-count a drive signal; each cycle keeps its minimum and maximum.
 
     Parameters
@@ -169,12 +350,15 @@ def rainflow_cycles(signal: np.ndarray, residue: str = "half") -> Cycles:
         ``"repeat"``: the signal is one block of a duty repeated without end; the
         residue closes across the joint of one block and the next, and every cycle is
         a full cycle (count 1.0)
+    order : str — ``"counted"`` (default): the cycles in the order `rainflow` counts them;
+        ``"any"``: the same cycles, faster, in another order (the signal's full cycles
+        chunk by chunk, then the residue's), as `count_chunk` and `close_count` give them
 
     Returns
     -------
     Cycles — one entry per counted cycle, in the order `rainflow` counts them (for
     ``"repeat"``, a cycle closed by two half cycles stands where the second one is
-    counted).
+    counted), or for ``order="any"`` in the order described there.
 
     Raises
     ------
@@ -183,8 +367,9 @@ def rainflow_cycles(signal: np.ndarray, residue: str = "half") -> Cycles:
 
     Notes
     -----
-    Rainflow counting of ASTM E1049-85 (reapproved 2011), §5.4.4, as implemented by the
-    `rainflow` package (`rainflow.extract_cycles`): with X the range under
+    Rainflow counting of ASTM E1049-85 (reapproved 2011), §5.4.4, with the cycles,
+    extremes and order of the `rainflow` package (`rainflow.extract_cycles`), computed
+    by the vectorised four-point rule of `_remove_full_cycles`: with X the range under
     consideration and Y the previous range adjacent to it, a Y not larger than X is
     counted as one cycle, or as one half cycle when Y contains the starting point S.
     ``lo`` and ``hi`` are the signal values at the cycle's start and end reversal,
@@ -226,9 +411,13 @@ def rainflow_cycles(signal: np.ndarray, residue: str = "half") -> Cycles:
         raise InputError(
             f"rainflow_cycles: residue must be one of {', '.join(repr(m) for m in RESIDUE_MODES)}, got {residue!r}"
         )
+    if order not in ("counted", "any"):
+        raise InputError(f"rainflow_cycles: order must be 'counted' or 'any', got {order!r}")
     x = _signal(signal)
     if x.size < 2 or x.min() == x.max():
         return _empty()
+    if order == "any":
+        return _chunked(x, residue)
     if residue == "repeat":
         return _full_cycles(_extracted(_closed_loop(x)))
     return _extracted(_counted_series(x))
@@ -266,16 +455,9 @@ def _closed_loop(signal: np.ndarray) -> np.ndarray:
 
 
 def _extracted(series: np.ndarray) -> Cycles:
-    """`rainflow.extract_cycles` of ``series``, extremes read from the series itself."""
-    # (range, mean, count, i_start, i_end) per cycle; only count and indices are used,
-    # the extremes are read from the series so that they are the samples exactly.
-    found = np.array(
-        [(count, i_start, i_end) for _, _, count, i_start, i_end in rainflow.extract_cycles(series.tolist())],
-        dtype=float,
-    ).reshape(-1, 3)
-    start = series[found[:, 1].astype(np.intp)]
-    end = series[found[:, 2].astype(np.intp)]
-    return Cycles(lo=np.minimum(start, end), hi=np.maximum(start, end), count=found[:, 0])
+    """Rainflow cycles of ``series`` (3+ samples), exactly those of `rainflow.extract_cycles`, in its order."""
+    a, b, count = _four_point(series[_reversal_positions(series)])
+    return Cycles(lo=np.minimum(a, b), hi=np.maximum(a, b), count=count)
 
 
 def _full_cycles(cycles: Cycles) -> Cycles:
@@ -327,3 +509,185 @@ def merge_identical(cycles: Cycles, decimals: int | None = None) -> Cycles:
     first[1:] = (lo[1:] != lo[:-1]) | (hi[1:] != hi[:-1])
     starts = np.flatnonzero(first)
     return Cycles(lo=lo[starts], hi=hi[starts], count=np.add.reduceat(count, starts))
+
+
+# --- counting a long history chunk by chunk --------------------------------------------
+
+@dataclass(frozen=True, eq=False)  # eq=False: `==` on arrays has no single truth value
+class OpenCount:
+    """What a rainflow count of a history read so far leaves open for the samples to come.
+
+    Attributes
+    ----------
+    residue : np.ndarray — the reversals not closed into full cycles yet, in time order;
+        the last entry is the last sample read (a reversal only if the history turns
+        there) [unit of the drive, SI]; empty before the first sample
+    samples : int — samples read so far [-]
+    """
+
+    residue: np.ndarray
+    samples: int
+
+
+@dataclass(frozen=True)
+class ChunkCount:
+    """The full cycles one chunk closes, and what stays open after it.
+
+    Attributes
+    ----------
+    full : Cycles — full cycles closed by the chunk (count 1.0 each) [unit of the drive, SI]
+    open : OpenCount — the count to carry into the next chunk
+    """
+
+    full: Cycles
+    open: OpenCount
+
+
+OPEN = OpenCount(residue=np.empty(0), samples=0)  # the count before the first sample
+
+
+def count_chunk(state: OpenCount, chunk: np.ndarray) -> ChunkCount:
+    """Carry a rainflow count on through the next chunk of a history.
+
+    Parameters
+    ----------
+    state : OpenCount — the count so far (`OPEN` before the first chunk)
+    chunk : np.ndarray — the next samples, in time order [unit of the drive, SI]
+
+    Returns
+    -------
+    ChunkCount — the full cycles the chunk closes and the count to carry on.
+
+    Notes
+    -----
+    The residue so far (reversals, ending with the last sample read) is put in front of
+    the chunk, the joined series is reduced to reversals again (the last sample of the
+    previous chunk drops out if the history runs on through it) and the four-point rule
+    of `rainflow_cycles` takes out the full cycles. A full cycle needs a reversal after
+    it, so none uses the last sample as one of its two points; one closed by it stays
+    closed when the history runs on past it, since the run only widens X. The full
+    cycles of all chunks and `close_count` of the last state are the cycles of the whole
+    history counted at once (the tests check it against `rainflow_cycles`), in another
+    order.
+    """
+    x = _signal(chunk)
+    a, b, residue = _step(state.residue, x)
+    if a is None:
+        raise InputError("count_chunk: the signal steps by less than about 1e-154 (SI) between samples, where the "
+                         "reversal test d1·d2 < 0 underflows; scale the signal, or count it whole with rainflow_cycles")
+    full = Cycles(lo=np.minimum(a, b), hi=np.maximum(a, b), count=np.ones(a.size))
+    return ChunkCount(full, OpenCount(residue, state.samples + x.size))
+
+
+def _step(residue: np.ndarray, x: np.ndarray) -> tuple[np.ndarray | None, np.ndarray | None, np.ndarray]:
+    """count_chunk without the checks: the full cycles' two values (first, second) and the new residue;
+    None, None for reversals that do not alternate (see `_alternates`)."""
+    series = np.concatenate((residue, x))
+    if series.size < 3:
+        return np.empty(0), np.empty(0), series
+    v = series[_reversal_positions(series)]
+    if not _alternates(v):
+        return None, None, v
+    removed = _remove_full_cycles(v)
+    return v[removed.start], v[removed.end], v[removed.residue]
+
+
+SIGNAL_CHUNK = 1 << 18  # samples counted at once by rainflow_cycles(order="any"): fits the processor's cache
+
+
+def _chunked(x: np.ndarray, residue: str) -> Cycles:
+    """rainflow_cycles(x, residue, order="any"): chunk by chunk, the full cycles joined without merging."""
+    left, first, second = np.empty(0), [], []
+    for begin in range(0, x.size, SIGNAL_CHUNK):
+        a, b, left = _step(left, x[begin : begin + SIGNAL_CHUNK])
+        if a is None:  # reversals that do not alternate (see _alternates): count in the reference's order
+            return _extracted(x) if residue == "half" else _full_cycles(_extracted(_closed_loop(x)))
+        first.append(a)
+        second.append(b)
+    rest = rainflow_cycles(left, residue)
+    a, b = np.concatenate(first), np.concatenate(second)
+    return Cycles(lo=np.concatenate((np.minimum(a, b), rest.lo)), hi=np.concatenate((np.maximum(a, b), rest.hi)),
+                  count=np.concatenate((np.ones(a.size), rest.count)))
+
+
+def close_count(state: OpenCount, residue: str = "half") -> Cycles:
+    """The cycles the residue of a whole history gives, once its last chunk is counted.
+
+    Parameters
+    ----------
+    state : OpenCount — the count after the last chunk
+    residue : str — one of `RESIDUE_MODES`, as in `rainflow_cycles`: ``"half"`` the
+        residue's ranges as half cycles (count 0.5); ``"repeat"`` the residue closed as
+        one block of an endless repetition, full cycles
+
+    Returns
+    -------
+    Cycles — the residue's cycles [unit of the drive, SI]; empty for a constant history.
+
+    Notes
+    -----
+    ``"repeat"``: the full cycles of the history and the cycles of its residue counted
+    as a repeated block (`rainflow_cycles` with ``"repeat"``) together are the cycles of
+    the history counted as a repeated block: the closed loop of `rainflow_cycles` closes
+    the residue, and the cycles the history already closed stay closed in it (the tests
+    check it against `rainflow_cycles`).
+    """
+    if residue not in RESIDUE_MODES:
+        raise InputError(
+            f"close_count: residue must be one of {', '.join(repr(m) for m in RESIDUE_MODES)}, got {residue!r}"
+        )
+    return rainflow_cycles(state.residue, residue)
+
+
+def rainflow_chunks(
+    chunks: Iterable[np.ndarray],
+    residue: str = "half",
+    on_chunk: Callable[[int], None] | None = None,
+) -> Cycles:
+    """Rainflow-count a history given as a sequence of chunks; identical cycles merged.
+
+    Parameters
+    ----------
+    chunks : Iterable[np.ndarray] — the history's samples, chunk after chunk, in time
+        order [unit of the drive, SI]
+    residue : str — one of `RESIDUE_MODES`, as in `rainflow_cycles`
+    on_chunk : Callable[[int], None] | None — called after each chunk with the number of
+        samples counted so far (for a progress display; the library prints nothing)
+
+    Returns
+    -------
+    Cycles — `merge_identical` of the cycles `rainflow_cycles` gives for the whole
+    history (exactly: same extremes, same total counts per pair).
+    """
+    if residue not in RESIDUE_MODES:
+        raise InputError(
+            f"rainflow_chunks: residue must be one of {', '.join(repr(m) for m in RESIDUE_MODES)}, got {residue!r}"
+        )
+    state = OPEN
+    parts: list[Cycles] = []
+    held = 0
+    for chunk in chunks:
+        step = count_chunk(state, chunk)
+        state = step.open
+        if step.full.lo.size:
+            parts.append(merge_identical(step.full))
+            held += parts[-1].lo.size
+        if held > MERGE_EVERY and len(parts) > 1:  # bound the memory: merge what is held so far
+            parts = [_merged(parts)]
+            held = parts[0].lo.size
+        if on_chunk is not None:
+            on_chunk(state.samples)
+    parts.append(close_count(state, residue))
+    return _merged(parts)
+
+
+MERGE_EVERY = 2_000_000  # distinct cycles held before the chunks' cycles are merged together
+
+
+def _merged(parts: list[Cycles]) -> Cycles:
+    """`merge_identical` of several Cycles joined."""
+    return merge_identical(Cycles(
+        lo=np.concatenate([p.lo for p in parts]),
+        hi=np.concatenate([p.hi for p in parts]),
+        count=np.concatenate([p.count for p in parts]),
+    ))

@@ -680,3 +680,48 @@ def test_size_wrong_input_exits_2_with_the_reason(tmp_path, drive, lo, hi, args,
     assert ran.code == 2, ran
     assert says in ran.err and "Traceback" not in ran.err
     assert not out.exists()
+
+
+# --- lean start ---------------------------------------------------------------------------------
+
+WORKTREE = Path(__file__).resolve().parent.parent
+HEAVY = ("matplotlib", "scipy.integrate", "scipy.optimize", "scipy.interpolate", "scipy.special", "life.report",
+         "life.outputs", "life.compare")
+
+
+def _modules_after(args: list[str]) -> set[str]:
+    """The modules a fresh Python holds after ``bendlife ARGS`` (run through life.cli.main from this tree)."""
+    code = ("import sys\nsys.argv = ['bendlife', *sys.argv[1:]]\nfrom life.cli import main\n"
+            "try:\n    main()\nexcept SystemExit:\n    pass\nprint('MODULES', ' '.join(sorted(sys.modules)))")
+    proc = subprocess.run([sys.executable, "-c", code, *args], cwd=WORKTREE, capture_output=True, text=True, timeout=120)
+    line = [ln for ln in proc.stdout.splitlines() if ln.startswith("MODULES")][-1]
+    return set(line.split()[1:])
+
+
+def test_help_imports_neither_matplotlib_scipy_nor_pandas():
+    """Lean start: ``bendlife --help`` loads none of the heavy libraries (the commands import them)."""
+    loaded = _modules_after(["--help"])
+    assert not {m for m in loaded if m.split(".")[0] in ("matplotlib", "scipy", "pandas", "pint")}
+    assert not loaded & set(HEAVY)
+
+
+def test_check_imports_no_matplotlib_and_no_scipy_submodule():
+    """``bendlife check`` loads no matplotlib and none of scipy's numerical submodules. (pint, which
+    parses the units, imports scipy's top-level package only, to learn that it is there.)"""
+    loaded = _modules_after(["check", str(cli_module.example_design())])
+    assert not {m for m in loaded if m.split(".")[0] == "matplotlib"}
+    assert not loaded & set(HEAVY)
+    assert not {m for m in loaded if m.startswith("scipy.") and m.split(".")[1] in ("integrate", "optimize", "linalg",
+                                                                                    "interpolate", "special", "stats")}
+
+
+def test_progress_bar_only_for_long_files_on_a_terminal(monkeypatch):
+    """The run's progress callback draws nothing for a file under PROGRESS_BYTES, nor when stderr is
+    not a terminal (as under pytest); it accepts the library's (bytes read, total) calls."""
+    with cli_module._progress() as progress:
+        progress(10, 100)
+        progress(cli_module.PROGRESS_BYTES, 2 * cli_module.PROGRESS_BYTES)
+    monkeypatch.setattr(sys.stderr, "isatty", lambda: True, raising=False)
+    with cli_module._progress() as progress:
+        progress(10, 100)  # short file: still no bar
+        assert progress.__self__.bar is None

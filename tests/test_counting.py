@@ -434,3 +434,149 @@ def test_merge_by_hand():
 def test_merge_of_no_cycles_is_empty():
     empty = rainflow_cycles(np.array([1.0, 1.0]))
     assert merge_identical(empty).lo.size == 0
+
+
+# --- the vectorised count against the reference package, and chunked counting ------------
+
+from spectra.counting import OPEN, close_count, count_chunk, rainflow_chunks  # noqa: E402
+
+# Histories the four-point formulation must get right: few distinct values (ties X == Y,
+# plateaus), wide-range floats (ranges that round alike), short and monotone ones.
+plateau_histories = st.lists(st.integers(min_value=-3, max_value=3), min_size=3, max_size=200)
+wide_floats = st.lists(
+    st.one_of(st.floats(min_value=-1e6, max_value=1e6, allow_nan=False, allow_infinity=False),
+              st.sampled_from([0.0, 1e-11, -1e-11, 1e6, -1e6, 0.5, 1e6 - 1e-10])),
+    min_size=3, max_size=120,
+)
+# Floats for chunked counting: binary fractions and rounding-prone values, but no differences so small
+# (below about 1e-154) that the product of two of them underflows to zero: there the reference's
+# reversal test (d1 * d2 < 0) fails to see a turn, and which turn it misses depends on the neighbours.
+chunk_floats = st.lists(
+    st.one_of(st.integers(min_value=-10**7, max_value=10**7).map(lambda k: k / 1024.0),
+              st.sampled_from([0.0, 1e-11, -1e-11, 1e6, -1e6, 0.1, 1e6 - 1e-10])),
+    min_size=2, max_size=120,
+)
+monotone_histories = st.lists(st.floats(min_value=-1e3, max_value=1e3, allow_nan=False), min_size=3, max_size=40).map(sorted)
+
+
+def package_cycles(history: list[float]) -> list[tuple[float, float, float]]:
+    """Reference: `rainflow.extract_cycles`, each cycle as (min, max, count) read from the history, in its order."""
+    out = []
+    for _, _, n, i, j in rainflow.extract_cycles(history):
+        a, b = history[i], history[j]
+        out.append((float(min(a, b)), float(max(a, b)), float(n)))
+    return out
+
+
+@settings(max_examples=500)
+@given(st.one_of(plateau_histories, wide_floats, monotone_histories, integer_histories.filter(lambda h: len(h) >= 3)))
+def test_cycles_equal_the_rainflow_package_one_by_one(history):
+    """Reference: `rainflow.extract_cycles` (ASTM E1049-85 §5.4.4): every cycle, full and
+    half, with the same extremes, the same count and in the same order. Exact: the same
+    floating-point ranges are compared, no tolerance."""
+    assume(min(history) != max(history))
+    cycles = rainflow_cycles(np.array(history, dtype=float))
+    got = list(zip(cycles.lo.tolist(), cycles.hi.tolist(), cycles.count.tolist()))
+    assert got == package_cycles(history)
+
+
+@settings(max_examples=300)
+@given(st.one_of(plateau_histories, wide_floats))
+def test_reversals_equal_the_package_on_plateaus_and_wide_floats(history):
+    """Reference: `rainflow.reversals` on histories with long plateaus and wide-range floats."""
+    np.testing.assert_array_equal(reversals(np.array(history, dtype=float)), package_reversals(history))
+
+
+def test_cycles_equal_the_package_on_a_long_random_walk():
+    """Reference: `rainflow.extract_cycles` on a seeded 20 000-sample random walk rounded to
+    integers (many ties and plateaus, deep nesting of cycles): identical cycle list."""
+    walk = np.round(np.cumsum(np.random.default_rng(7).normal(size=20_000)) * 3)
+    cycles = rainflow_cycles(walk)
+    got = list(zip(cycles.lo.tolist(), cycles.hi.tolist(), cycles.count.tolist()))
+    assert got == package_cycles(walk.tolist())
+
+
+def chunked(signal: np.ndarray, cuts: list[int]) -> list[np.ndarray]:
+    """The signal cut at the given sample positions (sorted, duplicates give empty chunks)."""
+    return np.split(signal, sorted(c % (signal.size + 1) for c in cuts))
+
+
+@pytest.mark.parametrize("residue", RESIDUE_MODES)
+@settings(max_examples=300)
+@given(st.one_of(plateau_histories, integer_histories.filter(lambda h: len(h) >= 2), chunk_floats),
+       st.lists(st.integers(min_value=0, max_value=400), max_size=6))
+def test_chunked_count_equals_the_whole_history_count(residue, history, cuts):
+    """Counting chunk by chunk with the residue carried gives the cycles of counting the
+    whole history at once (`rainflow_cycles`, itself checked against the package), merged:
+    the same (lo, hi) pairs with the same counts, for any cuts, empty chunks included.
+    Exact: counts are multiples of 0.5, extremes are samples."""
+    signal = np.array(history, dtype=float)
+    whole = merge_identical(rainflow_cycles(signal, residue))
+    streamed = rainflow_chunks(chunked(signal, cuts), residue)
+    assert as_dict(streamed) == as_dict(whole)
+    assert streamed.n_total == whole.n_total
+
+
+def test_chunk_state_carries_samples_and_ends_with_the_last_sample():
+    """The open count holds the residue's reversals, ending with the last sample read.
+    Hand calc: 0, 2, 1 then 3, 2.5: after the first chunk the residue is 0, 2, 1 (no
+    cycle closes); 3 closes 2..1 (Y = 1 <= X = 2, Y0 = 2 > Y): full cycle (1, 2); the
+    residue is 0, 3, 2.5 and 5 samples were read."""
+    first = count_chunk(OPEN, np.array([0.0, 2.0, 1.0]))
+    assert first.full.lo.size == 0
+    np.testing.assert_array_equal(first.open.residue, [0.0, 2.0, 1.0])
+    second = count_chunk(first.open, np.array([3.0, 2.5]))
+    assert as_dict(second.full) == {(1.0, 2.0): 1.0}
+    np.testing.assert_array_equal(second.open.residue, [0.0, 3.0, 2.5])
+    assert second.open.samples == 5
+    assert as_dict(close_count(second.open)) == {(0.0, 3.0): 0.5, (2.5, 3.0): 0.5}
+
+
+def test_rainflow_chunks_reports_progress_in_samples():
+    """The callback receives the samples counted so far after every chunk; the library prints nothing."""
+    seen = []
+    rainflow_chunks([np.zeros(3), np.ones(4), np.zeros(2)], on_chunk=seen.append)
+    assert seen == [3, 7, 9]
+
+
+@pytest.mark.parametrize("residue", RESIDUE_MODES)
+@settings(max_examples=200)
+@given(st.one_of(plateau_histories, chunk_floats, integer_histories.filter(lambda h: len(h) >= 2)))
+def test_order_any_gives_the_same_cycles(residue, history):
+    """order="any" (chunked, unordered) gives exactly the cycles of the default order, as pairs
+    (lo, hi) with their counts; the default order is checked one by one against the package."""
+    signal = np.tile(np.array(history, dtype=float), 3)
+    fast = rainflow_cycles(signal, residue, order="any")
+    assert as_dict(fast) == as_dict(rainflow_cycles(signal, residue))
+    assert fast.lo.size == rainflow_cycles(signal, residue).lo.size
+
+
+def test_order_any_across_chunks_of_a_long_walk(monkeypatch):
+    """Reference: `rainflow.extract_cycles` on a seeded 50 000-sample integer random walk, counted by
+    order="any" in chunks of 4096 samples: the same multiset of (min, max, count)."""
+    from spectra import counting
+
+    monkeypatch.setattr(counting, "SIGNAL_CHUNK", 4096)
+    walk = np.round(np.cumsum(np.random.default_rng(9).normal(size=50_000)) * 2)
+    fast = rainflow_cycles(walk, order="any")
+    got = sorted(zip(fast.lo.tolist(), fast.hi.tolist(), fast.count.tolist()))
+    assert got == sorted(package_cycles(walk.tolist()))
+
+
+def test_unknown_order_is_rejected():
+    with pytest.raises(InputError, match="order must be 'counted' or 'any'"):
+        rainflow_cycles(np.array([0.0, 1.0, 0.0]), order="fast")
+
+
+@pytest.mark.parametrize("history", [[0.0, 1.0, 0.0, 4.9651316959034736e-248, 0.0, 1.0],
+                                     [0.0, 1.0, 0.0, 4.9651316959034736e-248, 0.0, 1.0, 0.0],
+                                     [0.0, 1e-200, 0.0, 1e-200, 2e-200, 0.0, 3.0]])
+def test_underflowing_turns_are_counted_as_the_package_does(history):
+    """Steps so small that d1·d2 underflows to 0: the reference misses the turn and its reversals do not
+    alternate. Reference: `rainflow.extract_cycles`, one by one (found by hypothesis on the float strategy)."""
+    for order in ("counted", "any"):
+        cycles = rainflow_cycles(np.array(history), order=order)
+        got = list(zip(cycles.lo.tolist(), cycles.hi.tolist(), cycles.count.tolist()))
+        assert sorted(got) == sorted(package_cycles(history))
+        if order == "counted":
+            assert got == package_cycles(history)

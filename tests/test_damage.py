@@ -148,3 +148,101 @@ def test_strain_basis_transverse_curve_sees_stress_over_modulus():
     transverse = locs.family == "transverse"
     assert np.abs(locs.response[transverse]).max() < 1e-9 * np.abs(locs.response[locs.family == "fibre"]).max()
     assert np.abs(resp.strain_12[..., 1]).max() > 0.2 * np.abs(resp.strain_12[..., 0]).max()  # ε2 ≈ −0.26 ε1 is there
+
+
+# --- damage at scale: exact merging, and the bracket ------------------------------------------
+
+from life import damage as damage_module  # noqa: E402
+from life.meanstress import RULES  # noqa: E402
+from spectra.counting import rainflow_cycles  # noqa: E402
+
+
+def _library_models(rule: str):
+    """A fatigue model per library material and mode with a curve (build_models), for ``rule``."""
+    return build_models(list(library().values()), rule).models
+
+
+@pytest.mark.parametrize("rule", damage_module.BRACKET_RULES)
+@settings(max_examples=300)
+@given(st.data())
+def test_a_wider_local_cycle_never_has_more_cycles_to_failure(rule, data):
+    """The property the bracket rests on (Notes of miner_damage): under goodman, gerber and none, a local
+    cycle [lo, hi] inside another [lo - a, hi + b] (a, b >= 0) has at least as many cycles to failure,
+    for every library material and mode, anywhere inside the static strengths and beyond them.
+    Reference: the models themselves (life.meanstress, checked against published cases elsewhere);
+    rel 1e-9: lives are computed through logarithms, equal lives may differ in the last digits."""
+    models = _library_models(rule)
+    model = models[data.draw(st.integers(0, len(models) - 1))]
+    X = max(model.Xt, model.Xc)
+    u = data.draw(st.lists(st.floats(-1.2, 1.2), min_size=2, max_size=2))
+    lo, hi = sorted(v * X for v in u)
+    a, b = (data.draw(st.floats(0.0, 0.3)) * X for _ in range(2))
+    inner = model.cycles_to_failure(np.array([lo]), np.array([hi]))[0]
+    outer = model.cycles_to_failure(np.array([lo - a]), np.array([hi + b]))[0]
+    assert outer <= inner * (1 + 1e-9)
+
+
+def _example_locations():
+    """Locations of a tapered glass/epoxy cantilever with a woven skin (the bundled example's materials)."""
+    lib = library()
+    plies = [Ply(lib["glass-epoxy-woven"], 0.0, 0.25e-3)] + [Ply(lib["e-glass-epoxy"], 0.0, 0.8e-3)] * 6 + \
+        [Ply(lib["glass-epoxy-woven"], 0.0, 0.25e-3)]
+    resp = respond(Beam("cantilever", 0.3, 0.06, 0.036, tuple(plies), stations=12))
+    return resp, locations(resp, build_models([lib["e-glass-epoxy"], lib["glass-epoxy-woven"]], "goodman"), 1.0)
+
+
+def _ride(n: int, seed: int) -> np.ndarray:
+    """A seeded ride-like deflection [m]: 28 mm sag, ±10 mm swell, 0.3 mm noise, quantised to 0.01 mm."""
+    rng = np.random.default_rng(seed)
+    t = np.arange(n) / 500.0
+    x = 28.0 + 10.0 * np.sin(2 * np.pi * 1.7 * t) * np.sin(2 * np.pi * 0.05 * t) + rng.normal(scale=0.3, size=n)
+    return np.round(x, 2) * 1e-3
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_bracketed_damage_bounds_the_exact_damage_and_keeps_the_life(monkeypatch, seed):
+    """Reference: the same damage evaluated cycle by cycle (EXACT_PAIRS unlimited). Forced to bracket
+    (EXACT_PAIRS = 1): every location's exact damage lies in [lower, damage]; the largest damage, its
+    location and every static-failure flag equal the exact ones (rel 1e-12: only the order of summing
+    differs, identical cycles merged)."""
+    resp, locs = _example_locations()
+    cycles = rainflow_cycles(_ride(20_000, seed))
+    fpd = 1.0 / resp.compliance
+    exact = miner_damage(locs, cycles, fpd, 1.0)
+    monkeypatch.setattr(damage_module, "EXACT_PAIRS", 1)
+    bracketed = miner_damage(locs, cycles, fpd, 1.0)
+    assert bracketed.aggregation == "bracketed"
+    assert np.all(bracketed.lower <= exact.damage * (1 + 1e-12))
+    assert np.all(exact.damage <= bracketed.damage * (1 + 1e-12))
+    k = int(np.argmax(exact.damage))
+    assert int(np.argmax(bracketed.damage)) == k
+    assert bracketed.damage[k] == pytest.approx(exact.damage[k], rel=1e-12)
+    assert bracketed.lower[k] == bracketed.damage[k]  # evaluated exactly there
+    np.testing.assert_array_equal(bracketed.static_failure, exact.static_failure)
+
+
+def test_merged_cycles_give_the_same_damage(monkeypatch):
+    """Exact aggregation: beyond EXACT_PAIRS (here 1) with the bracket switched off, identical cycles are
+    merged and the damage equals cycle-by-cycle evaluation (rel 1e-12: only the order of summing differs)."""
+    resp, locs = _example_locations()
+    cycles = rainflow_cycles(_ride(5_000, 4))
+    fpd = 1.0 / resp.compliance
+    exact = miner_damage(locs, cycles, fpd, 1.0)
+    monkeypatch.setattr(damage_module, "EXACT_PAIRS", 1)
+    monkeypatch.setattr(damage_module, "BRACKET_RULES", ())
+    merged = miner_damage(locs, cycles, fpd, 1.0)
+    assert merged.aggregation == "identical cycles merged" and merged.lower is None
+    assert np.count_nonzero(exact.damage) > 0
+    np.testing.assert_allclose(merged.damage, exact.damage, rtol=1e-12, atol=0.0)
+
+
+def test_cld_is_never_bracketed(monkeypatch):
+    """A constant-life diagram may fold back (model_warnings), so the inclusion property is not assumed:
+    cld damage stays exact (merged) even far beyond EXACT_PAIRS."""
+    assert "cld" in RULES and "cld" not in damage_module.BRACKET_RULES
+    maple = library()["sugar-maple"]
+    resp = respond(Beam("cantilever", 0.3, 0.03, 0.03, (Ply(maple, 0.0, 5e-3), Ply(maple, 0.0, 5e-3)), stations=6))
+    locs = locations(resp, build_models([maple], "cld"), 1.0)
+    monkeypatch.setattr(damage_module, "EXACT_PAIRS", 1)
+    dmg = miner_damage(locs, rainflow_cycles(_ride(3_000, 5)), 1.0 / resp.compliance, 1.0)
+    assert dmg.aggregation == "identical cycles merged" and dmg.lower is None

@@ -33,7 +33,7 @@ from life import cli
 
 FUZZ_EXAMPLES = int(os.environ.get("BENDLIFE_FUZZ_EXAMPLES", "120"))
 
-SMALL = f"""\
+SMALL = """\
 title = "fuzz cantilever"
 [beam]
 support = "cantilever"

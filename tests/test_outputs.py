@@ -328,3 +328,19 @@ def test_a_parent_that_cannot_be_written_is_a_clear_error(files, tmp_path, monke
     with pytest.raises(InputError, match=r"--out .*out: cannot write beside it .*Permission denied.*you may write to"):
         write_files(files, tmp_path / "out")
     assert list(tmp_path.iterdir()) == []
+
+
+def test_cycles_csv_at_scale_holds_at_most_max_rows_and_says_binned(monkeypatch):
+    """Outputs at scale (DESIGN.md: an aggregated form at scale, said in the report): with MAX_CYCLE_ROWS
+    lowered to 100, the bundled example's cycle table has at most 100 rows, keeps the total count (exact:
+    multiples of 0.5 summed), and its note names the binning width."""
+    from life import outputs
+    from life.cli import example_design
+
+    result = estimate(load_design(example_design()))
+    monkeypatch.setattr(outputs, "MAX_CYCLE_ROWS", 100)
+    table, note = outputs.cycle_table(result)
+    assert len(table) <= 100
+    assert float(table["count"].sum()) == result.design.duty.cycles.n_total
+    assert "binned cycles" in note and "rounded to" in note
+    assert (table["max"] >= table["min"]).all()

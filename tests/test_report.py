@@ -305,3 +305,24 @@ def test_opens_in_a_real_browser(example, tmp_path):
     assert pixels.std() > 0.05  # blank white would be 0 (pixels in 0…1)
     colours = np.unique((pixels.reshape(-1, 3) * 255).round().astype(int), axis=0)
     assert len(colours) > 50  # a blank or single-box page has a handful
+
+
+def test_duty_figure_of_a_long_history_draws_its_envelope():
+    """A duty kept only as its min/max envelope (signal None, as for a long streamed history) is drawn as
+    the envelope, said in the figure title; the report stays small (no point-by-point plot)."""
+    import dataclasses
+
+    import numpy as np
+
+    from spectra.streaming import Envelope
+
+    result = estimate(load_design(example_design()))
+    duty = result.design.duty
+    start = np.arange(0, 4_000_000, 2048)
+    trace = Envelope(start=start, lo=np.full(start.size, 0.01), hi=np.full(start.size, 0.04), samples=4_000_000)
+    design = dataclasses.replace(result.design, duty=dataclasses.replace(duty, signal=None, trace=trace))
+    long = dataclasses.replace(result, design=design)
+    cycles, note = cycle_table(long)
+    text = report_html(long, cycles, note, location_table(long))
+    assert "4000000 samples; min/max of 1954 bins" in text  # 4e6 / 2048 rounded up
+    assert len(text) < 3_000_000

@@ -1,0 +1,305 @@
+"""Long time histories: a CSV column read in chunks, counted as it is read, and kept as an envelope.
+
+A measured duty can be far larger than memory (a day at 500 Hz is over 4·10⁷ samples). Here
+the drive column of a CSV file is read chunk by chunk (pandas' C parser, one column, float),
+each chunk is rainflow-counted with the residue carried to the next
+(`spectra.counting.count_chunk`), and the history is kept only as a min/max envelope for
+plots. A history of at most ``keep_signal`` samples is also kept whole, and counted at once
+with `spectra.counting.rainflow_cycles` (the cycles in the reference package's order);
+a longer one is counted in chunks, its identical cycles merged (the same cycles: the tests
+check it).
+
+The file format and every error message are those of `spectra.profiles.read_time_history`:
+when the fast reader meets anything it does not accept (a missing file or column, a cell
+that is not a finite number, a ragged row, a repeated column name, fewer than 2 samples),
+the file is read again by `read_time_history`, which raises the message with the file's
+line number. This layer knows no units: ``scale`` turns the file's numbers into SI.
+"""
+from __future__ import annotations
+
+import csv
+import math
+import queue
+import threading
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Callable, Iterator
+
+import numpy as np
+
+from spectra.counting import MERGE_EVERY, OPEN, Cycles, _merged, close_count, count_chunk, merge_identical, rainflow_cycles
+from spectra.errors import InputError
+from spectra.profiles import COMMENT, read_time_history
+
+CHUNK_SAMPLES = 1 << 20  # samples per chunk read: 8 MB of floats, a few times that in parser buffers
+ENVELOPE_BIN = 1 << 10  # samples per envelope bin while reading; CHUNK_SAMPLES is a multiple of it
+ENVELOPE_BINS = 2000  # bins of the envelope kept for plots (a line plot of this many points is light)
+KEEP_SIGNAL = 1_000_000  # histories up to this many samples are also kept whole (8 MB) and counted at once
+
+
+@dataclass(frozen=True, eq=False)  # eq=False: `==` on arrays has no single truth value
+class Envelope:
+    """A history decimated for plots: the smallest and largest sample of each bin of samples.
+
+    Attributes
+    ----------
+    start : np.ndarray — index of the first sample of each bin [-]
+    lo : np.ndarray — smallest sample in the bin [unit of the drive, SI]
+    hi : np.ndarray — largest sample in the bin [unit of the drive, SI]
+    samples : int — samples of the whole history [-]
+    """
+
+    start: np.ndarray
+    lo: np.ndarray
+    hi: np.ndarray
+    samples: int
+
+
+@dataclass(frozen=True, eq=False)
+class CountedHistory:
+    """A time history read and rainflow-counted.
+
+    Attributes
+    ----------
+    cycles : Cycles — the history's cycles [unit of the drive, SI]: for a kept history those of
+        `rainflow_cycles` in its order; for a longer one the same cycles with identical ones merged
+    samples : int — samples read [-]
+    signal : np.ndarray | None — the whole history [unit of the drive, SI], or None when it has
+        more than ``keep_signal`` samples
+    envelope : Envelope — min/max per bin, at most ENVELOPE_BINS bins
+    source : str — name of the file read
+    column : str — name of the column read
+    """
+
+    cycles: Cycles
+    samples: int
+    signal: np.ndarray | None
+    envelope: Envelope
+    source: str
+    column: str
+
+
+def _refuse(path: Path, column: str, scale: float, where: str) -> None:
+    """Raise the exact message of `read_time_history` for a file the fast reader did not accept."""
+    read_time_history(path, column, scale, where)  # raises with the file's line number
+    raise InputError(f"{where}: profile file '{path}' could not be read as a CSV table of numbers")
+
+
+def _header(path: Path) -> tuple[int, list[str]] | None:
+    """Bytes up to the end of the header line, and the header's names; None if there is none or it is not text."""
+    try:
+        with open(path, "rb") as fh:
+            offset = 0
+            for raw in fh:
+                line = raw.decode("utf-8-sig" if offset == 0 else "utf-8")
+                offset += len(raw)
+                if line.startswith(COMMENT) or not line.strip():
+                    continue
+                return offset, [name.strip() for name in next(csv.reader([line.rstrip("\r\n")]))]
+    except (OSError, UnicodeDecodeError):
+        return None
+    return None
+
+
+def history_chunks(
+    path: Path,
+    column: str,
+    scale: float,
+    where: str,
+    chunk_samples: int = CHUNK_SAMPLES,
+    on_bytes: Callable[[int, int], None] | None = None,
+) -> Iterator[np.ndarray]:
+    """Read one column of a CSV file as a drive signal in SI, chunk by chunk.
+
+    Parameters
+    ----------
+    path : Path — CSV file, the format of `spectra.profiles.read_time_history`
+    column : str — name of the column holding the drive
+    scale : float — factor from the file's numbers to SI [SI unit per file unit]
+    where : str — what asked for the file; every error message starts with it
+    chunk_samples : int — samples per chunk (> 0)
+    on_bytes : Callable[[int, int], None] | None — called after each chunk with the bytes of the
+        file read so far and the file's size (for a progress display)
+
+    Yields
+    ------
+    np.ndarray — the next samples × ``scale`` [SI], read-only; every chunk but the last has
+    ``chunk_samples`` samples
+
+    Raises
+    ------
+    InputError — as `read_time_history`, with the same messages, when the first bad cell is met.
+
+    Notes
+    -----
+    pandas' C parser reads the rows (all fields, so that a ragged row is refused), the drive
+    column as float64 (its "high" precision converter:
+    the same doubles as Python's float() for decimal numbers of up to 17 significant digits,
+    checked in the tests). Lines starting with ``#`` and blank lines are skipped, as by
+    `read_time_history`.
+    """
+    import pandas as pd  # here: the command line starts without pandas (lean start)
+
+    path = Path(path)
+    if not math.isfinite(scale) or scale == 0.0:
+        raise InputError(f"{where}: scale to SI must be a finite non-zero number, got {scale}")
+    head = _header(path)
+    if head is None:
+        _refuse(path, column, scale, where)
+    offset, names = head
+    if column not in names or len(set(names)) != len(names):
+        _refuse(path, column, scale, where)
+    size = path.stat().st_size
+    read = 0
+    with open(path, "rb") as fh:
+        fh.seek(offset)
+        try:
+            reader = pd.read_csv(
+                fh, header=None, names=names, dtype={column: np.float64}, engine="c",  # all columns: a ragged row is refused
+                comment=COMMENT, skip_blank_lines=True, chunksize=chunk_samples, encoding="utf-8",
+            )
+            for frame in reader:
+                with np.errstate(over="ignore"):  # an overflow is refused just below
+                    values = frame[column].to_numpy(dtype=np.float64) * scale
+                if not np.all(np.isfinite(values)):
+                    raise ValueError("a cell that is not a finite number")
+                read += values.size
+                values.flags.writeable = False
+                if on_bytes is not None:
+                    on_bytes(min(fh.tell(), size), size)
+                yield values
+        except (ValueError, pd.errors.ParserError, UnicodeDecodeError):
+            _refuse(path, column, scale, where)
+    if read < 2:
+        _refuse(path, column, scale, where)
+
+
+READ_AHEAD = 2  # chunks the reading thread may hold ready while the last one is counted
+
+
+def _read_ahead(chunks: Iterator[np.ndarray], depth: int = READ_AHEAD) -> Iterator[np.ndarray]:
+    """The chunks of ``chunks``, read by a second thread while the caller counts the previous ones.
+
+    pandas' C parser and numpy release the interpreter lock while they work, so reading and counting
+    overlap on two processors. An error while reading is raised here, in the caller's thread; the reader
+    stops when the caller stops asking.
+    """
+    ready: queue.Queue = queue.Queue(maxsize=depth)
+    stop = threading.Event()
+
+    def hand(item: tuple) -> bool:
+        while not stop.is_set():
+            try:
+                ready.put(item, timeout=0.1)
+                return True
+            except queue.Full:
+                continue
+        return False
+
+    def read() -> None:
+        try:
+            for chunk in chunks:
+                if not hand(("chunk", chunk)):
+                    return
+            hand(("end", None))
+        except BaseException as exc:  # handed to the caller's thread, raised there
+            hand(("error", exc))
+
+    reader = threading.Thread(target=read, name="bendlife-reader", daemon=True)
+    reader.start()
+    try:
+        while True:
+            kind, item = ready.get()
+            if kind == "end":
+                return
+            if kind == "error":
+                raise item
+            yield item
+    finally:
+        stop.set()
+        reader.join()
+
+
+def _envelope(parts: list[tuple[np.ndarray, np.ndarray]], samples: int, bins: int = ENVELOPE_BINS) -> Envelope:
+    """The envelope from per-bin (lo, hi) of ENVELOPE_BIN samples each, merged down to at most ``bins`` bins."""
+    lo = np.concatenate([p[0] for p in parts]) if parts else np.empty(0)
+    hi = np.concatenate([p[1] for p in parts]) if parts else np.empty(0)
+    group = max(1, math.ceil(lo.size / bins))
+    first = np.arange(0, lo.size, group)
+    if lo.size:
+        lo, hi = np.minimum.reduceat(lo, first), np.maximum.reduceat(hi, first)
+    return Envelope(start=first * ENVELOPE_BIN, lo=lo, hi=hi, samples=samples)
+
+
+def _bins(values: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Min and max of each ENVELOPE_BIN samples of a chunk."""
+    first = np.arange(0, values.size, ENVELOPE_BIN)
+    return np.minimum.reduceat(values, first), np.maximum.reduceat(values, first)
+
+
+def count_history(
+    path: Path,
+    column: str,
+    scale: float,
+    where: str,
+    residue: str = "half",
+    keep_signal: int = KEEP_SIGNAL,
+    progress: Callable[[int, int], None] | None = None,
+    chunk_samples: int = CHUNK_SAMPLES,
+) -> CountedHistory:
+    """Read a CSV drive column in chunks, rainflow-count it, keep its envelope (and the signal if short).
+
+    Parameters
+    ----------
+    path, column, scale, where : as `history_chunks`
+    residue : str — one of `spectra.counting.RESIDUE_MODES`, as in `rainflow_cycles`
+    keep_signal : int — the history is kept whole (and counted at once) up to this many samples
+    progress : Callable[[int, int], None] | None — called with (bytes read, file size) after each
+        chunk; the library prints nothing
+    chunk_samples : int — samples per chunk, a multiple of ENVELOPE_BIN
+
+    The file is read by a second thread while the chunks read are counted (`_read_ahead`).
+
+    Returns
+    -------
+    CountedHistory — cycles, sample count, envelope, and the signal when it was kept.
+
+    Raises
+    ------
+    InputError — the messages of `read_time_history`; an unknown ``residue``.
+    """
+    if chunk_samples <= 0 or chunk_samples % ENVELOPE_BIN:
+        raise InputError(f"count_history: chunk_samples must be a positive multiple of {ENVELOPE_BIN}, got {chunk_samples}")
+    close_count(OPEN, residue)  # an unknown residue mode is refused before the file is read
+    kept: list[np.ndarray] | None = []
+    bins: list[tuple[np.ndarray, np.ndarray]] = []
+    state = OPEN
+    parts: list[Cycles] = []
+    held = samples = 0
+    for values in _read_ahead(history_chunks(path, column, scale, where, chunk_samples, progress)):
+        samples += values.size
+        bins.append(_bins(values))
+        if kept is not None:
+            kept.append(values)
+            if samples <= keep_signal:
+                continue
+            pending, kept = kept, None  # too long to keep: count what was held, then stream
+        else:
+            pending = [values]
+        for chunk in pending:
+            step = count_chunk(state, chunk)
+            state = step.open
+            if step.full.lo.size:
+                parts.append(merge_identical(step.full))
+                held += parts[-1].lo.size
+        if held > MERGE_EVERY and len(parts) > 1:  # bound the memory: merge what is held so far
+            parts = [_merged(parts)]
+            held = parts[0].lo.size
+    envelope = _envelope(bins, samples)
+    name = Path(path).name
+    if kept is not None:
+        signal = np.concatenate(kept)
+        signal.flags.writeable = False
+        return CountedHistory(rainflow_cycles(signal, residue), samples, signal, envelope, name, column)
+    parts.append(close_count(state, residue))
+    return CountedHistory(_merged(parts), samples, None, envelope, name, column)
