@@ -131,7 +131,6 @@ def bar_figure(table: pd.DataFrame, results: Sequence[LifeResult]) -> str:
         for ax in axes:
             ax.set_xlabel("design")
             ax.grid(axis="x", visible=False)
-        fig.tight_layout()
         return _svg(fig, "bars")
 
 
@@ -153,7 +152,6 @@ def overlay_figure(results: Sequence[LifeResult]) -> str:
         a2.set_ylabel("largest |ε1| at the faces [%]")
         a2.set_title("fibre-strain envelope along the span")
         a1.legend(loc="upper left")
-        fig.tight_layout()
         return _svg(fig, "overlay")
 
 

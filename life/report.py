@@ -11,6 +11,7 @@ from __future__ import annotations
 import hashlib
 import html
 import io
+import math
 from dataclasses import dataclass
 from datetime import datetime, timezone
 from importlib import metadata
@@ -26,6 +27,7 @@ import pandas as pd  # noqa: E402
 from cycler import cycler  # noqa: E402
 from matplotlib.colors import LogNorm  # noqa: E402
 from matplotlib.patches import Rectangle  # noqa: E402
+from matplotlib.ticker import FuncFormatter, LogLocator, NullFormatter  # noqa: E402
 
 from life.damage import FACES, FIRST_LOAD_FAILURE, cycle_lives  # noqa: E402
 from life.estimate import CAUTION, LifeResult  # noqa: E402
@@ -115,11 +117,36 @@ def _e(value) -> str:
     return html.escape(str(value))
 
 
+SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
+
+
+def _power_of_ten(value: float, _position=None) -> str:
+    """A log-axis label as plain text, 10⁻³: no TeX-like markup to parse (that alone took 0.5 s per report)."""
+    if not value > 0:
+        return ""
+    exponent = math.log10(value)
+    if abs(exponent - round(exponent)) > 1e-9:
+        return ""
+    return "10" + str(int(round(exponent))).translate(SUPERSCRIPT)
+
+
+def _plain_log_labels(fig) -> None:
+    """Every log-scaled axis of the figure (colour bars included) labelled at whole decades, as plain text."""
+    for ax in fig.axes:
+        for axis in (ax.xaxis, ax.yaxis):
+            if axis.get_scale() == "log":
+                axis.set_major_locator(LogLocator(base=10.0, numticks=8))
+                axis.set_major_formatter(FuncFormatter(_power_of_ten))
+                axis.set_minor_formatter(NullFormatter())
+
+
 def _svg(fig, name: str) -> str:
     """The figure as an inline <svg> element (no XML prologue, no date), then closed."""
     buf = io.StringIO()
+    _plain_log_labels(fig)
+    fig.tight_layout()  # one layout pass; a "tight" bounding box at saving would draw the figure twice more
     with plt.rc_context({"svg.hashsalt": name}):  # distinct element ids per figure in one page
-        fig.savefig(buf, format="svg", bbox_inches="tight", metadata={"Date": None})
+        fig.savefig(buf, format="svg", metadata={"Date": None})
     plt.close(fig)
     text = buf.getvalue()
     return text[text.index("<svg"):]
@@ -454,7 +481,6 @@ def figure_duty(result: LifeResult, cycles: pd.DataFrame) -> str:
         ax.set_ylabel(f"cycle range [{unit}]")
         ax.set_title(f"rainflow matrix: {float(count.sum()):.6g} cycles per block")
         ax.grid(False)
-        fig.tight_layout()
         return _svg(fig, "duty")
 
 
@@ -584,7 +610,6 @@ def figure_damage(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFr
         a3.set_ylabel("cycles per block (line)", color=PALETTE[2])
         a3.grid(False)
         a2.set_title("damage by cycle range at the critical location")
-        fig.tight_layout()
         return _svg(fig, "damage")
 
 
