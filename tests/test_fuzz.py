@@ -38,7 +38,7 @@ title = "fuzz cantilever"
 [beam]
 support = "cantilever"
 span = "150 mm"
-width = {{ root = "20 mm", tip = "10 mm" }}
+width = { root = "20 mm", tip = "10 mm" }
 stations = 4
 
 [[ply]]
@@ -60,7 +60,7 @@ count = 2
 
 [duty]
 drive = "deflection"
-cycles = [ {{ min = "1 mm", max = "8 mm", count = 1000 }}, {{ min = "-2 mm", max = "3 mm", count = 20 }} ]
+cycles = [ { min = "1 mm", max = "8 mm", count = 1000 }, { min = "-2 mm", max = "3 mm", count = 20 } ]
 blocks_per_day = 4
 
 [fatigue]
