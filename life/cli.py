@@ -132,8 +132,9 @@ def count(
     """Rainflow-count a time history (ASTM E1049-85) and print the cycle table."""
     from life import terminal
     from mechanics.units import unit_factor
-    from spectra.counting import RESIDUE_MODES, merge_identical, rainflow_cycles
-    from spectra.profiles import read_time_history
+    from spectra.counting import RESIDUE_MODES, merge_identical
+    from spectra.profiles import refuse_headerless
+    from spectra.streaming import count_history
 
     if residue not in RESIDUE_MODES:
         raise LifeInputError(f"--residue: must be one of {', '.join(RESIDUE_MODES)}, got {residue!r}")
@@ -142,9 +143,15 @@ def count(
     if top < 0:
         raise LifeInputError(f"--top: a number of rows >= 0 (0 shows all), got {top}")
     scale = unit_factor(unit, "--unit")
-    history = read_time_history(profile, column, scale, "count")
-    cycles = merge_identical(rainflow_cycles(history.values, residue))
-    typer.echo(terminal.cycle_text(cycles, unit, scale, top, history.values.size, residue))
+    refuse_headerless(profile, f"count: profile file '{profile}'")
+    with _progress() as progress:
+        history = count_history(profile, column, scale, "count", residue, progress=progress)
+    if float(history.envelope.hi.max()) == float(history.envelope.lo.min()):
+        raise LifeInputError(f"count: profile file '{profile}', column {column!r} is constant "
+                             f"({float(history.envelope.lo.min()) / scale:g} {unit} in all {history.samples} samples): "
+                             "no cycle to count; a time history must vary")
+    cycles = merge_identical(history.cycles)
+    typer.echo(terminal.cycle_text(cycles, unit, scale, top, history.samples, residue))
 
 
 @app.command()

@@ -25,7 +25,7 @@ from mechanics.materials import Material, resolve_materials
 from mechanics.units import dimension_name, parse_quantity, unit_factor
 from spectra import errors as spectra_errors
 from spectra.counting import RESIDUE_MODES, Cycles
-from spectra.profiles import COMMENT, block_table, bundled_profile
+from spectra.profiles import block_table, bundled_profile, refuse_headerless
 from spectra.streaming import Envelope, count_history
 
 BUNDLED_PREFIX = "bundled:"  # profile = "bundled:NAME" reads a demo profile shipped with bendlife
@@ -260,24 +260,6 @@ def _unit_of_drive(unit: str, drive: str, where: str) -> None:
                          f"e.g. {DRIVE_UNIT[drive]}") from None
 
 
-def _check_header(path: Path, profile: str, where: str) -> None:
-    """Refuse a profile whose first line (after comments) holds numbers only: data without a header line."""
-    try:
-        with open(path, encoding="utf-8-sig") as fh:
-            for number, line in enumerate(fh, start=1):
-                if line.startswith(COMMENT) or not line.strip():
-                    continue
-                cells = [c.strip() for c in line.split(",")]
-                try:
-                    [float(c) for c in cells]
-                except ValueError:
-                    return  # a header of names
-                raise InputError(f"{where} profile: {profile}, line {number}: {line.strip()!r} is data, not a header; "
-                                 "the first line that is not a comment must name the columns, e.g. time_s,deflection")
-    except (OSError, UnicodeDecodeError):
-        return  # read_time_history says what is wrong with the file
-
-
 def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
           progress: Callable[[int, int], None] | None = None) -> Duty:
     t = _table(doc, "duty", name)
@@ -317,7 +299,7 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
             if not isinstance(column, str) or not column.strip():
                 raise InputError(f"{where} column: the name of the profile's column as a string, e.g. \"deflection\", "
                                  f"got {column!r}")
-            _check_header(path, profile, where)
+            refuse_headerless(path, f"{where} profile: {profile}")
             history = count_history(path, column, scale, f"{where} profile", residue, progress=progress)
             low, high = float(history.envelope.lo.min()), float(history.envelope.hi.max())
             if high == low:

@@ -58,6 +58,27 @@ def _data_lines(text: str) -> tuple[str, list[int]]:
     return "\n".join(kept) + "\n", numbers
 
 
+def refuse_headerless(path: Path, where: str) -> None:
+    """Refuse a profile whose first line that is not a comment holds numbers only: data without a header.
+
+    Without this check the first sample would be taken for the column names, and the message would say
+    that the column is missing. A file that cannot be read passes: the reader says what is wrong with it.
+    """
+    try:
+        with open(path, encoding="utf-8-sig") as fh:
+            for number, line in enumerate(fh, start=1):
+                if line.startswith(COMMENT) or not line.strip():
+                    continue
+                try:
+                    [float(cell) for cell in line.split(",")]
+                except ValueError:
+                    return  # a header of names
+                raise InputError(f"{where}, line {number}: {line.strip()!r} is data, not a header; the first line "
+                                 "that is not a comment must name the columns, e.g. time_s,deflection")
+    except (OSError, UnicodeDecodeError):
+        return
+
+
 def read_time_history(path: Path, column: str, scale: float, where: str) -> TimeHistory:
     """Read one column of a CSV file as a drive signal in SI.
 

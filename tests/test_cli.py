@@ -266,6 +266,21 @@ def test_count_with_a_missing_column_exits_2(monkeypatch, capsys):
     assert ran.code == 2 and "'nope'" in ran.err and "deflection_mm" in ran.err
 
 
+@pytest.mark.parametrize("text, words", [
+    ("0.1\n0.2\n0.5\n", ["line 1", "'0.1' is data, not a header", "must name the columns"]),
+    ("# logged\nd\n3\n3\n3\n", ["column 'd' is constant", "3 mm in all 3 samples", "no cycle to count"]),
+])
+def test_count_refuses_a_headerless_or_constant_history(text, words, tmp_path, monkeypatch, capsys):
+    """`bendlife count` says what the design loader says about the same files: exit 2, the file, the line or
+    column, and what would be right (issue 5, profiles)."""
+    path = tmp_path / "h.csv"
+    path.write_text(text, encoding="utf-8")
+    ran = bendlife(["count", path, "--column", "d", "--unit", "mm"], monkeypatch, capsys)
+    assert ran.code == 2 and ran.err.startswith("bendlife: count: profile file") and "h.csv" in ran.err
+    assert all(w in ran.err for w in words), ran.err
+    assert "Traceback" not in ran.err and len(ran.err.strip().splitlines()) == 1
+
+
 def test_materials_lists_the_six_bundled(monkeypatch, capsys):
     ran = bendlife(["materials"], monkeypatch, capsys)
     assert ran.code == 0
