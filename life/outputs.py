@@ -11,7 +11,7 @@ import os
 import shutil
 import tempfile
 from pathlib import Path
-from typing import Mapping, Sequence
+from typing import TYPE_CHECKING, Mapping, Sequence
 
 import numpy as np
 import pandas as pd
@@ -20,9 +20,11 @@ from life.damage import FACES
 from life.errors import InputError
 from life.estimate import LifeResult
 from life.report import report_html
-from life.sizing import SizingAnswer, sizing_rows
 from mechanics.energy import cycle_energy
 from spectra.counting import Cycles, merge_identical
+
+if TYPE_CHECKING:  # life.sizing loads scipy.optimize (0.3 s): only `bendlife size` needs it
+    from life.sizing import SizingAnswer
 
 MAX_CYCLE_ROWS = 20_000  # beyond this many distinct cycles, cycles.csv holds them binned (said in the report)
 BIN_RESOLUTION = 1e-4  # bin width as a fraction of the largest |drive| when binning
@@ -143,6 +145,8 @@ def render(result: LifeResult, sizing: Sequence[tuple[str, str, str]] | None = N
 
 def sizing_json(answer: SizingAnswer) -> str:
     """sizing.json: the target, every step with its factor, the before/after table and both summaries."""
+    from life.sizing import sizing_rows
+
     def proposal(p) -> dict:
         return {"file": p.name, "steps": [{"what": st.what, "factor": st.factor, "note": st.note} for st in p.steps],
                 "summary": p.result.summary()}

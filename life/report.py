@@ -122,7 +122,7 @@ SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
 
 def _power_of_ten(value: float, _position=None) -> str:
     """A log-axis label as plain text, 10⁻³: no TeX-like markup to parse (that alone took 0.5 s per report)."""
-    if not value > 0:
+    if not (value > 0 and math.isfinite(value)):
         return ""
     exponent = math.log10(value)
     if abs(exponent - round(exponent)) > 1e-9:

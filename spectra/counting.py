@@ -471,15 +471,31 @@ def _full_cycles(cycles: Cycles) -> Cycles:
     if first.size != second.size or np.any(cycles.lo[first] != cycles.lo[second]) or np.any(
         cycles.hi[first] != cycles.hi[second]
     ):
-        raise RuntimeError(
-            f"rainflow_cycles: the closed loop left half cycles that do not pair "
-            f"(lo {cycles.lo[halves].tolist()}, hi {cycles.hi[halves].tolist()}); this is a fault in bendlife"
-        )
+        return _paired_by_extremes(cycles, halves)
     keep = np.ones(cycles.count.size, dtype=bool)
     keep[first] = False
     count = cycles.count.copy()
     count[second] = 1.0
     return Cycles(lo=cycles.lo[keep], hi=cycles.hi[keep], count=count[keep])
+
+
+def _paired_by_extremes(cycles: Cycles, halves: np.ndarray) -> Cycles:
+    """Half cycles of a closed loop paired by identical extremes where neighbours do not pair.
+
+    Two ranges equal only after rounding (e.g. 1e6 − (−1e6) and 999999.9999999999 − (−1e6), both
+    2000000.0 in floating point) make the ASTM rule take a half cycle where an exact comparison would
+    take a full one; the half cycles still come in pairs of the same extremes, in another order.
+    """
+    merged = merge_identical(Cycles(cycles.lo[halves], cycles.hi[halves], cycles.count[halves]))
+    if np.any(merged.count != np.round(merged.count)):
+        raise RuntimeError(
+            f"rainflow_cycles: the closed loop left half cycles that do not pair "
+            f"(lo {cycles.lo[halves].tolist()}, hi {cycles.hi[halves].tolist()}); this is a fault in bendlife"
+        )
+    whole = np.ones(cycles.count.size, dtype=bool)
+    whole[halves] = False
+    return Cycles(lo=np.concatenate((cycles.lo[whole], merged.lo)), hi=np.concatenate((cycles.hi[whole], merged.hi)),
+                  count=np.concatenate((cycles.count[whole], merged.count)))
 
 
 def merge_identical(cycles: Cycles, decimals: int | None = None) -> Cycles:
@@ -665,16 +681,10 @@ def rainflow_chunks(
         )
     state = OPEN
     parts: list[Cycles] = []
-    held = 0
     for chunk in chunks:
         step = count_chunk(state, chunk)
         state = step.open
-        if step.full.lo.size:
-            parts.append(merge_identical(step.full))
-            held += parts[-1].lo.size
-        if held > MERGE_EVERY and len(parts) > 1:  # bound the memory: merge what is held so far
-            parts = [_merged(parts)]
-            held = parts[0].lo.size
+        parts = hold(parts, step.full)
         if on_chunk is not None:
             on_chunk(state.samples)
     parts.append(close_count(state, residue))
@@ -682,6 +692,16 @@ def rainflow_chunks(
 
 
 MERGE_EVERY = 2_000_000  # distinct cycles held before the chunks' cycles are merged together
+
+
+def hold(parts: list[Cycles], full: Cycles) -> list[Cycles]:
+    """The closed cycles held so far, with a chunk's full cycles added (identical ones merged); past
+    MERGE_EVERY rows all are merged together, which bounds the memory. Merging is exact."""
+    if full.lo.size:
+        parts = parts + [merge_identical(full)]
+    if len(parts) > 1 and sum(p.lo.size for p in parts) > MERGE_EVERY:
+        parts = [_merged(parts)]
+    return parts
 
 
 def _merged(parts: list[Cycles]) -> Cycles:

@@ -27,7 +27,7 @@ from typing import Callable, Iterator
 
 import numpy as np
 
-from spectra.counting import MERGE_EVERY, OPEN, Cycles, _merged, close_count, count_chunk, merge_identical, rainflow_cycles
+from spectra.counting import OPEN, Cycles, _merged, close_count, count_chunk, hold, rainflow_cycles
 from spectra.errors import InputError
 from spectra.profiles import COMMENT, read_time_history
 
@@ -275,7 +275,7 @@ def count_history(
     bins: list[tuple[np.ndarray, np.ndarray]] = []
     state = OPEN
     parts: list[Cycles] = []
-    held = samples = 0
+    samples = 0
     for values in _read_ahead(history_chunks(path, column, scale, where, chunk_samples, progress)):
         samples += values.size
         bins.append(_bins(values))
@@ -289,12 +289,7 @@ def count_history(
         for chunk in pending:
             step = count_chunk(state, chunk)
             state = step.open
-            if step.full.lo.size:
-                parts.append(merge_identical(step.full))
-                held += parts[-1].lo.size
-        if held > MERGE_EVERY and len(parts) > 1:  # bound the memory: merge what is held so far
-            parts = [_merged(parts)]
-            held = parts[0].lo.size
+            parts = hold(parts, step.full)
     envelope = _envelope(bins, samples)
     name = Path(path).name
     if kept is not None:

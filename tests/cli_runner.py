@@ -1,6 +1,8 @@
 """Run the ``bendlife`` console entry point in-process (fast; no subprocess) for the CLI tests."""
 from __future__ import annotations
 
+import contextlib
+import io
 import sys
 from typing import NamedTuple
 
@@ -15,6 +17,25 @@ class Ran(NamedTuple):
     code: int
     out: str
     err: str
+
+
+def run_cli(args: list) -> Ran:
+    """``bendlife ARGS`` in-process without pytest fixtures (for hypothesis tests, which run many cases
+    in one test function): exit code, stdout, stderr."""
+    out, err = io.StringIO(), io.StringIO()
+    saved_argv, saved_err = sys.argv, np.geterr()
+    sys.argv = ["bendlife", *map(str, args)]
+    try:
+        with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
+            try:
+                cli.main()
+                code = 0
+            except SystemExit as exc:
+                code = 0 if exc.code is None else int(exc.code)
+    finally:
+        sys.argv = saved_argv
+        np.seterr(**saved_err)
+    return Ran(code, out.getvalue(), err.getvalue())
 
 
 def bendlife(args: list, monkeypatch, capsys) -> Ran:

@@ -13,23 +13,19 @@ variable BENDLIFE_FUZZ_EXAMPLES to try more (the figures in the issue note come 
 """
 from __future__ import annotations
 
-import contextlib
-import io
 import os
 import re
-import sys
 import tempfile
 import tomllib
 from importlib import resources
 from pathlib import Path
 
-import numpy as np
 import tomlkit
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
+from cli_runner import run_cli
 from designs import user_glass
-from life import cli
 
 FUZZ_EXAMPLES = int(os.environ.get("BENDLIFE_FUZZ_EXAMPLES", "120"))
 
@@ -159,24 +155,6 @@ def mutated(draw):
                 parent[key] = name
     command = "run" if draw(st.integers(min_value=0, max_value=7)) == 0 else "check"
     return doc, command
-
-
-def run_cli(args: list[str]) -> tuple[int, str, str]:
-    """``bendlife ARGS`` in-process; returns exit code, stdout, stderr."""
-    out, err = io.StringIO(), io.StringIO()
-    saved_argv, saved_err = sys.argv, np.geterr()
-    sys.argv = ["bendlife", *args]
-    try:
-        with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
-            try:
-                cli.main()
-                code = 0
-            except SystemExit as exc:
-                code = 0 if exc.code is None else int(exc.code)
-    finally:
-        sys.argv = saved_argv
-        np.seterr(**saved_err)
-    return code, out.getvalue(), err.getvalue()
 
 
 def check_outcome(doc: dict, command: str) -> None:

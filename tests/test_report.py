@@ -326,3 +326,14 @@ def test_duty_figure_of_a_long_history_draws_its_envelope():
     text = report_html(long, cycles, note, location_table(long))
     assert "4000000 samples; min/max of 1954 bins" in text  # 4e6 / 2048 rounded up
     assert len(text) < 3_000_000
+
+
+def test_log_axis_labels_are_plain_powers_of_ten():
+    """Log-axis ticks are labelled 10⁻³ … as plain text; off-decade, zero, negative and infinite values get
+    no label (an infinite count per block once crashed the report: found by the fuzz test)."""
+    import math
+
+    from life.report import _power_of_ten
+
+    assert [_power_of_ten(v) for v in (1e-3, 1.0, 10.0, 1e12)] == ["10⁻³", "10⁰", "10¹", "10¹²"]
+    assert [_power_of_ten(v) for v in (2e-3, 0.0, -10.0, math.inf, math.nan)] == ["", "", "", "", ""]
