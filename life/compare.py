@@ -160,7 +160,8 @@ def comparison_html(table: pd.DataFrame, results: Sequence[LifeResult], duty: st
     and the caution. ``duty`` says whether each design kept its own duty or one common duty was used."""
     order = ranked(table.assign(design=range(1, len(table) + 1)))
     order = order[["design"] + [c for c in table.columns]]
-    head = "<th>rank</th>" + "".join(f"<th>{html.escape(c)}</th>" for c in order.columns)
+    # headers wrap at the spaces (the CSV keeps the underscored names); the wide table scrolls on a narrow screen
+    head = "<th>rank</th>" + "".join(f"<th>{html.escape(c.replace('_', ' '))}</th>" for c in order.columns)
     body = "".join(
         f"<tr><td>{rank}</td>" + "".join(f"<td>{_cell(v)}</td>" for v in row) + "</tr>"
         for rank, row in enumerate(order.astype(object).where(order.notna(), None).itertuples(index=False), start=1)
@@ -175,14 +176,15 @@ def comparison_html(table: pd.DataFrame, results: Sequence[LifeResult], duty: st
 <style>body {{ font-family: system-ui, sans-serif; margin: 2em; color: #222 }}
 table {{ border-collapse: collapse; font-size: 0.85em }} td, th {{ border: 1px solid #ddd; padding: 3px 6px }}
 th {{ background: #f1eee6 }} figure {{ margin: 1em 0; break-inside: avoid }} svg {{ max-width: 100%; height: auto }}
-.duty {{ font-weight: bold; color: #0b6e6e }}
+.duty {{ font-weight: bold; color: #0b6e6e }} .wide {{ overflow-x: auto }} th {{ vertical-align: bottom }}
+@media print {{ table {{ font-size: 0.7em }} }}
 .caution {{ background: #fff4e0; border-left: 5px solid #d98b00; padding: 0.6em 1em; max-width: 60em }}</style>
 </head><body><h1>Candidate designs side by side</h1>
 <div class="caution"><b>Caution.</b> {html.escape(CAUTION)}</div>
 <p class="duty">Duty: {html.escape(duty)}.</p>
 <p>Ranked by life in blocks, longest first. SI units: life in blocks of the duty and in cycles; mass kg; stiffness N/m; energy J;
 specific energy J/kg; strain as a ratio; x in m from the root.</p>
-<table><tr>{head}</tr>{body}</table>
+<div class="wide"><table><tr>{head}</tr>{body}</table></div>
 <figure>{bar_figure(table, results)}<figcaption>Life on a log scale, specific energy, mass and stiffness; designs numbered
 in the order given.</figcaption></figure>
 <figure>{overlay_figure(results)}<figcaption>Force against load-point deflection over each design's duty, and the largest

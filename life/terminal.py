@@ -134,7 +134,8 @@ def comparison_text(table: pd.DataFrame, duty: str = "each design with its own d
     t = Table(box=box.SIMPLE_HEAD, show_edge=False, pad_edge=False)
     for name, justify in [("design", "left"), ("life blocks", "right"), ("life cycles", "right"), ("mass g", "right"),
                           ("k N/mm", "right"), ("U peak J", "right"), ("J/kg", "right"), ("critical", "left")]:
-        t.add_column(name, justify=justify, overflow="fold")
+        # numbers and the mode are never broken; the title wraps at its spaces
+        t.add_column(name, justify=justify, overflow="fold", no_wrap=name != "design", ratio=1 if name == "design" else None)
     for r in table.astype(object).where(table.notna(), None).itertuples(index=False):
         t.add_row(r.title, fmt(r.life_blocks), fmt(r.life_cycles), fmt(r.mass_kg, 1e3), fmt(r.stiffness_n_per_m, 1e-3),
                   fmt(r.peak_energy_j), fmt(r.specific_energy_j_per_kg), str(r.critical_mode))
