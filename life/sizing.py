@@ -18,7 +18,15 @@ Roark, 7th ed., Table 8.1 case 1a). So:
   (k ∝ b for a narrow beam, checked by evaluating and refined until k is within ``RATE_TOLERANCE``).
 * ``taper_width`` / ``drop_plies`` — a width taper b ∝ m(x) (triangular planform) or a ply-drop schedule that
   evens the surface strain along the span, for supports whose moment falls linearly from the root
-  (cantilever, three-point); the thickness is then re-sized so the life never falls below the target.
+  (cantilever, three-point). After the width taper the thickness is re-sized by one factor (sized.toml).
+* ``restack`` / ``size_plies`` — the ply-drop alternative (sized-drops.toml) keeps the design's real plies, each
+  of its own cured thickness: the root stack is sized in whole plies, the two skins kept and copies of the most
+  common inner ply kind added or removed (``restack``), to the fewest plies whose life reaches the target under a
+  force drive, the most under a deflection drive (the same monotony as above), by an integer search inside
+  1–``PLY_LIMIT`` × the design's inner count. The plies are then dropped whole along the span (``drop_plies``)
+  and the count searched again with the drops in place: under a force drive the root moment does not change and
+  the count stays unless the thinner tip governs (then more plies); under a deflection drive the drops soften the
+  part, the root strains less at the same deflection, and more plies reach the target.
 * ``plan`` chains them for the command line and writes the design files; ``sizing_rows`` gives the
   before/after table of the report and the terminal.
 """
@@ -415,6 +423,200 @@ def drop_plies(design: Design) -> TaperResult:
     return TaperResult("ply drops", with_drops(drops), note)
 
 
+# ---------------------------------------------------------------- whole plies of real thickness
+
+
+PLY_LIMIT = 10  # the most inner plies a whole-ply stack may have, as a multiple of the design's own (issue 7)
+
+
+@dataclass(frozen=True)
+class PlyStack:
+    """The design's own plies with the inner (core) kind repeated a whole number of times.
+
+    design : Design — every ply full length, each of its real (design-file) thickness
+    rows : tuple[int, ...] — the design-file [[ply]] row each ply came from (0-based), non-decreasing
+    inner : int — the number of inner plies (the stack less the two skins)
+    kind : str — the inner ply kind added or removed, e.g. "e-glass-epoxy 0° 0.8 mm"
+    """
+
+    design: Design
+    rows: tuple[int, ...]
+    inner: int
+    kind: str
+
+
+def _design_rows(design: Design) -> tuple[int, ...]:
+    """The design-file row of every ply of the expanded stack (each repeat of ``count`` its own ply)."""
+    rows = [r for r, row in enumerate(design.document["ply"]) for _ in range(int(row.get("count", 1)))]
+    if len(rows) != len(design.beam.plies):
+        raise RuntimeError("the design's [[ply]] rows do not expand to its stack")
+    return tuple(rows)
+
+
+def _kind(p) -> tuple:
+    return (p.material.name, float(p.angle), float(p.thickness))
+
+
+def restack(design: Design, inner: int) -> PlyStack:
+    """The design's stack with ``inner`` inner plies, every ply full length and of its own real thickness.
+
+    Notes
+    -----
+    The two outer plies (the skins) stay. The inner plies added or removed are copies of the inner kind (material,
+    angle, thickness) that is most common in the design's inner stack (a tie goes to the kind met first from the
+    tension face); the other inner plies stay as they are. One ply at a time, each copy is added beside, or
+    removed from, the ply of that kind nearest the stack's mid-plane (by position in the stack; a tie goes to the
+    tension side), so the stack stays as near symmetric as the design's own. The count ranges from one ply of the
+    kind (with the other inner plies) to ``PLY_LIMIT`` times the design's inner count.
+    """
+    plies = [replace(p, ends_at=None) for p in design.beam.plies]
+    rows = list(_design_rows(design))
+    if len(plies) < 3:
+        raise InputError("--taper: whole-ply sizing and ply drops need at least one inner ply between the two "
+                         f"skins; the stack has {len(plies)}")
+    kinds = [_kind(p) for p in plies[1:-1]]
+    kind = max(dict.fromkeys(kinds), key=kinds.count)  # most common; the first met wins a tie
+    others = len(kinds) - kinds.count(kind)
+    lo, hi = others + 1, PLY_LIMIT * len(kinds)
+    if not lo <= inner <= hi:
+        raise InputError(f"inner plies: {inner} lies outside {lo}–{hi} (one ply of the inner kind to "
+                         f"{PLY_LIMIT} × the design's {len(kinds)})")
+
+    def nearest() -> int:
+        centre = (len(plies) - 1) / 2
+        return min((abs(i - centre), i) for i in range(1, len(plies) - 1) if _kind(plies[i]) == kind)[1]
+
+    while len(plies) - 2 < inner:
+        i = nearest()
+        j = i + 1 if i < (len(plies) - 1) / 2 else i  # the copy goes on the mid-plane side of its twin
+        plies.insert(j, plies[i])
+        rows.insert(j, rows[i])
+    while len(plies) - 2 > inner:
+        i = nearest()
+        del plies[i], rows[i]
+    material, angle, thickness = kind
+    text = f"{material} {angle:g}° {thickness * 1e3:.4g} mm"
+    return PlyStack(replace(design, beam=replace(design.beam, plies=tuple(plies))), tuple(rows), inner, text)
+
+
+def inner_range(design: Design) -> tuple[int, int]:
+    """The whole-ply search range of inner plies: one of the inner kind (with the other inner plies) to
+    ``PLY_LIMIT`` times the design's inner count (``restack``)."""
+    kinds = [_kind(p) for p in design.beam.plies[1:-1]]
+    if not kinds:
+        return 1, 0
+    kind = max(dict.fromkeys(kinds), key=kinds.count)
+    return len(kinds) - kinds.count(kind) + 1, PLY_LIMIT * len(kinds)
+
+
+def _boundary(ok, lo: int, hi: int, guess: int) -> int | None:
+    """The smallest n in lo..hi with ok(n), for ok monotone (False … False True … True); None when ok(hi) fails.
+    Gallops from ``guess`` by doubling steps to a bracket, then bisects."""
+    guess = min(max(guess, lo), hi)
+    if ok(guess):
+        good, step = guess, 1
+        while good > lo:  # walk down until a miss brackets the answer
+            n = max(good - step, lo)
+            if not ok(n):
+                bad = n
+                break
+            good, step = n, step * 2
+        else:
+            return lo
+    else:
+        bad, step = guess, 1
+        while True:  # walk up until a hit brackets the answer
+            if bad >= hi:
+                return None
+            n = min(bad + step, hi)
+            if ok(n):
+                good = n
+                break
+            bad, step = n, step * 2
+    while good - bad > 1:
+        mid = (good + bad) // 2
+        good, bad = (mid, bad) if ok(mid) else (good, mid)
+    return good
+
+
+@dataclass(frozen=True)
+class PlyCountResult:
+    """The whole-ply stack for a target life.
+
+    stack : PlyStack — the stack found (every ply full length, or with drops when ``dropped``)
+    inner_before : int — the design's own inner plies
+    result : LifeResult — its estimate
+    evaluations : int — estimates run by the search
+    note : str — what the answer means
+    """
+
+    stack: PlyStack
+    inner_before: int
+    result: LifeResult
+    evaluations: int
+    note: str
+
+
+def size_plies(design: Design, target_blocks: float, shape=None, guess: int | None = None) -> PlyCountResult:
+    """The whole-ply stack (``restack``) whose life reaches ``target_blocks``: the fewest inner plies under a force
+    drive, the most under a deflection drive (module notes).
+
+    ``shape`` (PlyStack → PlyStack), when given, is applied to every candidate before its estimate (the ply
+    drops); ``guess`` is where the integer search starts (the design's own count when None).
+
+    Notes
+    -----
+    The life is monotone in the ply count (σ = 6M/(b h²) at a given moment, ε ≈ 3δh/(2L²) at a given deflection;
+    Roark, 7th ed., Table 8.1 case 1a): the boundary is found by an integer search (gallop from the guess, then
+    bisection) inside ``inner_range``.
+    """
+    if not target_blocks > 0 or not math.isfinite(target_blocks):
+        raise InputError(f"--life: a number of blocks > 0, got {target_blocks!r}")
+    before = len(design.beam.plies) - 2
+    lo, hi = inner_range(design)
+    grows = design.duty.drive == "force"  # more plies strain less under a force, more under a deflection
+    results: dict[int, tuple[PlyStack, LifeResult]] = {}
+
+    def evaluate(n: int) -> tuple[PlyStack, LifeResult]:
+        if n not in results:
+            stack = restack(design, n)
+            stack = shape(stack) if shape is not None else stack
+            results[n] = (stack, estimate(stack.design))
+        return results[n]
+
+    def ok(k: int) -> bool:  # k counts in the direction in which the life grows
+        return _life(evaluate(k if grows else lo + hi - k)[1]) >= target_blocks
+
+    start = before if guess is None else guess
+    k = _boundary(ok, lo, hi, start if grows else lo + hi - start)
+    if k is None:
+        worst = hi if grows else lo
+        stack, r = evaluate(worst)
+        raise InputError(f"--life {target_blocks:g}: no whole-ply stack of {lo}–{hi} inner plies "
+                         f"({stack.kind}) reaches it; "
+                         + _why_short(r, f"{worst} inner plies", target_blocks))
+    n = k if grows else lo + hi - k
+    if not grows and n == hi:
+        r = evaluate(n)[1]
+        raise InputError(f"--life {target_blocks:g}: every whole-ply stack of {lo}–{hi} inner plies reaches it, even "
+                         f"{hi} (life {_g(r.life_blocks)} blocks): the life does not limit the ply count in this "
+                         "range — size by stiffness or static strength instead")
+    stack, r = evaluate(n)
+    if grows:
+        note = f"{before} → {n} inner plies of {stack.kind}: the fewest whose life reaches the target"
+    else:
+        note = (f"{before} → {n} inner plies of {stack.kind}: under a deflection drive a thinner part strains "
+                "less, and this is the most plies (the stiffest stack) whose life reaches the target")
+    if n == lo and grows:
+        note += f" (the fewest the range {lo}–{hi} allows)"
+    return PlyCountResult(stack, before, r, len(results), note)
+
+
+def drop_stack(stack: PlyStack) -> PlyStack:
+    """``drop_plies`` on a whole-ply stack: the same plies and rows, with their drop stations."""
+    return replace(stack, design=drop_plies(stack.design).design)
+
+
 # ---------------------------------------------------------------- the written design file
 
 
@@ -429,9 +631,14 @@ def _length_text(value: float, like: object) -> str:
     return f"{UREG.Quantity(value, 'm').to(unit).magnitude:.6g} {unit:~}"
 
 
-def design_file(design: Design, beam: Beam, header: list[str], title: str) -> str:
+def design_file(design: Design, beam: Beam, header: list[str], title: str,
+                rows: tuple[int, ...] | None = None) -> str:
     """The design file of ``design`` with the ply thicknesses, drops and width of ``beam`` (tomlkit: the
-    original comments and layout kept; a ``count`` row split where its plies now end at different places)."""
+    original comments and layout kept; a ``count`` row split where its plies now end at different places).
+
+    ``rows`` gives the design-file [[ply]] row (0-based, non-decreasing) each ply of ``beam`` came from, for a
+    stack with plies added or removed (``restack``); None: the design's own rows, ply for ply. A row left with no
+    ply is left out; a ply of its row's own thickness keeps the row's thickness text as written."""
     if design.path is not None:
         doc = tomlkit.parse(design.path.read_text(encoding="utf-8"))
         base = design.path.parent
@@ -439,13 +646,14 @@ def design_file(design: Design, beam: Beam, header: list[str], title: str) -> st
         doc = tomlkit.document()
         doc.update(copy.deepcopy(design.document))
         base = Path.cwd()
-    rows = list(doc["ply"])
+    own = _design_rows(design)
+    rows = own if rows is None else tuple(rows)
+    if len(rows) != len(beam.plies) or list(rows) != sorted(rows):
+        raise RuntimeError("design_file: one non-decreasing row index per ply is needed")
+    real = {r: design.beam.plies[own.index(r)].thickness for r in set(own)}  # each row's own ply thickness
     new_rows = tomlkit.aot()
-    k = 0
-    for row in rows:
-        count = int(row.get("count", 1))
-        group = beam.plies[k:k + count]
-        k += count
+    for r, row in enumerate(doc["ply"]):
+        group = [p for p, q in zip(beam.plies, rows) if q == r]
         runs: list[list] = []  # [thickness, ends_at, n]
         for p in group:
             if runs and runs[-1][0] == p.thickness and runs[-1][1] == p.ends_at:
@@ -454,7 +662,8 @@ def design_file(design: Design, beam: Beam, header: list[str], title: str) -> st
                 runs.append([p.thickness, p.ends_at, 1])
         for thickness, ends_at, n in runs:
             new = row if len(runs) == 1 else copy.deepcopy(row)
-            new["thickness"] = _length_text(thickness, row.get("thickness"))
+            if thickness != real[r]:
+                new["thickness"] = _length_text(thickness, row.get("thickness"))
             if n > 1:
                 new["count"] = n
             elif "count" in new:
@@ -543,12 +752,16 @@ class SizingAnswer:
     warnings: tuple[str, ...]
 
 
-def _finish(design: Design, start: Design, name: str, steps: list[Step], target: float) -> Proposal:
+def _finish(design: Design, start: Design, name: str, steps: list[Step], target: float,
+            rows: tuple[int, ...] | None = None) -> Proposal:
     header = [f"Sized by bendlife for a life of {target:g} blocks of the duty, from {start.path.name if start.path else 'the design'}:"]
     header += [f"  {s.what}: {s.note}" for s in steps]
+    if rows is not None:
+        header += ["Every ply is one of the design's real plies, of its own cured thickness: plies added, removed "
+                   "or dropped whole, none scaled."]
     header += ["Figures from reading this file back; confirm by tests (bendlife run)."]
     title = f"{start.title} — sized for {target:g} blocks" + (" (ply drops)" if "drops" in name else "")
-    text = design_file(start, design.beam, header, title)
+    text = design_file(start, design.beam, header, title, rows)
     result = estimate(read_back(text, start, name))
     if result.life_blocks is not None and result.life_blocks < target * (1 - 1e-9):
         raise RuntimeError(f"{name}: the written design's life {result.life_blocks:.6g} fell below the target")
@@ -557,8 +770,9 @@ def _finish(design: Design, start: Design, name: str, steps: list[Step], target:
 
 def plan(design: Design, target_blocks: float, vary: str = "thickness", rate: float | None = None,
          taper: bool = False) -> SizingAnswer:
-    """Thickness (or width) for the life; with ``taper`` a width taper and a ply-drop alternative, the thickness
-    re-sized after each; with ``rate`` [N/m] the width last for the spring rate (deflection drive)."""
+    """Thickness (or width) for the life; with ``taper`` a width taper, the thickness re-sized by one factor
+    (sized.toml), and a ply-drop alternative in whole plies of the design's real thickness (sized-drops.toml,
+    module notes); with ``rate`` [N/m] the width last for the spring rate (deflection drive)."""
     if rate is not None and vary != "thickness":
         raise InputError("--rate: the thickness is sized for the life and the width for the rate; leave out "
                          "--vary width")
@@ -573,7 +787,7 @@ def plan(design: Design, target_blocks: float, vary: str = "thickness", rate: fl
     base_steps = [Step(f"{vary} for the life", first.scale, first.note)]
     warnings: list[str] = []
 
-    def finish(d: Design, steps: list[Step], name: str) -> tuple[Proposal, float]:
+    def finish(d: Design, steps: list[Step], name: str, rows: tuple[int, ...] | None = None) -> tuple[Proposal, float]:
         ratio = d.beam.width_root / sum(p.thickness for p in d.beam.plies)
         if rate is not None:
             r = size_rate(d, rate)
@@ -582,7 +796,7 @@ def plan(design: Design, target_blocks: float, vary: str = "thickness", rate: fl
                                   f"{r.linearity:+.1e} from linear)")]
             warnings.extend(w for w in r.warnings if w not in warnings)
             d, ratio = r.design, r.width_to_thickness
-        return _finish(d, design, name, steps, target_blocks), ratio
+        return _finish(d, design, name, steps, target_blocks, rows), ratio
 
     drops = None
     if not taper:
@@ -605,13 +819,41 @@ def plan(design: Design, target_blocks: float, vary: str = "thickness", rate: fl
         sized, ratio = finish(again.design, base_steps + [
             Step("width taper", None, shaped.note), Step("thickness re-sized for the life", resized, resized_note)],
             "sized.toml")
-        dropped = drop_plies(first.design)
-        again = size(dropped.design, target_blocks, "thickness")
-        count += len(again.history)
-        drops, _ = finish(again.design, base_steps + [
-            Step("ply drops", None, dropped.note), Step("thickness re-sized for the life", again.scale, again.note)],
-            "sized-drops.toml")
+        drops, used = _whole_ply_drops(design, target_blocks, finish)
+        count += used
     return SizingAnswer(target_blocks, before, sized, drops, rate, ratio, count, tuple(warnings))
+
+
+def _drops_or_none(stack: PlyStack) -> PlyStack:
+    """``drop_stack``, or the stack as it is when no ply can be dropped (a candidate of the search)."""
+    try:
+        return drop_stack(stack)
+    except InputError:
+        return stack
+
+
+def _whole_ply_drops(design: Design, target_blocks: float, finish) -> tuple[Proposal, int]:
+    """sized-drops.toml: the design's real plies, whole plies for the life, dropped along the span (module notes);
+    the estimates of the two ply-count searches."""
+    uniform = size_plies(design, target_blocks)
+    with_drops = size_plies(design, target_blocks, shape=_drops_or_none, guess=uniform.stack.inner)
+    n0, n1 = uniform.stack.inner, with_drops.stack.inner
+    kind = uniform.stack.kind
+    if n1 == n0:
+        check = f"the life with the drops still reaches the target at {n1} inner plies (checked by its estimate)"
+    elif design.duty.drive == "deflection" and n1 > n0:
+        check = (f"{n0} → {n1} inner plies of {kind}: the drops soften the part, so at the same deflection the root "
+                 f"strains less; the most plies whose life with the drops reaches the target")
+    else:
+        check = (f"{n0} → {n1} inner plies of {kind}: with the drops the life fell below the target (the thinner tip "
+                 "or an interlaminar check governs), so stepped back by "
+                 f"{abs(n1 - n0)} {'ply' if abs(n1 - n0) == 1 else 'plies'}")
+    stack = restack(design, n1)
+    dropped = drop_plies(stack.design)
+    steps = [Step("whole plies for the life", None, uniform.note), Step("whole plies with the drops", None, check),
+             Step("ply drops", None, dropped.note)]
+    proposal, _ = finish(dropped.design, steps, "sized-drops.toml", stack.rows)
+    return proposal, uniform.evaluations + with_drops.evaluations
 
 
 def _g(value: float | None, digits: int = 4, scale: float = 1.0, unit: str = "") -> str:
@@ -653,6 +895,9 @@ def sizing_rows(answer: SizingAnswer) -> list[tuple[str, str, str]]:
     rows.append(("width / thickness at the root", "", f"{answer.width_to_thickness:.3g}"))
     if answer.drops is not None:
         alt = _figures(answer.drops.result)
+        rows.append(("ply-drop alternative: inner plies at the root", str(len(answer.before.design.beam.plies) - 2),
+                     str(len(answer.drops.result.design.beam.plies) - 2)))
         rows += [(f"ply-drop alternative: {q}", before[q], alt[q])
-                 for q in ("life [blocks]", "mass", "stiffness", "storage efficiency", "width")]
+                 for q in ("life [blocks]", "thickness at the root", "mass", "stiffness", "storage efficiency",
+                           "width")]
     return rows

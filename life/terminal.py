@@ -150,7 +150,7 @@ def sizing_text(answer: SizingAnswer) -> str:
     lines += [f"  {st.what}: {st.note}" for st in answer.sized.steps]
     if answer.drops is not None:
         lines.append("  alternative (sized-drops.toml):")
-        lines += [f"    {st.what}: {st.note}" for st in answer.drops.steps[1:]]
+        lines += [f"    {st.what}: {st.note}" for st in answer.drops.steps]
     rows = sizing_rows(answer)
     w = max(len(q) for q, _, _ in rows)
     wb = max(len("before"), *(len(b) for _, b, _ in rows))

@@ -8,6 +8,7 @@ has σ2 = τ12 = 0, so σ1 = σx there.
 from __future__ import annotations
 
 import math
+import re
 import tomllib
 from pathlib import Path
 
@@ -17,8 +18,9 @@ from designs import user_glass
 from life.design import load_design
 from life.errors import InputError
 from life.estimate import estimate
-from life.sizing import (SAFE_STEP, TIP_FLOOR, drop_plies, plan, read_back, scaled_design, size, size_rate,
-                         sizing_rows, taper_width)
+from cli_runner import run_cli
+from life.sizing import (SAFE_STEP, TIP_FLOOR, drop_plies, inner_range, plan, read_back, restack, scaled_design,
+                         size, size_plies, size_rate, sizing_rows, taper_width)
 from mechanics.beam import respond
 
 DESIGN = """title = "sizing check"
@@ -228,13 +230,18 @@ def test_ply_drops_at_the_closed_form_stations(tmp_path):
 
 
 def test_ply_drop_file_splits_count_rows(tmp_path):
-    """The count = 10 row becomes one row per ply end; the file reads back with the same drops."""
+    """The count = 10 row becomes one row per ply end; the file reads back with the same drops. ±50 N, no mean
+    stress: σ = 120·(10/n)² MPa with n whole plies, 1e6 blocks need σ ≤ 100.48 MPa, so n = 11 (hand calc,
+    _goodman_blocks); its 9 inner plies all drop, as in the closed-form stations above (x_9 = 200·(1 − (2/11)²) =
+    193.4 mm, drops ≥ 8.3 mm apart, more than the 5 mm spacing)."""
     answer = plan(load_design(_write(tmp_path)), 1e6, taper=True)
+    n_hand = next(n for n in range(3, 200) if _goodman_blocks(n, -50.0, 50.0) >= 1e6)
+    assert n_hand == 11
     doc = tomllib.loads(answer.drops.text)
-    assert sum(row.get("count", 1) for row in doc["ply"]) == 10
-    assert sum("ends_at" in row for row in doc["ply"]) == 8
+    assert sum(row.get("count", 1) for row in doc["ply"]) == n_hand
+    assert sum("ends_at" in row for row in doc["ply"]) == n_hand - 2
     back = read_back(answer.drops.text, answer.before.design, "sized-drops.toml")
-    assert sum(p.ends_at is not None for p in back.beam.plies) == 8
+    assert sum(p.ends_at is not None for p in back.beam.plies) == n_hand - 2
 
 
 def test_taper_refused_for_a_guided_beam(tmp_path):
@@ -266,3 +273,109 @@ def test_relative_profile_path_is_made_absolute(tmp_path):
 def test_safe_step_covers_six_digits():
     """6 significant digits round a value by at most 5e-6 of itself: the safe-side step must be larger."""
     assert SAFE_STEP > 5e-6
+
+
+# ---------------------------------------------------------------- the ply-drop alternative in whole real plies
+
+
+def _goodman_blocks(n_plies: int, lo_n: float = 10.0, hi_n: float = 50.0) -> float:
+    """Hand calc, blocks of 1000 cycles of the uniform UD cantilever with ``n_plies`` × 0.5 mm under lo → hi [N].
+    σ = 6FL/(b h²) at the root (Roark, 7th ed., Table 8.1 case 1a), h = n·t, L = 200 mm, b = 20 mm; Goodman
+    σar = σa/(1 − |σm|/Xc) on the compression face (Xc = 600 < Xt = 1000 MPa); power law N = (σar/S1)^(−m),
+    S1 = 800 MPa, m = 10 (DESIGN.md's example glass)."""
+    h = n_plies * 0.5e-3
+    sigma = [6.0 * f * 0.2 / (0.02 * h * h) / 1e6 for f in (lo_n, hi_n)]  # [MPa]
+    amplitude, mean = (sigma[1] - sigma[0]) / 2, (sigma[1] + sigma[0]) / 2
+    return (amplitude / (1 - mean / 600.0) / 800.0) ** -10 / 1000.0
+
+
+@pytest.mark.parametrize("target", [1e5, 1e6, 3e7])
+def test_whole_plies_force_drive_smallest_count_by_hand(tmp_path, target):
+    """The ply count found is the hand-calculated smallest n whose life reaches the target (see _goodman_blocks;
+    at n = 10, σmax = 120 MPa, σa = 48, σm = 72 MPa). The two skins are plies of the same kind here, so the
+    inner count is n − 2. A whole count has no tolerance: the hand lives at n and n − 1 lie ≥ 10 % from the
+    target for these targets (checked below), far beyond the estimate's rounding."""
+    n_hand = next(n for n in range(3, 200) if _goodman_blocks(n) >= target)
+    assert _goodman_blocks(n_hand) > 1.1 * target and _goodman_blocks(n_hand - 1) < target / 1.1
+    r = size_plies(load_design(_write(tmp_path, lo="10 N", hi="50 N")), target)
+    assert r.stack.inner + 2 == n_hand
+    assert r.inner_before == 8
+    assert r.result.life_blocks == pytest.approx(_goodman_blocks(n_hand), rel=1e-6)  # closed form, no iteration
+    assert all(p.thickness == 0.5e-3 for p in r.stack.design.beam.plies)
+    assert f"8 → {n_hand - 2} inner plies of size-glass 0° 0.5 mm" in r.note
+
+
+def test_restack_adds_and_removes_the_most_common_inner_kind(tmp_path):
+    """Inner stack 4 × 0.5 mm and 2 × 0.3 mm (rule: the most common inner kind is added or removed): 9 inner plies
+    are 7 × 0.5 + 2 × 0.3 mm, 3 inner plies are 1 × 0.5 + 2 × 0.3 mm; the skins stay; 2 is out of range (one ply
+    of the kind at least)."""
+    path = _write(tmp_path)
+    path.write_text(path.read_text().replace(
+        'thickness = "0.5 mm"   # a comment the sized file keeps\ncount = 10',
+        'thickness = "0.5 mm"   # a comment the sized file keeps\ncount = 3\n'
+        '[[ply]]\nmaterial = "size-glass"\nangle = 0\nthickness = "0.3 mm"\ncount = 2\n'
+        '[[ply]]\nmaterial = "size-glass"\nangle = 0\nthickness = "0.5 mm"\ncount = 3'))
+    design = load_design(path)
+    assert [p.thickness for p in design.beam.plies] == [0.5e-3] * 3 + [0.3e-3] * 2 + [0.5e-3] * 3
+    for inner, thick in ((9, 7), (3, 1)):
+        s = restack(design, inner)
+        t = [p.thickness for p in s.design.beam.plies]
+        assert len(t) == inner + 2 and t.count(0.3e-3) == 2 and t.count(0.5e-3) == thick + 2
+        assert list(s.rows) == sorted(s.rows)
+    assert inner_range(design) == (3, 60)
+    with pytest.raises(InputError, match="outside 3–60"):
+        restack(design, 2)
+
+
+def _thickness_strings(text: str) -> set[str]:
+    return {row["thickness"] for row in tomllib.loads(text)["ply"]}
+
+
+def test_ply_drop_file_has_only_real_ply_thicknesses(tmp_path):
+    """Every thickness in sized-drops.toml is one of the design's own ply thicknesses, exactly as written
+    ("0.5 mm"), and so is every ply read back (to 1e-9 m: the pint parse of "0.5 mm"); sized.toml keeps its
+    single scale factor (not a real ply). The count rows are split and the file reads back."""
+    design = load_design(_write(tmp_path, lo="10 N", hi="50 N"))
+    answer = plan(design, 1e6, taper=True)
+    assert _thickness_strings(answer.drops.text) == {"0.5 mm"}
+    back = read_back(answer.drops.text, design, "sized-drops.toml")
+    assert all(abs(p.thickness - 0.5e-3) < 1e-9 for p in back.beam.plies)
+    assert len(back.beam.plies) == next(n for n in range(3, 200) if _goodman_blocks(n) >= 1e6)  # hand calc, above
+    assert "the design's real plies" in answer.drops.text.split("title")[0]
+    assert _thickness_strings(answer.sized.text) != {"0.5 mm"}  # one factor on every ply, as the issue asks
+
+
+def test_ply_drop_alternative_deflection_drive_reaches_the_life_and_stores_more(tmp_path):
+    """Deflection drive 0 → 20 mm with a rate: the alternative's life reaches the target, its efficiency beats the
+    uniform part's (1/9 for a uniform end-loaded cantilever; REFERENCES.md, stored energy), its plies are the
+    real 0.5 mm plies and the drops do not cost the life."""
+    design = load_design(_write(tmp_path, drive="deflection", lo="0 mm", hi="20 mm"))
+    target = 1e6
+    answer = plan(design, target, rate=25e3, taper=True)
+    alt = answer.drops.result
+    assert alt.life_blocks >= target
+    assert answer.before.storage.efficiency == pytest.approx(1 / 9, rel=1e-6)  # bending only, see above
+    assert alt.storage.efficiency > answer.before.storage.efficiency
+    assert alt.response.stiffness == pytest.approx(25e3, rel=1e-3)  # widths written to 6 digits
+    assert _thickness_strings(answer.drops.text) == {"0.5 mm"}
+    assert [s.what for s in answer.drops.steps] == ["whole plies for the life", "whole plies with the drops",
+                                                    "ply drops", "width for the spring rate"]
+    rows = {q: (b, a) for q, b, a in sizing_rows(answer)}
+    assert rows["ply-drop alternative: inner plies at the root"][0] == "8"
+
+
+def test_whole_plies_unreachable_exits_2_with_the_reason(tmp_path):
+    """3 plies × 0.5 mm (one inner ply, so at most 10 inner: 12 plies, h = 6 mm), 30 → 150 N, Goodman.
+    σ = 6FL/(b h²) (Roark case 1a): at h = 6 mm σa = 100, σm = 150 MPa, σar = 100/(1 − 150/600) = 133.3 MPa,
+    N = (133.3/800)^(−10) = 6^10 = 6.047e7 cycles = 6.047e4 blocks < 1e5 (hand calc): no whole-ply stack reaches
+    1e5 blocks. One factor does (sized.toml exists): with every ply × s, σar = 1600/(s² − 4) = 800·1e8^(−0.1) gives
+    s = 4.08 < 10. Exit 2, the reason with the life at the most plies (4 digits printed: rel 1e-3)."""
+    path = _write(tmp_path, lo="30 N", hi="150 N")
+    path.write_text(path.read_text().replace("count = 10\n", "count = 3\n"))
+    ran = run_cli(["size", path, "--life", "1e5", "--taper", "--out", tmp_path / "out"])
+    assert ran.code == 2, ran.err
+    assert "no whole-ply stack of 1–10 inner plies" in ran.err, ran.err
+    said = re.search(r"the life at 10 inner plies is only (\S+) blocks", ran.err)
+    assert said and float(said.group(1)) == pytest.approx(6.0**10 / 1000, rel=1e-3)
+    assert "Traceback" not in ran.err
+    assert not (tmp_path / "out").exists()
