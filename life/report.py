@@ -39,6 +39,7 @@ from life.meanstress import (  # noqa: E402
     mean_ratio,
 )
 from spectra.counting import Cycles  # noqa: E402
+from spectra.streaming import minmax_envelope  # noqa: E402
 
 METHODS = [
     ("Laminate", "classical laminate theory: Q, Q̄, ABD (Kaw, Mechanics of Composite Materials, 2nd ed., Eqs. 2.93, "
@@ -106,7 +107,6 @@ STYLE = {
     "figure.facecolor": "white",
     "svg.fonttype": "none",
 }
-ENVELOPE_BINS = 2000  # a long history is drawn as the min/max of at most this many bins, never point by point
 DROP_COLOUR, CRITICAL_COLOUR = "#8a8577", "#b5482f"
 
 
@@ -232,30 +232,6 @@ def _stack_rows(plies) -> list[tuple]:
 
 # ---------------------------------------------------------------------------------------------
 # Data behind the figures (also used by the comparison page)
-
-@dataclass(frozen=True)
-class MinMaxEnvelope:
-    """A history decimated for plotting: the smallest and largest sample of each bin.
-
-    start : np.ndarray — index of each bin's first sample, shape (bins,) [-]
-    lo : np.ndarray — smallest sample in the bin, shape (bins,) [unit of the signal]
-    hi : np.ndarray — largest sample in the bin, shape (bins,) [unit of the signal]
-    """
-
-    start: np.ndarray
-    lo: np.ndarray
-    hi: np.ndarray
-
-
-def minmax_envelope(signal: np.ndarray, bins: int = ENVELOPE_BINS) -> MinMaxEnvelope:
-    """Decimate a history into at most ``bins`` (min, max) pairs; every extreme of the history is kept."""
-    signal = np.asarray(signal, float)
-    n = signal.size
-    bins = max(1, min(bins, n))
-    edges = np.linspace(0, n, bins + 1).astype(int)
-    start = edges[:-1]
-    return MinMaxEnvelope(start, np.minimum.reduceat(signal, start), np.maximum.reduceat(signal, start))
-
 
 @dataclass(frozen=True)
 class SpanEnvelope:

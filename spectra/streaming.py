@@ -220,6 +220,15 @@ def _read_ahead(chunks: Iterator[np.ndarray], depth: int = READ_AHEAD) -> Iterat
         reader.join()
 
 
+def minmax_envelope(signal: np.ndarray, bins: int = ENVELOPE_BINS) -> Envelope:
+    """A history held whole, decimated into at most ``bins`` (min, max) bins of near-equal size; every extreme
+    of the history is kept."""
+    signal = np.asarray(signal, float)
+    n = signal.size
+    start = np.linspace(0, n, max(1, min(bins, n)) + 1).astype(int)[:-1]
+    return Envelope(start=start, lo=np.minimum.reduceat(signal, start), hi=np.maximum.reduceat(signal, start), samples=n)
+
+
 def _envelope(parts: list[tuple[np.ndarray, np.ndarray]], samples: int, bins: int = ENVELOPE_BINS) -> Envelope:
     """The envelope from per-bin (lo, hi) of ENVELOPE_BIN samples each, merged down to at most ``bins`` bins."""
     lo = np.concatenate([p[0] for p in parts]) if parts else np.empty(0)

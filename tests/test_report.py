@@ -264,7 +264,7 @@ def test_minmax_envelope_keeps_every_extreme():
     from hypothesis import strategies as st
     import numpy as np
 
-    from life.report import ENVELOPE_BINS, minmax_envelope
+    from spectra.streaming import ENVELOPE_BINS, minmax_envelope
 
     @settings(max_examples=60, deadline=None)
     @given(st.lists(st.floats(-1e3, 1e3), min_size=1, max_size=6000))
