@@ -134,7 +134,7 @@ def count(
     from mechanics.units import unit_factor
     from spectra.counting import RESIDUE_MODES, merge_identical
     from spectra.profiles import refuse_headerless
-    from spectra.streaming import count_history
+    from spectra.streaming import count_history, refuse_constant
 
     if residue not in RESIDUE_MODES:
         raise LifeInputError(f"--residue: must be one of {', '.join(RESIDUE_MODES)}, got {residue!r}")
@@ -146,10 +146,7 @@ def count(
     refuse_headerless(profile, f"count: profile file '{profile}'")
     with _progress() as progress:
         history = count_history(profile, column, scale, "count", residue, progress=progress)
-    if float(history.envelope.hi.max()) == float(history.envelope.lo.min()):
-        raise LifeInputError(f"count: profile file '{profile}', column {column!r} is constant "
-                             f"({float(history.envelope.lo.min()) / scale:g} {unit} in all {history.samples} samples): "
-                             "no cycle to count; a time history must vary")
+    refuse_constant(history, f"count: profile file '{profile}'", unit, scale)
     cycles = merge_identical(history.cycles)
     typer.echo(terminal.cycle_text(cycles, unit, scale, top, history.samples, residue))
 

@@ -26,7 +26,7 @@ from mechanics.units import dimension_name, parse_quantity, unit_factor
 from spectra import errors as spectra_errors
 from spectra.counting import RESIDUE_MODES, Cycles
 from spectra.profiles import block_table, bundled_profile, refuse_headerless
-from spectra.streaming import Envelope, count_history
+from spectra.streaming import Envelope, count_history, refuse_constant
 
 BUNDLED_PREFIX = "bundled:"  # profile = "bundled:NAME" reads a demo profile shipped with bendlife
 
@@ -301,11 +301,7 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
                                  f"got {column!r}")
             refuse_headerless(path, f"{where} profile: {profile}")
             history = count_history(path, column, scale, f"{where} profile", residue, progress=progress)
-            low, high = float(history.envelope.lo.min()), float(history.envelope.hi.max())
-            if high == low:
-                raise InputError(
-                    f"{where} profile: {profile}, column {column!r} is constant ({low / scale:g} {unit} "
-                    f"in all {history.samples} samples): no cycle to count; a time history must vary")
+            refuse_constant(history, f"{where} profile: {profile}", unit, scale)
             cycles = history.cycles
             source = (f"time history {profile} column {column!r} [{unit}], {history.samples} samples, "
                       + ("residue as half cycles" if residue == "half" else "counted as a repeating block"))

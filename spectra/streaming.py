@@ -220,6 +220,19 @@ def _read_ahead(chunks: Iterator[np.ndarray], depth: int = READ_AHEAD) -> Iterat
         reader.join()
 
 
+def refuse_constant(history: CountedHistory, where: str, unit: str, scale: float) -> None:
+    """Refuse a history that never varies: it has no cycle to count.
+
+    where : str — what read it, e.g. ``"ride.toml [duty] profile: ride.csv"``; the message starts with it
+    unit : str — the unit of the file's numbers, for the message
+    scale : float — factor from the file's numbers to SI [SI unit per file unit]
+    """
+    low, high = float(history.envelope.lo.min()), float(history.envelope.hi.max())
+    if high == low:
+        raise InputError(f"{where}, column {history.column!r} is constant ({low / scale:g} {unit} in all "
+                         f"{history.samples} samples): no cycle to count; a time history must vary")
+
+
 def minmax_envelope(signal: np.ndarray, bins: int = ENVELOPE_BINS) -> Envelope:
     """A history held whole, decimated into at most ``bins`` (min, max) bins of near-equal size; every extreme
     of the history is kept."""
