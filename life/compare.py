@@ -18,7 +18,7 @@ import matplotlib.pyplot as plt  # noqa: E402
 import numpy as np  # noqa: E402
 import pandas as pd  # noqa: E402
 
-from life.design import BUNDLED_PREFIX, Design, load_design, parse_design  # noqa: E402
+from life.design import BUNDLED_PREFIX, Design, parse_design, read_document  # noqa: E402
 from life.errors import InputError  # noqa: E402
 from life.estimate import CAUTION, LifeResult  # noqa: E402
 from life.report import PALETTE, STYLE, _svg, force_deflection, span_envelope  # noqa: E402
@@ -36,8 +36,8 @@ def with_common_duty(design_file: Path, duty_file: Path) -> Design:
 
     The profile path of the common duty is relative to ``duty_file``; errors in the duty name ``duty_file``.
     """
-    load_design(design_file)  # the design itself must be valid first (its errors name its own file)
-    duty_file = Path(duty_file)
+    design_file, duty_file = Path(design_file), Path(duty_file)
+    design_doc = read_document(design_file)
     if not duty_file.is_file():
         raise InputError(f"--duty {duty_file}: no such file")
     try:
@@ -52,10 +52,8 @@ def with_common_duty(design_file: Path, duty_file: Path) -> Design:
     profile = duty.get("profile")
     if isinstance(profile, str) and not profile.startswith(BUNDLED_PREFIX):
         duty["profile"] = str((duty_file.parent / profile).resolve())
-    design_file = Path(design_file)
-    design_doc = tomllib.loads(design_file.read_text(encoding="utf-8"))
-    design_doc["duty"] = duty
-    return parse_design(design_doc, duty_file.name, design_file.parent, design_file)
+    design_doc["duty"] = duty  # the design's own duty is not used, so neither read nor counted
+    return parse_design(design_doc, design_file.name, design_file.parent, design_file, duty_name=duty_file.name)
 
 COLUMNS = [
     "title", "file", "life_blocks", "life_cycles", "life_days", "mass_kg", "stiffness_n_per_m", "peak_energy_j",

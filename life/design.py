@@ -336,13 +336,15 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
 
 
 def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = None,
-                 progress: Callable[[int, int], None] | None = None) -> Design:
+                 progress: Callable[[int, int], None] | None = None, duty_name: str | None = None) -> Design:
     """Build a Design from a parsed TOML document.
 
     name : str — the file name used in messages
     base_dir : Path — folder that relative profile paths start from
     progress : Callable[[int, int], None] | None — called with (bytes read, file size) while a time history
         is read (for a progress display; the library prints nothing)
+    duty_name : str | None — the file the [duty] table came from, for its messages, when not ``name``
+        (a common duty given to several designs)
     """
     _unknown(doc, TOP_KEYS, name)
     _unknown(_table(doc, "beam", name), BEAM_KEYS, f"{name} [beam]")  # before the plies: a stray key says where
@@ -360,7 +362,7 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
         beam = _beam(doc, plies, name, notes)
     except mechanics_errors.InputError as exc:  # a missing unit or wrong dimension (mechanics.units)
         raise InputError(str(exc)) from None
-    duty = _duty(doc, name, base_dir, notes, progress)
+    duty = _duty(doc, duty_name or name, base_dir, notes, progress)
     fat = _table(doc, "fatigue", name, required=False)
     _unknown(fat, FATIGUE_KEYS, f"{name} [fatigue]")
     rule = _choice(fat.get("mean_stress", "goodman"), RULES, f"{name} [fatigue] mean_stress")
@@ -375,6 +377,12 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
 def load_design(path: Path, progress: Callable[[int, int], None] | None = None) -> Design:
     """Read and validate a design file; ``progress`` as in `parse_design`."""
     path = Path(path)
+    return parse_design(read_document(path), path.name, path.parent, path, progress)
+
+
+def read_document(path: Path) -> dict:
+    """The parsed TOML of a design file; a missing file, invalid TOML (with its line) or non-UTF-8 text is an
+    InputError."""
     if not path.is_file():
         raise InputError(f"{path}: no such design file")
     try:
@@ -388,4 +396,4 @@ def load_design(path: Path, progress: Callable[[int, int], None] | None = None) 
         raise InputError(f"{path.name}: not valid TOML ({text})") from None
     except UnicodeDecodeError:
         raise InputError(f"{path.name}: not a UTF-8 text file") from None
-    return parse_design(doc, path.name, path.parent, path, progress)
+    return doc
