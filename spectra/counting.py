@@ -270,10 +270,23 @@ def _alternates(v: np.ndarray) -> bool:
     return bool(np.all(d != 0.0) and np.all(np.signbit(d[1:]) != np.signbit(d[:-1])))
 
 
+def _closed_only_by_rounding(v: np.ndarray, removed: _Removed) -> bool:
+    """Whether a full cycle B, C was closed by a point D that does not reach B's level (X >= Y only as rounded).
+
+    The order of the residue's half cycles (`_four_point`) rests on every closing point D reaching at least as
+    far as B, which X = |D - C| >= Y = |C - B| means in exact arithmetic. Two ranges equal only after rounding
+    (e.g. 999999.9999999999 - (-48577.0) and 1e6 - (-48577.0), both 1048577.0) break it; such sequences are
+    counted step by step instead, as the reference does.
+    """
+    b, c, d = v[removed.start], v[removed.end], v[removed.closing]
+    return bool(np.any(np.where(b > c, d < b, d > b)))
+
+
 def _reference_count(v: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """The §5.4.4 stack count of the reversal values ``v`` step by step, as `rainflow.extract_cycles` does it.
 
-    Only for sequences that do not alternate (see `_alternates`); a plain loop, as they are rare and short.
+    Only for sequences that do not alternate (see `_alternates`) or whose ranges tie only after rounding (see
+    `_closed_only_by_rounding`); a plain loop, as they are rare.
     """
     points: list[float] = []
     first, second, count = [], [], []
@@ -313,6 +326,8 @@ def _four_point(v: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     if not _alternates(v):
         return _reference_count(v)
     removed = _remove_full_cycles(v)
+    if _closed_only_by_rounding(v, removed):
+        return _reference_count(v)
     R = removed.residue
     r = np.abs(np.diff(v[R]))
     grows = r[1:] >= r[:-1]
