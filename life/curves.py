@@ -137,7 +137,7 @@ class SNCurve:
     def log_cycles(self, amplitude: np.ndarray) -> np.ndarray:
         """log10 of the cycles to failure [-] at an amplitude [Pa or -]; +inf where N = inf."""
         a = np.asarray(amplitude, dtype=float)
-        if np.isnan(a).any() or (a < 0).any():
+        if not (a >= 0).all():  # one pass: NaN fails the comparison too
             raise InputError(f"{self._name()}: amplitudes must be >= 0, got {a[np.isnan(a) | (a < 0)][:3]}")
         L = self._raw_log_cycles(a)
         if self.limit is not None:

@@ -35,7 +35,8 @@ FIRST_LOAD_FAILURE = 0.5  # cycles to failure given to a cycle beyond static str
 # (σ2, τ12 of a 0° ply in a narrow beam come out near 1e-20 of σ1); it does no damage. Without this a
 # log-linear curve, which runs out at N = 10^(1/b) however small the amplitude, would count it.
 NEGLIGIBLE = 1e-9
-CHUNK = 500_000  # local (location × cycle) pairs evaluated at once: about 40 MB of temporaries
+CHUNK = 32_768  # local (location × cycle) pairs evaluated at once: 256 kB temporaries, which stay in cache
+# (measured: 2.5x faster than 500 000 pairs at once, whose fresh 4 MB arrays page-fault at every call)
 EXACT_PAIRS = 20_000_000  # location × cycle pairs evaluated one by one; beyond, cycles are aggregated
 BRACKET_LEVELS = 256  # drive levels across the duty's span for the bracketing grid (aggregation at scale)
 BRACKET_RULES = ("goodman", "gerber", "none")  # rules whose lives fall when a local cycle's interval grows
@@ -229,9 +230,8 @@ class DamageResult:
     mean : np.ndarray — local mean of that cycle, shape (k,) [Pa or -]
     utilisation : np.ndarray — largest local value over the duty as a fraction of the model's static strength,
         max(hi/Xt, −lo/Xc), shape (k,) [-]; 0 for locations without a fatigue model
-    lower : np.ndarray | None — None when ``damage`` is exact everywhere; at scale (see ``miner_damage``) a
-        lower bound of the damage per block, shape (k,): where ``lower == damage`` the damage is exact,
-        elsewhere the true damage lies in [lower, damage]
+    exact : np.ndarray | None — None when ``damage`` is exact everywhere; at scale (see ``miner_damage``) where
+        it was evaluated exactly, shape (k,) bool: elsewhere ``damage`` is an upper bound of the damage per block
     aggregation : str — how the cycles were evaluated: "each cycle", "identical cycles merged" or "bracketed"
     """
 
@@ -240,7 +240,7 @@ class DamageResult:
     amplitude: np.ndarray
     mean: np.ndarray
     utilisation: np.ndarray
-    lower: np.ndarray | None = None
+    exact: np.ndarray | None = None
     aggregation: str = "each cycle"
 
 
@@ -258,15 +258,17 @@ def miner_damage(locs: Locations, cycles: Cycles, force_per_drive: float, stress
 
     At scale (more than EXACT_PAIRS location × cycle pairs) the cycles are aggregated, exactly first:
     identical extremes are merged (counts summed), which changes no damage beyond round-off. If that is still
-    too many, the damage is bracketed (rules in BRACKET_RULES; "cld" stays exact): every cycle is widened to
-    the grid of BRACKET_LEVELS drive levels across the duty's span (min rounded down, max up) and narrowed to
-    it (min up, max down; a cycle narrowed to nothing does no damage), both sets merged on the grid. Under
-    these rules a local cycle whose interval contains another's has no more cycles to failure (the tests check
-    it on every rule and library material), and the map from drive to local stress is linear, so at every
-    location D(narrowed) <= D <= D(widened). Every location whose upper bound reaches the largest lower
-    bound — the critical one among them — and every location where a widened cycle passes the static
-    strength is then evaluated exactly, cycle by cycle: the life, the critical location and the static-failure
-    flags are exact. The others report the upper bound (conservative), with ``lower`` the lower bound.
+    too many, the damage is bounded from above (rules in BRACKET_RULES; "cld" stays exact): every cycle is
+    widened to the grid of BRACKET_LEVELS drive levels across the duty's span (min rounded down, max up) and
+    the widened cycles merged on the grid. Under these rules a local cycle whose interval contains another's
+    has no more cycles to failure (the tests check it on every rule and library material), and the map from
+    drive to local stress is linear, so at every location D <= D(widened). The location of the largest upper
+    bound is then evaluated exactly, cycle by cycle; its damage D* is at most the largest damage of all, so
+    every location whose upper bound reaches D* — the critical one among them — and every location where a
+    widened cycle passes the static strength is evaluated exactly too: the life, the critical location and
+    the static-failure flags are exact. The others report the upper bound (conservative); ``exact`` says which.
+
+    Locations with the same model and the same response have the same damage: each is evaluated once.
     """
     k = locs.response.size
     amp = np.zeros(k)
@@ -298,40 +300,31 @@ def miner_damage(locs: Locations, cycles: Cycles, force_per_drive: float, stress
     if not bracket:
         damage, failed = _damage(locs, rows, scale, cycles)
         return DamageResult(damage, failed, amp, mean, utilisation, None, aggregation)
-    wide, narrow = _bracketing(cycles)
-    upper, failed_wide = _damage(locs, rows, scale, wide)
-    lower, _ = _damage(locs, rows, scale, narrow)
-    exact = rows[(upper[rows] >= lower[rows].max()) | failed_wide[rows]]
+    upper, failed_wide = _damage(locs, rows, scale, _widened(cycles))
+    top = rows[[int(np.argmax(upper[rows]))]]
+    reached = _damage(locs, top, scale, cycles)[0][top[0]]  # D* <= the largest damage of all
+    exact = rows[(upper[rows] >= reached) | failed_wide[rows]]
     damage_exact, failed = _damage(locs, exact, scale, cycles)
     upper[exact] = damage_exact[exact]
-    lower[exact] = damage_exact[exact]
-    return DamageResult(upper, failed, amp, mean, utilisation, lower, "bracketed")
+    evaluated = np.zeros(k, bool)
+    evaluated[exact] = True
+    return DamageResult(upper, failed, amp, mean, utilisation, evaluated, "bracketed")
 
 
-def _bracketing(cycles: Cycles) -> tuple[Cycles, Cycles]:
-    """The cycles widened to and narrowed to a grid of BRACKET_LEVELS drive levels, each set merged on the grid.
+def _widened(cycles: Cycles) -> Cycles:
+    """The cycles widened to a grid of BRACKET_LEVELS drive levels (min down, max up), merged on the grid.
 
-    The grid runs from the smallest to the largest drive of the cycles; a widened cycle contains the cycle,
-    a narrowed one lies inside it (a cycle with no grid level inside is left out of the narrowed set).
+    The grid runs from the smallest to the largest drive of the cycles; a widened cycle contains the cycle.
     """
     base, top = float(cycles.lo.min()), float(cycles.hi.max())
     step = (top - base) / BRACKET_LEVELS
     grid = lambda i: np.minimum(base + i * step, top)  # noqa: E731 — level i of the grid [drive unit]
-    # widened: the level at or below lo and at or above hi (checked against the drive itself: no round-off inside)
+    # the level at or below lo and at or above hi (checked against the drive itself: no round-off inside)
     i_lo = np.floor((cycles.lo - base) / step)
     i_lo -= grid(i_lo) > cycles.lo
     i_hi = np.ceil((cycles.hi - base) / step)
     i_hi += grid(i_hi) < cycles.hi
-    wide = merge_identical(Cycles(np.minimum(grid(i_lo), cycles.lo), np.maximum(grid(i_hi), cycles.hi), cycles.count))
-    # narrowed: the level at or above lo and at or below hi
-    j_lo = np.ceil((cycles.lo - base) / step)
-    j_lo += grid(j_lo) < cycles.lo
-    j_hi = np.floor((cycles.hi - base) / step)
-    j_hi -= grid(j_hi) > cycles.hi
-    keep = j_lo < j_hi
-    narrow = merge_identical(Cycles(np.maximum(grid(j_lo[keep]), cycles.lo[keep]),
-                                    np.minimum(grid(j_hi[keep]), cycles.hi[keep]), cycles.count[keep]))
-    return wide, narrow
+    return merge_identical(Cycles(np.minimum(grid(i_lo), cycles.lo), np.maximum(grid(i_hi), cycles.hi), cycles.count))
 
 
 def _damage(locs: Locations, rows: np.ndarray, scale: np.ndarray, cycles: Cycles) -> tuple[np.ndarray, np.ndarray]:
@@ -345,16 +338,23 @@ def _damage(locs: Locations, rows: np.ndarray, scale: np.ndarray, cycles: Cycles
         return damage, failed
     for m, model in enumerate(locs.models):
         mine = rows[locs.model[rows] == m]
-        step = max(1, CHUNK // nc)
-        for start in range(0, mine.size, step):
-            r = mine[start : start + step]
-            s = scale[r, None]
-            a, b = s * dlo[None, :], s * dhi[None, :]
-            lo, hi = np.minimum(a, b), np.maximum(a, b)
-            N = model.cycles_to_failure(lo, hi)
-            zero = N <= 0
-            failed[r] = zero.any(axis=1)
-            damage[r] = (count[None, :] / np.where(zero, FIRST_LOAD_FAILURE, N)).sum(axis=1)
+        if not mine.size:
+            continue
+        unique, back = np.unique(scale[mine], return_inverse=True)  # equal response, equal damage
+        d = np.zeros(unique.size)
+        f = np.zeros(unique.size, bool)
+        rows_at_once, cycles_at_once = max(1, CHUNK // nc), min(nc, CHUNK)
+        for r0 in range(0, unique.size, rows_at_once):
+            s = unique[r0 : r0 + rows_at_once, None]
+            for c0 in range(0, nc, cycles_at_once):
+                c = slice(c0, c0 + cycles_at_once)
+                a, b = s * dlo[None, c], s * dhi[None, c]
+                N = model.cycles_to_failure(np.minimum(a, b), np.maximum(a, b))
+                zero = N <= 0
+                f[r0 : r0 + rows_at_once] |= zero.any(axis=1)
+                d[r0 : r0 + rows_at_once] += (count[None, c] / np.where(zero, FIRST_LOAD_FAILURE, N)).sum(axis=1)
+        damage[mine] = d[back]
+        failed[mine] = f[back]
     return damage, failed
 
 
