@@ -528,18 +528,34 @@ def merge_identical(cycles: Cycles, decimals: int | None = None) -> Cycles:
     Cycles — one entry per distinct (lo, hi), sorted by lo, then hi, ascending; the
     total count is kept.
     """
+    import pandas as pd  # here: counting a short history needs no pandas (lean start)
+
     lo, hi = cycles.lo, cycles.hi
     if decimals is not None:
         lo, hi = np.round(lo, decimals), np.round(hi, decimals)
     if lo.size == 0:
         return _empty()
-    lo, hi = lo + 0.0, hi + 0.0  # -0.0 + 0.0 is +0.0: one zero, not two
-    order = np.lexsort((hi, lo))
-    lo, hi, count = lo[order], hi[order], cycles.count[order]
-    first = np.ones(lo.size, dtype=bool)
-    first[1:] = (lo[1:] != lo[:-1]) | (hi[1:] != hi[:-1])
-    starts = np.flatnonzero(first)
-    return Cycles(lo=lo[starts], hi=hi[starts], count=np.add.reduceat(count, starts))
+    # -0.0 + 0.0 is +0.0: one zero, not two. Each extreme and each count is replaced by its rank among the
+    # distinct values (pandas' hash factorization, in linear time); a cycle by one integer in the order of
+    # (lo, hi, count), so that one sort of integers (numpy's vectorised sort) brings equal cycles together.
+    code_lo, levels_lo = pd.factorize(lo + 0.0, sort=True)
+    code_hi, levels_hi = pd.factorize(hi + 0.0, sort=True)
+    code_n, levels_n = pd.factorize(cycles.count, sort=True)
+    n_hi, n_n = levels_hi.size, levels_n.size
+    if levels_lo.size * n_hi * n_n >= 1 << 62:  # no room in 64 bits: pairs by a factorization of their own
+        key, pairs = pd.factorize(code_lo.astype(np.int64) * n_hi + code_hi, sort=True)
+        return Cycles(lo=np.asarray(levels_lo)[pairs // n_hi], hi=np.asarray(levels_hi)[pairs % n_hi],
+                      count=np.bincount(key, weights=cycles.count, minlength=pairs.size))
+    key = (code_lo.astype(np.int64) * n_hi + code_hi) * n_n + code_n
+    key.sort()
+    runs = np.flatnonzero(np.concatenate(([True], key[1:] != key[:-1])))  # first of each run of equal cycles
+    times = np.diff(np.append(runs, key.size))
+    first = key[runs]
+    pair, value = first // n_n, np.asarray(levels_n)[first % n_n]
+    starts = np.flatnonzero(np.concatenate(([True], pair[1:] != pair[:-1])))  # first of each (lo, hi)
+    pair = pair[starts]
+    return Cycles(lo=np.asarray(levels_lo)[pair // n_hi], hi=np.asarray(levels_hi)[pair % n_hi],
+                  count=np.add.reduceat(times * value, starts))
 
 
 # --- counting a long history chunk by chunk --------------------------------------------
@@ -706,14 +722,15 @@ def rainflow_chunks(
     return _merged(parts)
 
 
-MERGE_EVERY = 2_000_000  # distinct cycles held before the chunks' cycles are merged together
+MERGE_EVERY = 4_000_000  # cycles held (about 100 MB) before the chunks' cycles are merged together
 
 
 def hold(parts: list[Cycles], full: Cycles) -> list[Cycles]:
-    """The closed cycles held so far, with a chunk's full cycles added (identical ones merged); past
-    MERGE_EVERY rows all are merged together, which bounds the memory. Merging is exact."""
+    """The closed cycles held so far, with a chunk's full cycles added; past MERGE_EVERY rows all are merged
+    together (identical ones summed), which bounds the memory. Merging is exact, and done once for many
+    chunks: merging costs about the same per row whatever the number of rows."""
     if full.lo.size:
-        parts = parts + [merge_identical(full)]
+        parts = parts + [full]
     if len(parts) > 1 and sum(p.lo.size for p in parts) > MERGE_EVERY:
         parts = [_merged(parts)]
     return parts
