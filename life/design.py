@@ -58,6 +58,7 @@ class Duty:
         for a block table
     trace : Envelope | None — a time history's min/max per bin of samples, for plots (also when ``signal`` is
         None) [N or m]
+    profile_sha256 : str | None — SHA-256 of the time-history file's bytes as read (hex); None for a block table
     """
 
     drive: str
@@ -68,6 +69,7 @@ class Duty:
     residue: str = "half"
     profile_path: Path | None = None
     trace: Envelope | None = None
+    profile_sha256: str | None = None
 
     @property
     def extremes(self) -> tuple[float, float]:
@@ -305,7 +307,7 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
             cycles = history.cycles
             source = (f"time history {profile} column {column!r} [{unit}], {history.samples} samples, "
                       + ("residue as half cycles" if residue == "half" else "counted as a repeating block"))
-            signal, trace = history.signal, history.envelope
+            signal, trace, digest = history.signal, history.envelope, history.sha256
         else:
             rows = t["cycles"]
             if not isinstance(rows, list) or not rows:
@@ -326,13 +328,13 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
                 notes.append(f"{where} cycles rows {', '.join(map(str, steady))}: min = max, a steady load with no "
                              "cycle; left out of the fatigue count")
             source = f"block table, {len(rows)} row{'s' if len(rows) != 1 else ''}"
-            signal = trace = None
+            signal = trace = digest = None
             path = None
     except (mechanics_errors.InputError, spectra_errors.InputError) as exc:
         raise InputError(str(exc)) from None
     if cycles.lo.size == 0 or (np.abs(cycles.lo).max() == 0 and np.abs(cycles.hi).max() == 0):
         raise InputError(f"{where}: the duty never loads the part (no cycles, or every drive is zero)")
-    return Duty(drive, cycles, source, signal, per_day, residue, path, trace)
+    return Duty(drive, cycles, source, signal, per_day, residue, path, trace, digest)
 
 
 def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = None,

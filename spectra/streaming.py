@@ -18,7 +18,11 @@ line number. This layer knows no units: ``scale`` turns the file's numbers into 
 from __future__ import annotations
 
 import csv
+import hashlib
+import io
 import math
+import mmap
+import os
 import queue
 import threading
 from dataclasses import dataclass
@@ -69,6 +73,7 @@ class CountedHistory:
     envelope : Envelope — min/max per bin, at most ENVELOPE_BINS bins
     source : str — name of the file read
     column : str — name of the column read
+    sha256 : str — SHA-256 of the file's bytes as they were read (hex)
     """
 
     cycles: Cycles
@@ -77,6 +82,7 @@ class CountedHistory:
     envelope: Envelope
     source: str
     column: str
+    sha256: str = ""
 
 
 def _refuse(path: Path, column: str, scale: float, where: str) -> None:
@@ -101,6 +107,25 @@ def _header(path: Path) -> tuple[int, list[str]] | None:
     return None
 
 
+class _Hashing(io.RawIOBase):
+    """A file read through, its bytes added to a SHA-256 as they pass (hashlib leaves the interpreter lock to
+    other threads while it hashes a large block, so the reading thread hashes alongside the counting)."""
+
+    def __init__(self, fh, digest) -> None:
+        super().__init__()
+        self._fh, self.digest, self.position = fh, digest, fh.tell()
+
+    def readable(self) -> bool:
+        return True
+
+    def readinto(self, buffer) -> int:
+        n = self._fh.readinto(buffer)
+        if n:
+            self.digest.update(memoryview(buffer)[:n])
+            self.position += n
+        return n
+
+
 def history_chunks(
     path: Path,
     column: str,
@@ -108,6 +133,7 @@ def history_chunks(
     where: str,
     chunk_samples: int = CHUNK_SAMPLES,
     on_bytes: Callable[[int, int], None] | None = None,
+    digest=None,
 ) -> Iterator[np.ndarray]:
     """Read one column of a CSV file as a drive signal in SI, chunk by chunk.
 
@@ -120,6 +146,8 @@ def history_chunks(
     chunk_samples : int — samples per chunk (> 0)
     on_bytes : Callable[[int, int], None] | None — called after each chunk with the bytes of the
         file read so far and the file's size (for a progress display)
+    digest : a hashlib hash (e.g. ``hashlib.sha256()``) or None — given, every byte of the file is added
+        to it as read: once the chunks are all read, it holds the file's digest
 
     Yields
     ------
@@ -151,12 +179,16 @@ def history_chunks(
         _refuse(path, column, scale, where)
     size = path.stat().st_size
     read = 0
-    with open(path, "rb") as fh:
-        fh.seek(offset)
+    with open(path, "rb", buffering=0) as raw:
+        if digest is not None:
+            digest.update(raw.read(offset))  # the header and the lines before it
+        raw.seek(offset)
+        fh = _Hashing(raw, digest if digest is not None else _NoDigest())
         try:
             reader = pd.read_csv(
-                fh, header=None, names=names, dtype={column: np.float64}, engine="c",  # all columns: a ragged row is refused
-                comment=COMMENT, skip_blank_lines=True, chunksize=chunk_samples, encoding="utf-8",
+                io.BufferedReader(fh, buffer_size=1 << 20), header=None, names=names, dtype={column: np.float64}, engine="c",  # all columns: a ragged row is refused
+                comment=COMMENT if _has_comment(raw, offset) else None, skip_blank_lines=True,
+                chunksize=chunk_samples, encoding="utf-8",
             )
             for frame in reader:
                 with np.errstate(over="ignore"):  # an overflow is refused just below
@@ -166,12 +198,29 @@ def history_chunks(
                 read += values.size
                 values.flags.writeable = False
                 if on_bytes is not None:
-                    on_bytes(min(fh.tell(), size), size)
+                    on_bytes(min(fh.position, size), size)
                 yield values
         except (ValueError, pd.errors.ParserError, UnicodeDecodeError):
             _refuse(path, column, scale, where)
     if read < 2:
         _refuse(path, column, scale, where)
+
+
+class _NoDigest:
+    """Stands in for a hash when none is asked for."""
+
+    def update(self, data) -> None:
+        pass
+
+
+def _has_comment(fh, offset: int) -> bool:
+    """Whether the file holds a ``#`` past ``offset``: without one, pandas' parser may skip its comment
+    handling, which takes about a quarter of its time (a scan of the bytes costs a few ms per 100 MB)."""
+    size = os.fstat(fh.fileno()).st_size
+    if size <= offset:
+        return False
+    with mmap.mmap(fh.fileno(), 0, access=mmap.ACCESS_READ) as view:
+        return view.find(COMMENT.encode(), offset) >= 0
 
 
 READ_AHEAD = 2  # chunks the reading thread may hold ready while the last one is counted
@@ -298,7 +347,8 @@ def count_history(
     state = OPEN
     parts: list[Cycles] = []
     samples = 0
-    for values in _read_ahead(history_chunks(path, column, scale, where, chunk_samples, progress)):
+    digest = hashlib.sha256()
+    for values in _read_ahead(history_chunks(path, column, scale, where, chunk_samples, progress, digest)):
         samples += values.size
         bins.append(_bins(values))
         if kept is not None:
@@ -317,6 +367,7 @@ def count_history(
     if kept is not None:
         signal = np.concatenate(kept)
         signal.flags.writeable = False
-        return CountedHistory(rainflow_cycles(signal, residue), samples, signal, envelope, name, column)
+        return CountedHistory(rainflow_cycles(signal, residue), samples, signal, envelope, name, column,
+                              digest.hexdigest())
     parts.append(close_count(state, residue))
-    return CountedHistory(_merged(parts), samples, None, envelope, name, column)
+    return CountedHistory(_merged(parts), samples, None, envelope, name, column, digest.hexdigest())
