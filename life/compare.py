@@ -12,16 +12,13 @@ from pathlib import Path
 from typing import Sequence
 
 import matplotlib
+import numpy as np
+import pandas as pd
 
-matplotlib.use("Agg")
-import matplotlib.pyplot as plt  # noqa: E402
-import numpy as np  # noqa: E402
-import pandas as pd  # noqa: E402
-
-from life.design import BUNDLED_PREFIX, Design, parse_design, read_document  # noqa: E402
-from life.errors import InputError  # noqa: E402
-from life.estimate import CAUTION, LifeResult  # noqa: E402
-from life.report import PALETTE, STYLE, _svg, force_deflection, span_envelope  # noqa: E402
+from life.design import BUNDLED_PREFIX, Design, parse_design, read_document
+from life.errors import InputError
+from life.estimate import CAUTION, LifeResult
+from life.report import PALETTE, STYLE, _subplots, _svg, force_deflection, span_envelope
 
 OWN_DUTY = "each design with its own duty"
 
@@ -111,8 +108,8 @@ def bar_figure(table: pd.DataFrame, results: Sequence[LifeResult]) -> str:
     """Life (log scale), specific energy, mass and stiffness of each design, in the order given."""
     labels = [str(i) for i in range(1, len(results) + 1)]
     life = table["life_blocks"].astype(float).to_numpy()
-    with plt.rc_context(STYLE):
-        fig, axes = plt.subplots(1, 4, figsize=(9.5, 3.0))
+    with matplotlib.rc_context(STYLE):
+        fig, axes = _subplots((9.5, 3.0), 1, 4)
         shown = np.where(np.isnan(life), np.nan, np.maximum(life, 1e-3))
         axes[0].bar(labels, np.nan_to_num(shown, nan=0.0), color=PALETTE[0])
         axes[0].set_yscale("log")
@@ -129,13 +126,13 @@ def bar_figure(table: pd.DataFrame, results: Sequence[LifeResult]) -> str:
         for ax in axes:
             ax.set_xlabel("design")
             ax.grid(axis="x", visible=False)
-        return _svg(fig, "bars")
+        return _svg(fig, "bars", wspace=0.45)
 
 
 def overlay_figure(results: Sequence[LifeResult]) -> str:
     """Force–deflection lines over each duty and the largest |ε1| at the outer faces along the span."""
-    with plt.rc_context(STYLE):
-        fig, (a1, a2) = plt.subplots(1, 2, figsize=(9.5, 3.6))
+    with matplotlib.rc_context(STYLE):
+        fig, (a1, a2) = _subplots((9.5, 3.6), 1, 2)
         for i, (r, label) in enumerate(zip(results, _labels(results))):
             colour = PALETTE[i % len(PALETTE)]
             fd = force_deflection(r)
@@ -150,7 +147,7 @@ def overlay_figure(results: Sequence[LifeResult]) -> str:
         a2.set_ylabel("largest |ε1| at the faces [%]")
         a2.set_title("fibre-strain envelope along the span")
         a1.legend(loc="upper left")
-        return _svg(fig, "overlay")
+        return _svg(fig, "overlay", wspace=0.3)
 
 
 def comparison_html(table: pd.DataFrame, results: Sequence[LifeResult], duty: str = OWN_DUTY) -> str:

@@ -16,30 +16,29 @@ from dataclasses import dataclass
 from datetime import datetime, timezone
 from importlib import metadata
 from pathlib import Path
-from typing import Sequence
+from typing import Callable, Mapping, Sequence
 
 import matplotlib
+import numpy as np
+import pandas as pd
+from cycler import cycler
+from matplotlib.collections import LineCollection
+from matplotlib.colors import LogNorm
+from matplotlib.figure import Figure
+from matplotlib.patches import Rectangle
+from matplotlib.ticker import FuncFormatter, LogLocator, NullLocator
 
-matplotlib.use("Agg")
-import matplotlib.pyplot as plt  # noqa: E402
-import numpy as np  # noqa: E402
-import pandas as pd  # noqa: E402
-from cycler import cycler  # noqa: E402
-from matplotlib.colors import LogNorm  # noqa: E402
-from matplotlib.patches import Rectangle  # noqa: E402
-from matplotlib.ticker import FuncFormatter, LogLocator, NullFormatter  # noqa: E402
-
-from life.damage import FACES, FIRST_LOAD_FAILURE, cycle_lives  # noqa: E402
-from life.estimate import CAUTION, LifeResult  # noqa: E402
-from life.meanstress import (  # noqa: E402
+from life.damage import FACES, FIRST_LOAD_FAILURE, cycle_lives
+from life.estimate import CAUTION, LifeResult
+from life.meanstress import (
     gerber_amplitude_at_zero_mean,
     gerber_amplitude_on_ray,
     goodman_amplitude_at_zero_mean,
     goodman_amplitude_on_ray,
     mean_ratio,
 )
-from spectra.counting import Cycles  # noqa: E402
-from spectra.streaming import minmax_envelope  # noqa: E402
+from spectra.counting import Cycles
+from spectra.streaming import minmax_envelope
 
 METHODS = [
     ("Laminate", "classical laminate theory: Q, Q̄, ABD (Kaw, Mechanics of Composite Materials, 2nd ed., Eqs. 2.93, "
@@ -93,6 +92,7 @@ STYLE = {
     "axes.titlesize": 10,
     "axes.titleweight": "bold",
     "axes.titlelocation": "left",
+    "axes.titley": 1.0,  # a fixed title place: matplotlib would otherwise measure the axes to lift it
     "axes.labelcolor": "#2b2a26",
     "axes.edgecolor": "#6b6457",
     "axes.spines.top": False,
@@ -131,23 +131,42 @@ def _power_of_ten(value: float, _position=None) -> str:
 
 
 def _plain_log_labels(fig) -> None:
-    """Every log-scaled axis of the figure (colour bars included) labelled at whole decades, as plain text."""
+    """Every log-scaled axis of the figure (colour bars included) ticked and labelled at whole decades only, as
+    plain text (minor ticks at 2…9 would be some 70 tick artists per axis, a third of a figure's drawing time)."""
     for ax in fig.axes:
         for axis in (ax.xaxis, ax.yaxis):
             if axis.get_scale() == "log":
                 axis.set_major_locator(LogLocator(base=10.0, numticks=8))
                 axis.set_major_formatter(FuncFormatter(_power_of_ten))
-                axis.set_minor_formatter(NullFormatter())
+                axis.set_minor_locator(NullLocator())
 
 
-def _svg(fig, name: str) -> str:
-    """The figure as an inline <svg> element (no XML prologue, no date), then closed."""
-    buf = io.StringIO()
+def _subplots(figsize: tuple[float, float], nrows: int = 1, ncols: int = 1, **kw):
+    """A figure and its axes, without pyplot (no figure manager, no GUI backend to load)."""
+    fig = Figure(figsize=figsize)
+    return fig, fig.subplots(nrows, ncols, **kw)
+
+
+# Margins of every figure [inch]: fixed, wide enough for this report's labels (the widest tick labels, a
+# colour bar's or a second axis's label on the right), so that no layout pass measures the text first (an
+# automatic layout took half of the report's time).
+MARGINS = {"left": 0.95, "right": 0.18, "bottom": 0.55, "top": 0.36}
+
+
+def _svg(fig, name: str, hspace: float = 0.3, wspace: float = 0.2, **margins: float) -> str:
+    """The figure as an inline <svg> element (no XML prologue, no date).
+
+    margins : left, right, bottom, top in inches, over MARGINS; hspace, wspace : between axes, as fractions of
+    the average axes height and width (matplotlib's subplot parameters)
+    """
+    width, height = fig.get_size_inches()
+    edge = {**MARGINS, **margins}
+    fig.subplots_adjust(left=edge["left"] / width, right=1 - edge["right"] / width, bottom=edge["bottom"] / height,
+                        top=1 - edge["top"] / height, hspace=hspace, wspace=wspace)
     _plain_log_labels(fig)
-    fig.tight_layout()  # one layout pass; a "tight" bounding box at saving would draw the figure twice more
-    with plt.rc_context({"svg.hashsalt": name}):  # distinct element ids per figure in one page
+    buf = io.StringIO()
+    with matplotlib.rc_context({"svg.hashsalt": name}):  # distinct element ids per figure in one page
         fig.savefig(buf, format="svg", metadata={"Date": None})
-    plt.close(fig)
     text = buf.getvalue()
     return text[text.index("<svg"):]
 
@@ -308,8 +327,8 @@ def figure_layup(result: LifeResult) -> str:
     L = beam.length * 1e3
     materials = list(dict.fromkeys(p.material.name for p in beam.plies))
     colour = {name: PALETTE[i % len(PALETTE)] for i, name in enumerate(materials)}
-    with plt.rc_context(STYLE):
-        fig, (a1, a2) = plt.subplots(2, 1, figsize=(7.5, 4.6), sharex=True, gridspec_kw={"height_ratios": [3, 1.4]})
+    with matplotlib.rc_context(STYLE):
+        fig, (a1, a2) = _subplots((7.5, 4.6), 2, 1, sharex=True, gridspec_kw={"height_ratios": [3, 1.4]})
         z = 0.0
         for k, p in enumerate(beam.plies, start=1):
             end = L if p.ends_at is None else p.ends_at * 1e3
@@ -337,7 +356,7 @@ def figure_layup(result: LifeResult) -> str:
         a2.set_xlabel("distance from the root x [mm]")
         a2.set_title("planform", fontsize=9)
         _mark_drops(a2, result, label=False)
-        return _svg(fig, "layup")
+        return _svg(fig, "layup", top=0.6, hspace=0.35)
 
 
 def figure_force_deflection(result: LifeResult) -> str:
@@ -346,8 +365,8 @@ def figure_force_deflection(result: LifeResult) -> str:
     lo, hi = result.design.duty.extremes
     fpd, C = result.force_per_drive, result.response.compliance
     peak = _peak_force(result)
-    with plt.rc_context(STYLE):
-        fig, ax = plt.subplots(figsize=(6.2, 3.6))
+    with matplotlib.rc_context(STYLE):
+        fig, ax = _subplots((6.2, 3.6))
         ax.plot(fd.deflection * 1e3, fd.force, color=PALETTE[0], label=f"k = {result.response.stiffness / 1e3:.4g} N/mm")
         f_fill = np.linspace(0.0, peak, 50)
         ax.fill_between(f_fill * C * 1e3, 0, f_fill, color=PALETTE[3], alpha=0.35,
@@ -368,8 +387,8 @@ def figure_strain_envelope(result: LifeResult) -> str:
     env = span_envelope(result)
     c = result.critical
     x = env.x * 1e3
-    with plt.rc_context(STYLE):
-        fig, ax = plt.subplots(figsize=(7.5, 3.6))
+    with matplotlib.rc_context(STYLE):
+        fig, ax = _subplots((7.5, 3.6))
         ax.fill_between(x, env.bottom[:, 0] * 100, env.bottom[:, 1] * 100, color=PALETTE[0], alpha=0.35, lw=0)
         ax.plot(x, env.bottom[:, 1] * 100, color=PALETTE[0], lw=1.2, label="bottom face (ply 1 side)")
         ax.plot(x, env.bottom[:, 0] * 100, color=PALETTE[0], lw=1.2)
@@ -392,19 +411,18 @@ def figure_through_thickness(result: LifeResult) -> str:
     peak = _peak_force(result)
     k = c.station
     present = np.flatnonzero(resp.present[k])
-    with plt.rc_context(STYLE):
-        fig, (a1, a2) = plt.subplots(1, 2, figsize=(7.5, 4.0), sharey=True)
-        for j in present:
-            z = resp.z[k, j] * 1e3
-            a1.plot(resp.strain_12[k, j, :, 0] * peak * 100, z, color=PALETTE[0])
-            a1.plot(resp.strain_12[k, j, :, 1] * peak * 100, z, color=PALETTE[3])
-            a1.plot(resp.strain_12[k, j, :, 2] * peak * 100, z, color=PALETTE[4], lw=1.0)
-            a2.plot(resp.stress_12[k, j, :, 0] * peak / 1e6, z, color=PALETTE[0])
-            a2.plot(resp.stress_12[k, j, :, 1] * peak / 1e6, z, color=PALETTE[3])
-            a2.plot(resp.stress_12[k, j, :, 2] * peak / 1e6, z, color=PALETTE[4], lw=1.0)
+    with matplotlib.rc_context(STYLE):
+        fig, (a1, a2) = _subplots((7.5, 4.0), 1, 2, sharey=True)
+        z = resp.z[k, present] * 1e3  # (ply, face): each ply a straight segment between its faces
+        for ax, field, factor in ((a1, resp.strain_12, peak * 100), (a2, resp.stress_12, peak / 1e6)):
+            for comp, colour, width in ((0, PALETTE[0], 1.6), (1, PALETTE[3], 1.6), (2, PALETTE[4], 1.0)):
+                values = field[k, present, :, comp] * factor
+                ax.add_collection(LineCollection(np.stack([values, z], axis=-1), colors=colour, linewidths=width))
+            ax.autoscale_view()
         for ax in (a1, a2):
-            for zb in np.unique(resp.z[k, present].ravel()):
-                ax.axhline(zb * 1e3, color="#c9c3b5", lw=0.5)
+            left, right = ax.get_xlim()
+            ax.hlines(np.unique(z.ravel()), left, right, colors="#c9c3b5", lw=0.5, zorder=1)
+            ax.set_xlim(left, right)
             if c.station == k:
                 lo_z, hi_z = resp.z[k, c.ply - 1] * 1e3
                 ax.axhspan(lo_z, hi_z, color=CRITICAL_COLOUR, alpha=0.12)
@@ -419,7 +437,7 @@ def figure_through_thickness(result: LifeResult) -> str:
         a1.set_ylabel("z from the mid-plane [mm] (thin lines: ply boundaries)")
         a2.set_xlabel("ply-axis stress [MPa]")
         a1.set_title(f"at x = {c.x_m * 1e3:.1f} mm, peak drive force {peak:.4g} N")
-        return _svg(fig, "through-thickness")
+        return _svg(fig, "through-thickness", wspace=0.08)
 
 
 def figure_duty(result: LifeResult, cycles: pd.DataFrame) -> str:
@@ -429,11 +447,11 @@ def figure_duty(result: LifeResult, cycles: pd.DataFrame) -> str:
     rng = (cycles["max"] - cycles["min"]).to_numpy() * scale
     mean = 0.5 * (cycles["max"] + cycles["min"]).to_numpy() * scale
     count = cycles["count"].to_numpy(float)
-    with plt.rc_context(STYLE):
+    with matplotlib.rc_context(STYLE):
         env = minmax_envelope(duty.signal) if duty.signal is not None else duty.trace  # a long history: its streamed envelope
         if env is not None:
             samples = duty.signal.size if duty.signal is not None else duty.trace.samples
-            fig, (a0, ax) = plt.subplots(2, 1, figsize=(7.5, 5.6), gridspec_kw={"height_ratios": [1, 1.5]})
+            fig, (a0, ax) = _subplots((7.5, 5.6), 2, 1, gridspec_kw={"height_ratios": [1, 1.5]})
             a0.fill_between(env.start, env.lo * scale, env.hi * scale, color=PALETTE[0], lw=0.4, step="post",
                             edgecolor=PALETTE[0], rasterized=True)  # thousands of vertices: a PNG inside the SVG
             a0.set_xlim(0, samples)
@@ -442,7 +460,7 @@ def figure_duty(result: LifeResult, cycles: pd.DataFrame) -> str:
             how = "every sample" if env.start.size == samples else f"min/max of {env.start.size} bins"
             a0.set_title(f"drive history of one block ({samples} samples; {how})")
         else:
-            fig, ax = plt.subplots(figsize=(7.5, 3.8))
+            fig, ax = _subplots((7.5, 3.8))
         nb = 24
         r_edges = np.linspace(0.0, max(rng.max(), 1e-12) * 1.0001, nb + 1)
         m_lo, m_hi = mean.min(), mean.max()
@@ -457,7 +475,7 @@ def figure_duty(result: LifeResult, cycles: pd.DataFrame) -> str:
         ax.set_ylabel(f"cycle range [{unit}]")
         ax.set_title(f"rainflow matrix: {float(count.sum()):.6g} cycles per block")
         ax.grid(False)
-        return _svg(fig, "duty")
+        return _svg(fig, "duty", right=0.4, hspace=0.45)
 
 
 def _equivalent_amplitude(model, sa: np.ndarray, sm: np.ndarray) -> np.ndarray:
@@ -475,8 +493,8 @@ def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame) -> str:
     locs, d = result.locations, result.design
     k = critical_index(result)
     m = int(locs.model[k])
-    with plt.rc_context(STYLE):
-        fig, ax = plt.subplots(figsize=(7.0, 4.0))
+    with matplotlib.rc_context(STYLE):
+        fig, ax = _subplots((7.0, 4.0))
         if m < 0:
             ax.text(0.5, 0.5, f"no fatigue curve for {locs.mode[k]} at the critical location:\nchecked statically only",
                     ha="center", va="center", transform=ax.transAxes)
@@ -499,7 +517,7 @@ def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame) -> str:
                 amps = [float(cv.amplitude(np.array(life))) for cv in order]
                 xm = [-model.Xc] + [mean_ratio(cv.R) * a_ for cv, a_ in zip(order, amps)] + [model.Xt]
                 ya = [0.0] + amps + [0.0]
-                ax.plot(np.array(xm) * ys, np.array(ya) * ys, color=plt.cm.copper(i / 7), lw=1.1, label=f"N = {life:.0e}")
+                ax.plot(np.array(xm) * ys, np.array(ya) * ys, color=matplotlib.colormaps["copper"](i / 7), lw=1.1, label=f"N = {life:.0e}")
             sc = ax.scatter(sm[live] * ys, sa[live] * ys, c=cyc.count[live], cmap="YlGnBu", norm=LogNorm(),
                             s=14, edgecolors="#333", linewidths=0.3, zorder=3, rasterized=live.sum() > 500)
             fig.colorbar(sc, ax=ax, label="cycles per block")
@@ -507,7 +525,7 @@ def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame) -> str:
             ax.set_ylabel(f"amplitude [{yunit}]")
             ax.set_title(f"constant-life diagram at the critical location ({where})")
             ax.legend(loc="upper right", ncol=2)
-            return _svg(fig, "fatigue-curve")
+            return _svg(fig, "fatigue-curve", right=0.4)
         curve = model.curves[0]
         seq = _equivalent_amplitude(model, sa, sm)
         finite = np.isfinite(N) & (N > 0) & live
@@ -545,8 +563,8 @@ def figure_damage(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFr
     """(f) Damage per block along the span (largest per mode at each station) and by drive range at the critical location."""
     d = result.design
     unit, scale = drive_unit(d.duty.drive)
-    with plt.rc_context(STYLE):
-        fig, (a1, a2) = plt.subplots(2, 1, figsize=(7.5, 5.8))
+    with matplotlib.rc_context(STYLE):
+        fig, (a1, a2) = _subplots((7.5, 5.8), 2, 1)
         drawn = False
         for mode, group in locations.groupby("mode"):
             per = group.groupby("x_m")["damage_per_block"].max()
@@ -586,7 +604,29 @@ def figure_damage(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFr
         a3.set_ylabel("cycles per block (line)", color=PALETTE[2])
         a3.grid(False)
         a2.set_title("damage by cycle range at the critical location")
-        return _svg(fig, "damage")
+        return _svg(fig, "damage", right=0.7, hspace=0.45)
+
+
+def _figure_makers(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame) -> dict[str, Callable[[], str]]:
+    return {
+        "layup": lambda: figure_layup(result),
+        "duty": lambda: figure_duty(result, cycles),
+        "force-deflection": lambda: figure_force_deflection(result),
+        "strain-envelope": lambda: figure_strain_envelope(result),
+        "through-thickness": lambda: figure_through_thickness(result),
+        "fatigue-curve": lambda: figure_fatigue_curve(result, cycles),
+        "damage": lambda: figure_damage(result, cycles, locations),
+    }
+
+
+FIGURES = ("layup", "duty", "force-deflection", "strain-envelope", "through-thickness", "fatigue-curve", "damage")
+
+
+def figures(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame,
+            names: Sequence[str] = FIGURES) -> dict[str, str]:
+    """The report's figures ``names`` (of FIGURES) as inline SVG, by name; cycles and locations as for report_html."""
+    makers = _figure_makers(result, cycles, locations)
+    return {name: makers[name]() for name in names}
 
 
 # ---------------------------------------------------------------------------------------------
@@ -602,7 +642,7 @@ def section_identification(result: LifeResult, stamp: str) -> str:
         ("design file", d.path.name if d.path else "— (built in memory)"),
         ("design file SHA-256", _sha256(d.path)),
         ("duty profile", profile.name if profile else "block table in the design file"),
-        ("profile SHA-256", _sha256(profile) if profile else "— (no separate file)"),
+        ("profile SHA-256", (d.duty.profile_sha256 or _sha256(profile)) if profile else "— (no separate file)"),
     ]
     c, s = result.critical, result.summary()
     ply = d.beam.plies[c.ply - 1]
@@ -645,7 +685,7 @@ def _materials(result: LifeResult) -> str:
     return "\n".join(out)
 
 
-def section_inputs(result: LifeResult, cycles: pd.DataFrame, cycle_note: str) -> str:
+def section_inputs(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, svg: Mapping[str, str]) -> str:
     d = result.design
     beam, duty = d.beam, d.duty
     unit, scale = drive_unit(duty.drive)
@@ -677,13 +717,13 @@ def section_inputs(result: LifeResult, cycles: pd.DataFrame, cycle_note: str) ->
 {_table(part, cls="kv")}
 <h3>Ply stack (from the tension face under positive drive)</h3>
 {_table(_stack_rows(beam.plies), header=("plies (count)", "material", "angle [°]", "thickness [mm]", "ends at [mm]"))}
-{_figure(figure_layup(result), "1", "The layup drawn along the span: each ply runs from the root to its drop (black end line); "
+{_figure(svg["layup"], "1", "The layup drawn along the span: each ply runs from the root to its drop (black end line); "
          "thickness is exaggerated. Below, the planform: the width along the span.")}
 <h3>Materials and the source of every value</h3>
 {_materials(result)}
 <h3>Duty</h3>
 {_table(duty_rows, cls="kv")}
-{_figure(figure_duty(result, cycles), "2", "The duty: one block of the drive history (decimated to a min/max envelope when long) "
+{_figure(svg["duty"], "2", "The duty: one block of the drive history (decimated to a min/max envelope when long) "
          "and its rainflow matrix, cycles per block by range and mean (ASTM E1049-85 counting).")}
 <h4>Largest counted cycles</h4>
 {_table(cyc_rows, header=(f"min [{unit}]", f"max [{unit}]", f"range [{unit}]", "count", "energy [J]"), cls="small")}
@@ -740,7 +780,7 @@ def section_method(result: LifeResult) -> str:
 </section>"""
 
 
-def section_results(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame) -> str:
+def section_results(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame, svg: Mapping[str, str]) -> str:
     d, s, c = result.design, result.summary(), result.critical
     ply = d.beam.plies[c.ply - 1]
     life = [
@@ -777,15 +817,15 @@ def section_results(result: LifeResult, cycles: pd.DataFrame, locations: pd.Data
 {_table(static, header=("criterion", "reserve factor", ""), cls="small")}
 <h3>Stiffness, mass and energy</h3>
 {_table(figures, cls="kv")}
-{_figure(figure_force_deflection(result), "3", "Force against load-point deflection over the duty's range; the shaded area is the "
+{_figure(svg["force-deflection"], "3", "Force against load-point deflection over the duty's range; the shaded area is the "
          "elastic energy stored at the peak drive, released at once if the part breaks.")}
-{_figure(figure_strain_envelope(result), "4", "Fibre strain along the span at the two outer faces, from the smallest to the largest "
+{_figure(svg["strain-envelope"], "4", "Fibre strain along the span at the two outer faces, from the smallest to the largest "
          "drive of the duty; dashed grey lines are ply drops, the red line is the critical station.")}
-{_figure(figure_through_thickness(result), "5", "Ply-axis strains and stresses through the thickness at the critical station at the "
+{_figure(svg["through-thickness"], "5", "Ply-axis strains and stresses through the thickness at the critical station at the "
          "peak drive; thin lines are ply boundaries, the shaded band is the critical ply.")}
-{_figure(figure_fatigue_curve(result, cycles), "6", "The fatigue curve (or constant-life diagram) of the critical location with the "
+{_figure(svg["fatigue-curve"], "6", "The fatigue curve (or constant-life diagram) of the critical location with the "
          "duty's cycles there, each moved to the curve's R by the mean-stress rule.")}
-{_figure(figure_damage(result, cycles, locations), "7", "Miner damage per block along the span, and the share of the critical "
+{_figure(svg["damage"], "7", "Miner damage per block along the span, and the share of the critical "
          "location's damage by drive range of the cycles.")}
 <h3>Most damaged locations</h3>
 <p>Amplitude and mean of the largest cycle, in the basis of the location's curve (Pa or strain).</p>
@@ -863,20 +903,23 @@ table.sign { width: 100% } table.sign td { height: 2.4em; width: 28% }
 
 
 def report_html(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, locations: pd.DataFrame,
-                sizing: Sequence[tuple[str, str, str]] | None = None) -> str:
+                sizing: Sequence[tuple[str, str, str]] | None = None, svg: Mapping[str, str] | None = None) -> str:
     """Render the design-review report.
 
     cycles : pd.DataFrame — the counted cycles as in cycles.csv (min, max, count, energy_j; SI)
     cycle_note : str — how cycles.csv holds them
     locations : pd.DataFrame — the locations table as in locations.csv
     sizing : optional rows (quantity, before, after), strings, shown right after the results
+    svg : the figures already drawn (`figures`), by name; None draws them here
     """
+    if svg is None:
+        svg = figures(result, cycles, locations)
     stamp = datetime.now(timezone.utc).strftime("%Y-%m-%d %H:%M UTC")
     body = "\n".join([
         section_identification(result, stamp),
-        section_inputs(result, cycles, cycle_note),
+        section_inputs(result, cycles, cycle_note, svg),
         section_method(result),
-        section_results(result, cycles, locations),
+        section_results(result, cycles, locations, svg),
         section_sizing(sizing),
         section_warnings(result),
         section_cautions(result),
