@@ -20,6 +20,7 @@ example with its [duty] pointed at the file. Measured side by side in one run, f
 from __future__ import annotations
 
 import argparse
+import compileall
 import os
 import re
 import subprocess
@@ -148,6 +149,11 @@ def main() -> None:
     parser.add_argument("--stream", type=float, default=None, help="also run bendlife on this many samples (e.g. 1e8)")
     parser.add_argument("--keep", type=Path, default=None, help="folder for the generated files (kept between runs)")
     args = parser.parse_args()
+    # this tree's modules compiled to bytecode once, as `pip install` does for an installed bendlife (with
+    # PYTHONDONTWRITEBYTECODE set, every fresh process would otherwise compile them again)
+    compileall.compile_dir(str(REPO / "life"), quiet=1)
+    compileall.compile_dir(str(REPO / "mechanics"), quiet=1)
+    compileall.compile_dir(str(REPO / "spectra"), quiet=1)
     folder = args.keep or Path(tempfile.mkdtemp(prefix="bendlife-bench-"))
     folder.mkdir(parents=True, exist_ok=True)
     rows = []
