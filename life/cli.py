@@ -196,8 +196,33 @@ class _progress:
             self.bar.stop()
 
 
+def entry() -> None:
+    """The ``bendlife`` command: `main`, then leave at once with its exit code.
+
+    Every output file is written, moved into place and closed by then, and the terminal output is flushed
+    here; what is skipped is the interpreter's clean-up of numpy, pandas, matplotlib and the arrays of the run,
+    which took 0.3–0.5 s after every run (measured on 10⁷ samples). Tests and other Python callers use `main`.
+    """
+    try:
+        main()
+        code = 0
+    except SystemExit as exc:
+        code = exc.code if isinstance(exc.code, int) else 0 if exc.code is None else 1
+        if isinstance(exc.code, str):
+            print(exc.code, file=sys.stderr)
+    for stream in (sys.stdout, sys.stderr):
+        try:
+            stream.flush()
+        except (OSError, ValueError):  # a closed pipe: nothing more can be said
+            code = code or 1
+    os._exit(code)
+
+
 def main() -> None:
     """Console entry point: turn input errors into exit 2 with one message, faults into exit 1."""
+    from life import allocator
+
+    allocator.tune()  # memory reused for numpy's temporaries (life.allocator)
     import numpy as np  # here, not at the top: lean start
 
     np.seterr(all="ignore")  # the library handles inf/NaN explicitly; no floating-point chatter on the terminal
@@ -210,8 +235,9 @@ def main() -> None:
         sys.exit(exc.exit_code)
     except typer.Abort:
         sys.exit(1)
-    except typer.TyperException as exc:  # a wrong option or argument
-        typer.echo(f"bendlife: {exc.format_message()}", err=True)
+    except typer.TyperException as exc:  # a wrong option or argument (or no command: the help was shown)
+        if exc.format_message():
+            typer.echo(f"bendlife: {exc.format_message()}", err=True)
         sys.exit(exc.exit_code)
     except Exception as exc:
         typer.echo(f"bendlife: internal fault: {type(exc).__name__}: {exc}", err=True)

@@ -105,6 +105,31 @@ def test_example_run_exits_0_and_writes_the_four_files(example_run):
         assert (out / name).is_file(), name
 
 
+def test_the_console_script_leaves_at_once_with_everything_written(example_run):
+    """`life.cli.entry` ends the process without the interpreter's clean-up: the terminal output is there to
+    its last line (flushed first), and every file is whole (the report ends with its closing tag)."""
+    proc, out = example_run
+    assert proc.stdout.rstrip().endswith(f"to {out}")
+    assert (out / "report.html").read_text(encoding="utf-8").rstrip().endswith("</html>")
+    assert not list(out.parent.glob(".bendlife-staging-*"))
+
+
+def test_no_command_shows_the_help_and_no_empty_message():
+    proc = subprocess.run([str(BENDLIFE)], capture_output=True, text=True, timeout=60)
+    assert proc.returncode == 2
+    assert "Usage" in proc.stdout and "run" in proc.stdout
+    assert proc.stderr.strip() == ""
+
+
+def test_the_allocator_is_set_for_array_work_on_linux():
+    """life.allocator: glibc's mallopt takes both thresholds (it returns 1 for each)."""
+    from life import allocator
+
+    if not sys.platform.startswith("linux"):
+        pytest.skip("glibc's mallopt only")
+    assert allocator.tune() is True
+
+
 def test_example_summary_has_every_contract_key_finite_strict_json(example_run):
     """Every key of DESIGN.md's summary.json contract; numbers finite (strict JSON has no NaN/Infinity)."""
     _, out = example_run
