@@ -513,6 +513,14 @@ def _paired_by_extremes(cycles: Cycles, halves: np.ndarray) -> Cycles:
                   count=np.concatenate((cycles.count[whole], merged.count)))
 
 
+def _merged_already(lo: np.ndarray, hi: np.ndarray) -> bool:
+    """Whether (lo, hi) are strictly increasing in lexicographic order and hold no -0.0 (a merged set)."""
+    if np.any((lo == 0) & np.signbit(lo)) or np.any((hi == 0) & np.signbit(hi)):
+        return False  # a -0.0 is there: it is merged with +0.0
+    rise = lo[1:] > lo[:-1]
+    return bool(np.all(rise | ((lo[1:] == lo[:-1]) & (hi[1:] > hi[:-1]))))
+
+
 def merge_identical(cycles: Cycles, decimals: int | None = None) -> Cycles:
     """Sum the counts of cycles with identical extremes.
 
@@ -535,6 +543,8 @@ def merge_identical(cycles: Cycles, decimals: int | None = None) -> Cycles:
         lo, hi = np.round(lo, decimals), np.round(hi, decimals)
     if lo.size == 0:
         return _empty()
+    if decimals is None and _merged_already(lo, hi):  # sorted by (lo, hi), all distinct, no -0.0: nothing to do
+        return cycles
     # -0.0 + 0.0 is +0.0: one zero, not two. Each extreme and each count is replaced by its rank among the
     # distinct values (pandas' hash factorization, in linear time); a cycle by one integer in the order of
     # (lo, hi, count), so that one sort of integers (numpy's vectorised sort) brings equal cycles together.

@@ -444,6 +444,22 @@ def test_merge_by_hand():
     np.testing.assert_array_equal(merged.count, [1.0, 2.5])
 
 
+@settings(max_examples=200)
+@given(st.lists(st.tuples(st.sampled_from([-1.0, -0.0, 0.0, 0.5, 2.0]), st.sampled_from([-0.0, 0.0, 1.0, 2.0, 3.0]),
+                          st.sampled_from([0.5, 1.0, 2.0])), min_size=1, max_size=30))
+def test_merging_a_merged_set_changes_nothing(rows):
+    """Merging twice is merging once (a merged set, sorted, distinct and without -0.0, is returned as it is);
+    -0.0 and +0.0 are one value (reference: the plain dict of as_dict, which has 0.0 == -0.0)."""
+    rows = [(min(a, b), max(a, b), n) for a, b, n in rows]
+    cycles = Cycles(lo=np.array([r[0] for r in rows]), hi=np.array([r[1] for r in rows]), count=np.array([r[2] for r in rows]))
+    once = merge_identical(cycles)
+    twice = merge_identical(once)
+    assert as_dict(once) == as_dict(cycles)
+    for a, b in ((once.lo, twice.lo), (once.hi, twice.hi), (once.count, twice.count)):
+        np.testing.assert_array_equal(a, b)
+    assert not np.signbit(once.lo[once.lo == 0]).any() and not np.signbit(once.hi[once.hi == 0]).any()
+
+
 def test_merge_of_no_cycles_is_empty():
     empty = rainflow_cycles(np.array([1.0, 1.0]))
     assert merge_identical(empty).lo.size == 0
