@@ -44,15 +44,18 @@ def run(
     out: Path = typer.Option(Path("bendlife-out"), "--out", "-o", help="folder for summary.json, cycles.csv, locations.csv, stations.csv, report.html"),
 ) -> None:
     """Estimate the fatigue life, stiffness, mass and stored energy of a design."""
-    from life import terminal
+    from life import parallel, terminal
     from life.design import load_design
     from life.estimate import estimate
-    from life.outputs import render, write_files
 
+    plotting = parallel.preload("life.outputs")
     path = design if design is not None else example_design()
     with _progress() as progress:
         loaded = load_design(path, progress=progress)
     result = estimate(loaded)
+    plotting.join()  # before anything forks
+    from life.outputs import render, write_files
+
     files = render(result)
     written = write_files(files, out)
     typer.echo(terminal.summary_text(result, example=design is None))

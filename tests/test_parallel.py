@@ -65,3 +65,13 @@ def test_the_files_are_the_same_drawn_in_two_processes_or_one(monkeypatch):
     assert set(one) == set(two) == {"summary.json", "cycles.csv", "locations.csv", "stations.csv", "report.html"}
     for name in one:
         assert _without_stamp(two[name]) == _without_stamp(one[name]), name
+
+
+def test_preload_imports_in_the_background_and_keeps_quiet_about_a_failure():
+    import sys
+
+    thread = parallel.preload("json.tool", "no_such_module_here", "calendar")
+    thread.join(timeout=30)
+    assert not thread.is_alive()
+    assert "json.tool" in sys.modules
+    assert "no_such_module_here" not in sys.modules  # the failure ends the preload; the caller's import says why
