@@ -47,7 +47,7 @@ METHODS = [
     ("Beam", "moments and deflections of Roark's Formulas for Stress and Strain, 7th ed., Table 8.1; load-point "
      "compliance by the unit-load method with Timoshenko shear deformation (shear stiffness from the energy of "
      "the equilibrium τxz with the plies' G13/G23: the 5/6 correction for a homogeneous section), integrated "
-     "exactly over taper and ply drops"),
+     "over taper and ply drops by Gauss–Legendre quadrature (error below round-off)"),
     ("Interlaminar shear", "τxz from equilibrium of the ply stresses, ∂τxz/∂z = −∂σx/∂x (Whitney 1987, ch. 6)"),
     ("Static strength", "first-ply failure by maximum stress, by Tsai-Wu with F12* = −1/2 (Tsai & Hahn 1980) and by "
      "maximum fibre strain; interlaminar shear against the interlaminar strength"),
