@@ -72,22 +72,39 @@ def both(here: Callable[[], A], there: Callable[[], B]) -> tuple[A, B]:
     return mine, value
 
 
-def preload(*modules: str) -> threading.Thread:
-    """Import ``modules`` in a background thread, started here; join it before `both` forks.
+class Preload:
+    """Modules imported by a background thread: `start` it when this process turns to work that leaves the
+    interpreter lock free, `join` it before `both` forks.
 
-    `bendlife run` imports its report modules (matplotlib, about 0.3 s) while the time history is read and
-    counted, which leaves the interpreter lock free for much of the time (measured, interleaved runs on 10⁷
-    samples: 0.17–0.2 s sooner). Everything the reading imports is imported before (the design loader's
-    modules), so the two threads never wait on each other's imports. A module that fails to import here is
-    imported again, and fails with its message, where it is used.
+    `bendlife run` starts it when the last chunk of the time history has been read (its pandas parsing keeps
+    the lock; the counting, the merging and the estimate that follow are numpy's, which lets go of it), so
+    the report modules (matplotlib, about 0.3 s) are imported meanwhile. Everything the reading and the
+    estimate import is imported before (the design loader's and the estimate's modules), so the threads never
+    wait on each other's imports. A module that fails to import here is imported again, and fails with its
+    message, where it is used.
     """
-    def load() -> None:
+
+    def __init__(self, *modules: str) -> None:
+        self._thread = threading.Thread(target=self._load, args=modules, name="bendlife-preload", daemon=True)
+        self._lock = threading.Lock()
+        self._started = False
+
+    @staticmethod
+    def _load(*modules: str) -> None:
         for name in modules:
             try:
                 importlib.import_module(name)
             except Exception:  # raised again where the module is used
                 return
 
-    thread = threading.Thread(target=load, name="bendlife-preload", daemon=True)
-    thread.start()
-    return thread
+    def start(self) -> None:
+        """Start the imports (once; later calls do nothing). Safe from any thread."""
+        with self._lock:
+            if not self._started:
+                self._started = True
+                self._thread.start()
+
+    def join(self) -> None:
+        """Wait until the imports are done (started first if they were not)."""
+        self.start()
+        self._thread.join()

@@ -70,8 +70,17 @@ def test_the_files_are_the_same_drawn_in_two_processes_or_one(monkeypatch):
 def test_preload_imports_in_the_background_and_keeps_quiet_about_a_failure():
     import sys
 
-    thread = parallel.preload("json.tool", "no_such_module_here", "calendar")
-    thread.join(timeout=30)
-    assert not thread.is_alive()
+    preload = parallel.Preload("json.tool", "no_such_module_here", "calendar")
+    preload.start()
+    preload.start()  # a second start does nothing
+    preload.join()
     assert "json.tool" in sys.modules
     assert "no_such_module_here" not in sys.modules  # the failure ends the preload; the caller's import says why
+
+
+def test_preload_joined_without_a_start_runs_first():
+    import sys
+
+    preload = parallel.Preload("email.mime.text")
+    preload.join()
+    assert "email.mime.text" in sys.modules
