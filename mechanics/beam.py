@@ -241,17 +241,18 @@ def _pieces(beam: Beam, x0: float, x1: float) -> list[tuple[float, float]]:
     if slope == 0.0:
         return [(x0, x1)]
     zero = -beam.width_root / slope  # beyond the tip (narrowing taper) or behind the root (widening)
+    least = (x1 - x0) * 2.0**-40  # a zero that rounds onto the end of the beam: at most some 40 pieces
     pieces = []
-    if zero > x1:
+    if zero > x0 + 0.5 * (x1 - x0):
         b = x1
         while b > x0:
-            a = max(x0, b - (zero - b))
+            a = max(x0, b - max(zero - b, least))
             pieces.append((a, b))
             b = a
         return pieces[::-1]
     a = x0
     while a < x1:
-        b = min(x1, a + (a - zero))
+        b = min(x1, a + max(a - zero, least))
         pieces.append((a, b))
         a = b
     return pieces

@@ -107,6 +107,16 @@ def test_extreme_taper_compliance_closed_form(b0, b1):
     assert r.compliance == pytest.approx(12 * I / (E * h**3) + J0 / (KS * G * h), rel=1e-12)
 
 
+def test_a_tip_width_that_rounds_the_zero_onto_the_tip_still_integrates():
+    """A tip of 1e-20 of the root puts the zero of the width line on the tip in floating point (slope −b0/L
+    exactly): the pieces stop at 2^-40 of the segment, and the compliance is finite and above the uniform
+    beam's (a narrower part is softer)."""
+    L, b0, h = 0.4, 50e-3, 4e-3
+    tapered = respond(Beam("cantilever", L, b0, b0 * 1e-20, plies(h)))
+    uniform = respond(Beam("cantilever", L, b0, b0, plies(h)))
+    assert np.isfinite(tapered.compliance) and tapered.compliance > uniform.compliance
+
+
 @settings(max_examples=40, deadline=None)
 @given(st.floats(1e-3, 1.0), st.floats(0.02, 50.0), st.floats(0.05, 0.95),
        st.sampled_from(["cantilever", "three-point", "guided"]))
