@@ -607,26 +607,23 @@ def figure_damage(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFr
         return _svg(fig, "damage", right=0.7, hspace=0.45)
 
 
-def _figure_makers(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame) -> dict[str, Callable[[], str]]:
-    return {
-        "layup": lambda: figure_layup(result),
-        "duty": lambda: figure_duty(result, cycles),
-        "force-deflection": lambda: figure_force_deflection(result),
-        "strain-envelope": lambda: figure_strain_envelope(result),
-        "through-thickness": lambda: figure_through_thickness(result),
-        "fatigue-curve": lambda: figure_fatigue_curve(result, cycles),
-        "damage": lambda: figure_damage(result, cycles, locations),
-    }
-
-
-FIGURES = ("layup", "duty", "force-deflection", "strain-envelope", "through-thickness", "fatigue-curve", "damage")
+# The report's figures in their order, each drawn from (result, cycles, locations).
+FIGURE_MAKERS: dict[str, Callable[[LifeResult, pd.DataFrame, pd.DataFrame], str]] = {
+    "layup": lambda result, cycles, locations: figure_layup(result),
+    "duty": lambda result, cycles, locations: figure_duty(result, cycles),
+    "force-deflection": lambda result, cycles, locations: figure_force_deflection(result),
+    "strain-envelope": lambda result, cycles, locations: figure_strain_envelope(result),
+    "through-thickness": lambda result, cycles, locations: figure_through_thickness(result),
+    "fatigue-curve": lambda result, cycles, locations: figure_fatigue_curve(result, cycles),
+    "damage": lambda result, cycles, locations: figure_damage(result, cycles, locations),
+}
+FIGURES = tuple(FIGURE_MAKERS)
 
 
 def figures(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame,
             names: Sequence[str] = FIGURES) -> dict[str, str]:
     """The report's figures ``names`` (of FIGURES) as inline SVG, by name; cycles and locations as for report_html."""
-    makers = _figure_makers(result, cycles, locations)
-    return {name: makers[name]() for name in names}
+    return {name: FIGURE_MAKERS[name](result, cycles, locations) for name in names}
 
 
 # ---------------------------------------------------------------------------------------------
