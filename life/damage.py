@@ -302,9 +302,12 @@ def miner_damage(locs: Locations, cycles: Cycles, force_per_drive: float, stress
         return DamageResult(damage, failed, amp, mean, utilisation, None, aggregation)
     upper, failed_wide = _damage(locs, rows, scale, _widened(cycles))
     top = rows[[int(np.argmax(upper[rows]))]]
-    reached = _damage(locs, top, scale, cycles)[0][top[0]]  # D* <= the largest damage of all
+    damage_top, failed_top = _damage(locs, top, scale, cycles)
+    reached = damage_top[top[0]]  # D* <= the largest damage of all
     exact = rows[(upper[rows] >= reached) | failed_wide[rows]]
-    damage_exact, failed = _damage(locs, exact, scale, cycles)
+    rest = exact[exact != top[0]]  # the top location is evaluated already
+    damage_exact, failed = _damage(locs, rest, scale, cycles)
+    damage_exact[top], failed[top] = damage_top[top], failed_top[top]
     upper[exact] = damage_exact[exact]
     evaluated = np.zeros(k, bool)
     evaluated[exact] = True
