@@ -181,7 +181,10 @@ def materials(name: Optional[str] = typer.Argument(None, help="a material to sho
 class _progress:
     """A progress bar on stderr while a long time history is read (rich), as a callback for the library.
 
-    Shown only for a file over PROGRESS_BYTES and only on a terminal; the library itself prints nothing.
+    Shown only for a file over PROGRESS_BYTES and only on a terminal; the library itself prints nothing. The
+    callback also learns when the file is read through (``when_read``, called once) and, for a file over
+    SHARED_BYTES, shortens the interpreter's switch interval while the reading and counting threads share the
+    work (SWITCH_INTERVAL; the former interval back on leaving).
     """
 
     def __init__(self, when_read: Callable[[], None] | None = None) -> None:

@@ -17,7 +17,6 @@ import pint
 from mechanics.errors import InputError
 
 
-
 def _registry() -> pint.UnitRegistry:
     """pint's default units, its parsed definitions cached in the user's cache folder (pint's own cache: a
     start 0.13 s sooner); without a writable cache folder, parsed afresh."""

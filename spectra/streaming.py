@@ -22,7 +22,6 @@ import hashlib
 import io
 import math
 import mmap
-import os
 import queue
 import threading
 from dataclasses import dataclass
@@ -108,8 +107,9 @@ def _header(path: Path) -> tuple[int, list[str]] | None:
 
 
 class _Hashing(io.RawIOBase):
-    """A file read through, its bytes added to a SHA-256 as they pass (hashlib leaves the interpreter lock to
-    other threads while it hashes a large block, so the reading thread hashes alongside the counting)."""
+    """A file read through, its bytes added to a hash (or none) as they pass, and counted (hashlib leaves the
+    interpreter lock to other threads while it hashes a large block, so the reading thread hashes alongside
+    the counting)."""
 
     def __init__(self, fh, digest) -> None:
         super().__init__()
@@ -121,7 +121,8 @@ class _Hashing(io.RawIOBase):
     def readinto(self, buffer) -> int:
         n = self._fh.readinto(buffer)
         if n:
-            self.digest.update(memoryview(buffer)[:n])
+            if self.digest is not None:
+                self.digest.update(memoryview(buffer)[:n])
             self.position += n
         return n
 
@@ -183,11 +184,11 @@ def history_chunks(
         if digest is not None:
             digest.update(raw.read(offset))  # the header and the lines before it
         raw.seek(offset)
-        fh = _Hashing(raw, digest if digest is not None else _NoDigest())
+        fh = _Hashing(raw, digest)
         try:
             reader = pd.read_csv(
                 io.BufferedReader(fh, buffer_size=1 << 20), header=None, names=names, dtype={column: np.float64}, engine="c",  # all columns: a ragged row is refused
-                comment=COMMENT if _has_comment(raw, offset) else None, skip_blank_lines=True,
+                comment=COMMENT if _has_comment(raw, offset, size) else None, skip_blank_lines=True,
                 chunksize=chunk_samples, encoding="utf-8",
             )
             for frame in reader:
@@ -206,17 +207,9 @@ def history_chunks(
         _refuse(path, column, scale, where)
 
 
-class _NoDigest:
-    """Stands in for a hash when none is asked for."""
-
-    def update(self, data) -> None:
-        pass
-
-
-def _has_comment(fh, offset: int) -> bool:
-    """Whether the file holds a ``#`` past ``offset``: without one, pandas' parser may skip its comment
-    handling, which takes about a quarter of its time (a scan of the bytes costs a few ms per 100 MB)."""
-    size = os.fstat(fh.fileno()).st_size
+def _has_comment(fh, offset: int, size: int) -> bool:
+    """Whether the file (of ``size`` bytes) holds a ``#`` past ``offset``: without one, pandas' parser may skip
+    its comment handling, which takes about a quarter of its time (a scan of the bytes costs a few ms per 100 MB)."""
     if size <= offset:
         return False
     with mmap.mmap(fh.fileno(), 0, access=mmap.ACCESS_READ) as view:
