@@ -12,8 +12,8 @@ import time
 
 import numpy as np
 
-from spectra.counting import merge_identical, rainflow_cycles, reversals
-from spectra.profiles import bundled_profile, read_time_history
+from flexcycle.spectra.counting import merge_identical, rainflow_cycles, reversals
+from flexcycle.spectra.profiles import bundled_profile, read_time_history
 
 N = 1_000_000  # samples
 

@@ -1,4 +1,4 @@
-"""Time mechanics.beam.respond() on a large response map: 200 stations × 40 plies, six ply drops, a taper.
+"""Time flexcycle.mechanics.beam.respond() on a large response map: 200 stations × 40 plies, six ply drops, a taper.
 
 Run: ``.venv/bin/python benchmarks/bench_response_map.py``. Prints the best of 5 runs of ``respond()`` for
 the large beam and for a tiny 2-ply beam in the same run, and their ratio. Target: under 0.2 s for the
@@ -8,8 +8,8 @@ from __future__ import annotations
 
 import time
 
-from mechanics.beam import Beam, Ply, respond
-from mechanics.materials import library
+from flexcycle.mechanics.beam import Beam, Ply, respond
+from flexcycle.mechanics.materials import library
 
 TARGET_S = 0.2
 REPEATS = 5

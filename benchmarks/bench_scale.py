@@ -1,4 +1,4 @@
-"""bendlife at scale: counting speed, the whole run, peak memory and scaling on long histories.
+"""flexcycle at scale: counting speed, the whole run, peak memory and scaling on long histories.
 
     .venv/bin/python benchmarks/bench_scale.py                  # 1e5, 1e6, 1e7 samples
     .venv/bin/python benchmarks/bench_scale.py --sizes 1e5 1e6  # a quicker subset
@@ -10,12 +10,12 @@ drift) plus sensor noise, quantised to the sensor's 0.01 mm — with a design fi
 example with its [duty] pointed at the file. Measured side by side in one run, for each size:
 
 - counting alone, in memory, the best of three runs each: the `rainflow` package (`extract_cycles` on the
-  samples as a list) against `spectra.counting.rainflow_cycles` (the same cycles, checked one by one), and their ratio;
-- the whole `bendlife run` (the console script's code in a fresh process: start, read, count, estimate,
+  samples as a list) against `flexcycle.spectra.counting.rainflow_cycles` (the same cycles, checked one by one), and their ratio;
+- the whole `flexcycle run` (the console script's code in a fresh process: start, read, count, estimate,
   report, files, exit) against a fresh process doing only `pandas.read_csv` of the same file plus the
   package's `extract_cycles`, the best of three each, and their ratio;
-- peak memory (maximum resident set size) of the `bendlife run` process (a separate run through
-  `life.cli.main`, which reports it before the interpreter's clean-up);
+- peak memory (maximum resident set size) of the `flexcycle run` process (a separate run through
+  `flexcycle.cli.app.main`, which reports it before the interpreter's clean-up);
 - time per sample of the run, which stays flat when the run scales linearly.
 """
 from __future__ import annotations
@@ -80,10 +80,10 @@ hwm = [line.split()[1] for line in open("/proc/self/status") if line.startswith(
 print("BENCH", time.perf_counter() - start, hwm, file=sys.stderr)
 """
 
-RUN = "from life.cli import main\nsys.argv = ['bendlife', 'run', {design!r}, '--out', {out!r}]\ntry:\n    main()\nexcept SystemExit as e:\n    assert not e.code, e.code"
-# the `bendlife` console script itself (life.cli.entry, which leaves without the interpreter's clean-up)
-COMMAND = "import sys\nsys.argv = ['bendlife', 'run', {design!r}, '--out', {out!r}]\nfrom life.cli import entry\nentry()"
-IN_MEMORY = ("from spectra.streaming import count_history\n"
+RUN = "from flexcycle.cli.app import main\nsys.argv = ['flexcycle', 'run', {design!r}, '--out', {out!r}]\ntry:\n    main()\nexcept SystemExit as e:\n    assert not e.code, e.code"
+# the `flexcycle` console script itself (flexcycle.cli.app.entry, which leaves without the interpreter's clean-up)
+COMMAND = "import sys\nsys.argv = ['flexcycle', 'run', {design!r}, '--out', {out!r}]\nfrom flexcycle.cli.app import entry\nentry()"
+IN_MEMORY = ("from flexcycle.spectra.streaming import count_history\n"
              "h = count_history({csv!r}, 'deflection_mm', 1e-3, 'bench', keep_signal=10**9)\nassert h.signal is not None")
 REFERENCE = ("import pandas as pd, rainflow\nframe = pd.read_csv({csv!r}, comment='#')\n"
              "cycles = list(rainflow.extract_cycles(frame['deflection_mm'].tolist()))")
@@ -131,7 +131,7 @@ def counting(csv: Path) -> tuple[float, float, float, int]:
     import pandas as pd
     import rainflow
 
-    from spectra.counting import rainflow_cycles
+    from flexcycle.spectra.counting import rainflow_cycles
 
     x = pd.read_csv(csv, comment="#")["deflection_mm"].to_numpy(dtype=float)
     times, counted = {}, {}
@@ -163,7 +163,7 @@ def counting(csv: Path) -> tuple[float, float, float, int]:
 
 
 def counting_apart(csv: Path, tuned: bool) -> tuple[float, float, float, int]:
-    """`counting` in a fresh Python, its C allocator set as `bendlife` sets its own (life.allocator) or left as
+    """`counting` in a fresh Python, its C allocator set as `flexcycle` sets its own (life.allocator) or left as
     it starts: how the allocator reuses memory depends on what a process did before."""
     args = [sys.executable, str(Path(__file__).resolve()), "--count", str(csv)] + (["--tuned"] if tuned else [])
     done = subprocess.run(args, cwd=REPO, env=dict(os.environ, PYTHONPATH=str(REPO)), capture_output=True, text=True)
@@ -174,27 +174,27 @@ def counting_apart(csv: Path, tuned: bool) -> tuple[float, float, float, int]:
 
 
 def main() -> None:
-    sys.path.insert(0, str(REPO))  # this tree's bendlife, not an installed one
+    sys.path.insert(0, str(REPO))  # this tree's flexcycle, not an installed one
     parser = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
     parser.add_argument("--sizes", nargs="*", type=float, default=[1e5, 1e6, 1e7])
-    parser.add_argument("--stream", type=float, default=None, help="also run bendlife on this many samples (e.g. 1e8)")
+    parser.add_argument("--stream", type=float, default=None, help="also run flexcycle on this many samples (e.g. 1e8)")
     parser.add_argument("--keep", type=Path, default=None, help="folder for the generated files (kept between runs)")
     parser.add_argument("--count", type=Path, default=None, help=argparse.SUPPRESS)  # one counting run, in its own process
     parser.add_argument("--tuned", action="store_true", help=argparse.SUPPRESS)
     args = parser.parse_args()
     if args.count:
         if args.tuned:
-            from life import allocator
+            from flexcycle import allocator
 
             allocator.tune()
         print("COUNT", *counting(args.count))
         return
-    # this tree's modules compiled to bytecode once, as `pip install` does for an installed bendlife (with
+    # this tree's modules compiled to bytecode once, as `pip install` does for an installed flexcycle (with
     # PYTHONDONTWRITEBYTECODE set, every fresh process would otherwise compile them again)
     compileall.compile_dir(str(REPO / "life"), quiet=1)
     compileall.compile_dir(str(REPO / "mechanics"), quiet=1)
     compileall.compile_dir(str(REPO / "spectra"), quiet=1)
-    folder = args.keep or Path(tempfile.mkdtemp(prefix="bendlife-bench-"))
+    folder = args.keep or Path(tempfile.mkdtemp(prefix="flexcycle-bench-"))
     folder.mkdir(parents=True, exist_ok=True)
     rows = []
     for size in [int(s) for s in args.sizes]:
@@ -210,9 +210,9 @@ def main() -> None:
         _, t_untuned, _, _ = counting_apart(csv, tuned=False)
         rows.append((size, n_cycles, t_package, t_ours, t_ordered, t_untuned, run_wall, ref_wall, run_rss, memory_rss,
                      ref_rss))
-    print(f"\nbendlife scale benchmark ({os.cpu_count()} CPUs, Python {sys.version.split()[0]}); files in {folder}")
+    print(f"\nflexcycle scale benchmark ({os.cpu_count()} CPUs, Python {sys.version.split()[0]}); files in {folder}")
     print("counting [s], best of 3, each size in a fresh process: package = rainflow.extract_cycles; ours = "
-          "rainflow_cycles(order='any') with the allocator set as bendlife sets it; ordered = in the package's "
+          "rainflow_cycles(order='any') with the allocator set as flexcycle sets it; ordered = in the package's "
           "order; untuned = ours with the allocator left as it starts\nrun, read+ref [s]: fresh processes, best of 3;"
           " peak memory [MB]: run, in-memory count (count_history keeping the signal), read+ref")
     print(f"{'samples':>8} {'cycles':>8} | {'package':>7} {'ours':>6} {'ratio':>6} {'ordered':>7} {'ratio':>6} "
@@ -237,7 +237,7 @@ def main() -> None:
         write_design(design, csv)
         run_wall = command(COMMAND.format(design=str(design), out=str(folder / f"out-{size}")), repeats=1)
         _, _, run_rss = child(RUN.format(design=str(design), out=str(folder / f"out-{size}")), repeats=1)
-        print(f"{size:>10.0e} streamed: bendlife run {run_wall:.1f} s, peak RSS {run_rss:.0f} MB, "
+        print(f"{size:>10.0e} streamed: flexcycle run {run_wall:.1f} s, peak RSS {run_rss:.0f} MB, "
               f"{run_wall / size * 1e6:.3f} µs per sample")
 
 

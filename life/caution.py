@@ -1,4 +1,4 @@
-"""The caution every output of bendlife carries: in a module of its own, light to import (the command's help shows it)."""
+"""The caution every output of flexcycle carries: in a module of its own, light to import (the command's help shows it)."""
 
 CAUTION = (
     "Estimates, not certification: confirm by fatigue tests of prototypes, apply environmental knock-downs "

@@ -1,6 +1,6 @@
 """The design file (TOML, DESIGN.md "Design file v1"): read, convert units, validate, build a Design.
 
-Every dimensional value is a string with its unit (pint, ``mechanics.units``); a missing unit, an unknown
+Every dimensional value is a string with its unit (pint, ``flexcycle.mechanics.units``); a missing unit, an unknown
 key, a wrong type or an impossible value is an ``InputError`` naming the file, the key (and row) and what
 would be right. Nothing is guessed.
 """
@@ -9,26 +9,27 @@ from __future__ import annotations
 import difflib
 import re
 import tomllib
+from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any, Callable, Mapping, Sequence
+from typing import Any
 
 import numpy as np
 
-from life.errors import InputError
-from life.meanstress import RULES
-from mechanics import errors as mechanics_errors
-from mechanics.beam import DEFAULT_STATIONS, SUPPORTS, Beam, Ply, segments, validate
-from mechanics.energy import DRIVES
-from mechanics.laminate import SECTIONS
-from mechanics.materials import Material, resolve_materials
-from mechanics.units import dimension_name, parse_quantity, unit_factor
-from spectra import errors as spectra_errors
-from spectra.counting import RESIDUE_MODES, Cycles
-from spectra.profiles import block_table, bundled_profile, refuse_headerless
-from spectra.streaming import Envelope, count_history, refuse_constant
+from flexcycle.errors import InputError
+from flexcycle.fatigue.meanstress import RULES
+from flexcycle.mechanics import errors as mechanics_errors
+from flexcycle.mechanics.beam import DEFAULT_STATIONS, SUPPORTS, Beam, Ply, segments, validate
+from flexcycle.mechanics.energy import DRIVES
+from flexcycle.mechanics.laminate import SECTIONS
+from flexcycle.mechanics.materials import Material, resolve_materials
+from flexcycle.mechanics.units import dimension_name, parse_quantity, unit_factor
+from flexcycle.spectra import errors as spectra_errors
+from flexcycle.spectra.counting import RESIDUE_MODES, Cycles
+from flexcycle.spectra.profiles import block_table, bundled_profile, refuse_headerless
+from flexcycle.spectra.streaming import Envelope, count_history, refuse_constant
 
-BUNDLED_PREFIX = "bundled:"  # profile = "bundled:NAME" reads a demo profile shipped with bendlife
+BUNDLED_PREFIX = "bundled:"  # profile = "bundled:NAME" reads a demo profile shipped with flexcycle
 
 TOP_KEYS = {"title", "beam", "ply", "duty", "fatigue", "material"}
 BEAM_KEYS = {"support", "span", "width", "load_spacing", "section", "stations"}
@@ -50,7 +51,7 @@ class Duty:
     cycles : Cycles — counted (time history) or tabulated cycles [N or m]
     source : str — where they came from, for reports
     signal : np.ndarray | None — the time history in SI, when one was given and is short enough to keep
-        (spectra.streaming.KEEP_SIGNAL samples) [N or m]
+        (flexcycle.spectra.streaming.KEEP_SIGNAL samples) [N or m]
     blocks_per_day : float | None — repeats of the whole duty per day [1/day]
     residue : str — how a time history's residue is counted: "half" (ASTM E1049-85, half cycles) or "repeat"
         (the block as one of an endless repetition: the history closed on its largest reversal, full cycles)
@@ -84,7 +85,7 @@ class Design:
     title : str; path : Path | None — the design file
     beam : Beam — the part, stack expanded (each repeat of ``count`` its own ply, numbered from 1 at the tension face)
     duty : Duty
-    mean_stress : str — one of life.meanstress.RULES
+    mean_stress : str — one of flexcycle.fatigue.meanstress.RULES
     miner_limit : float — Miner sum taken as failure [-]
     stress_factor : float — partial factor on every local stress and strain [-]
     materials : dict[str, Material] — the materials the stack uses
@@ -134,7 +135,7 @@ def _length(value: Any, where: str) -> float:
     length = parse_quantity(value, "length", where)
     lo, hi = LENGTH_RANGE
     if length > 0 and not lo <= length <= hi:
-        raise InputError(f"{where}: {value!r} is outside the lengths bendlife models (1 um to 1 km); "
+        raise InputError(f"{where}: {value!r} is outside the lengths flexcycle models (1 um to 1 km); "
                          "check the number and its unit")
     return length
 
@@ -220,7 +221,7 @@ def _plies(doc: Mapping, materials: Mapping[str, Material], name: str, notes: li
             raise InputError(f"{where} material: a material name as a string, e.g. \"e-glass-epoxy\", got {mat_name!r}")
         if mat_name not in materials:
             close = difflib.get_close_matches(str(mat_name), sorted(materials), n=1)
-            hint = f"did you mean {close[0]!r}?" if close else "see `bendlife materials`"
+            hint = f"did you mean {close[0]!r}?" if close else "see `flexcycle materials`"
             raise InputError(f"{where} material: unknown material {mat_name!r}; {hint}")
         mat = materials[mat_name]
         angle = row.get("angle", 0)
@@ -362,7 +363,7 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     try:
         plies = _plies(doc, materials, name, notes)
         beam = _beam(doc, plies, name, notes)
-    except mechanics_errors.InputError as exc:  # a missing unit or wrong dimension (mechanics.units)
+    except mechanics_errors.InputError as exc:  # a missing unit or wrong dimension (flexcycle.mechanics.units)
         raise InputError(str(exc)) from None
     duty = _duty(doc, duty_name or name, base_dir, notes, progress)
     fat = _table(doc, "fatigue", name, required=False)

@@ -1,7 +1,7 @@
 """The life estimate: design → response map → counted cycles → damage → LifeResult.
 
-The one orchestrator of bendlife (DESIGN.md, data flow). Mechanics gives every location's response per
-unit drive force; the duty's cycles are counted once; ``life.damage`` maps each cycle's extremes to every
+The one orchestrator of flexcycle (DESIGN.md, data flow). Mechanics gives every location's response per
+unit drive force; the duty's cycles are counted once; ``flexcycle.fatigue.damage`` maps each cycle's extremes to every
 location; Miner's sum per block gives the life; mechanics gives stiffness, mass, static reserve and energy.
 """
 from __future__ import annotations
@@ -11,15 +11,28 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from life.caution import CAUTION
-from life.curves import DATA_CYCLES_MAX
-from life.damage import FACES, DamageResult, Locations, build_models, cycle_lives, locations, miner_damage
-from life.meanstress import model_warnings
-from life.design import Design
-from life.errors import InputError
-from mechanics.beam import BeamResponse, core_warnings, range_warnings, respond
-from mechanics.energy import StorageFigures, cycle_energy, force_per_drive, storage_figures
-from mechanics.strength import interlaminar_reserve, max_stress_reserve, strengths_of, tsai_wu_reserve
+from flexcycle.caution import CAUTION
+from flexcycle.design import Design
+from flexcycle.errors import InputError
+from flexcycle.fatigue.curves import DATA_CYCLES_MAX
+from flexcycle.fatigue.damage import (
+    FACES,
+    DamageResult,
+    Locations,
+    build_models,
+    cycle_lives,
+    locations,
+    miner_damage,
+)
+from flexcycle.fatigue.meanstress import model_warnings
+from flexcycle.mechanics.beam import BeamResponse, core_warnings, range_warnings, respond
+from flexcycle.mechanics.energy import StorageFigures, cycle_energy, force_per_drive, storage_figures
+from flexcycle.mechanics.strength import (
+    interlaminar_reserve,
+    max_stress_reserve,
+    strengths_of,
+    tsai_wu_reserve,
+)
 
 IMPLAUSIBLE_STRAIN = 0.2  # a fibre strain no structural composite or wood reaches (common practice): an input slip
 

@@ -5,27 +5,26 @@ moved into place at the end, so a failing run leaves the output folder as it was
 """
 from __future__ import annotations
 
-import io
 import json
 import os
 import shutil
 import tempfile
+from collections.abc import Mapping, Sequence
 from pathlib import Path
-from typing import TYPE_CHECKING, Mapping, Sequence
+from typing import TYPE_CHECKING
 
 import numpy as np
 import pandas as pd
 
-from life.damage import FACES
-from life.errors import InputError
-from life.estimate import LifeResult
-from life.parallel import both
-from life.report import FIGURES, figures, report_html
-from mechanics.energy import cycle_energy
-from spectra.counting import Cycles, merge_identical
+from flexcycle.errors import InputError
+from flexcycle.estimate import LifeResult
+from flexcycle.fatigue.damage import FACES
+from flexcycle.mechanics.energy import cycle_energy
+from flexcycle.report.report import FIGURES, figures, report_html
+from flexcycle.spectra.counting import Cycles, merge_identical
 
-if TYPE_CHECKING:  # life.sizing loads scipy.optimize (0.3 s): only `bendlife size` needs it
-    from life.sizing import SizingAnswer
+if TYPE_CHECKING:  # flexcycle.sizing.sizing loads scipy.optimize (0.3 s): only `flexcycle size` needs it
+    from flexcycle.sizing.sizing import SizingAnswer
 
 MAX_CYCLE_ROWS = 20_000  # beyond this many distinct cycles, cycles.csv holds them binned (said in the report)
 BIN_RESOLUTION = 1e-4  # bin width as a fraction of the largest |drive| when binning
@@ -131,12 +130,6 @@ def station_table(result: LifeResult) -> pd.DataFrame:
     )
 
 
-# What a second process (`life.parallel`) makes while this one makes the rest: about half of the time each
-# (measured in runs on 10⁷ samples, one process: these four figures and cycles.csv 0.41 s, the other three
-# figures and the other tables 0.48 s; the fatigue curve and the damage are the slowest to draw).
-ELSEWHERE = ("layup", "duty", "force-deflection", "strain-envelope")
-
-
 def render(result: LifeResult, sizing: Sequence[tuple[str, str, str]] | None = None) -> dict[str, str]:
     """All output files as text, keyed by file name.
 
@@ -147,27 +140,20 @@ def render(result: LifeResult, sizing: Sequence[tuple[str, str, str]] | None = N
     summary["cycles_csv"] = note
     locations = location_table(result)
 
-    def here() -> tuple[dict[str, str], dict[str, str]]:
-        files = {
-            "summary.json": json.dumps(summary, indent=2, allow_nan=False) + "\n",
-            "locations.csv": locations.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
-            "stations.csv": station_table(result).to_csv(index=False, float_format="%.9g", lineterminator="\n"),
-        }
-        return files, figures(result, cycles, locations, [name for name in FIGURES if name not in ELSEWHERE])
-
-    def there() -> tuple[str, dict[str, str]]:
-        return (cycles.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
-                figures(result, cycles, locations, ELSEWHERE))
-
-    (files, svg), (cycles_csv, svg_there) = both(here, there)
-    files["cycles.csv"] = cycles_csv
-    files["report.html"] = report_html(result, cycles, note, locations, sizing, svg={**svg, **svg_there})
+    files = {
+        "summary.json": json.dumps(summary, indent=2, allow_nan=False) + "\n",
+        "cycles.csv": cycles.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
+        "locations.csv": locations.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
+        "stations.csv": station_table(result).to_csv(index=False, float_format="%.9g", lineterminator="\n"),
+    }
+    svg = figures(result, cycles, locations, FIGURES)
+    files["report.html"] = report_html(result, cycles, note, locations, sizing, svg=svg)
     return {name: files[name] for name in ("summary.json", "cycles.csv", "locations.csv", "stations.csv", "report.html")}
 
 
 def sizing_json(answer: SizingAnswer) -> str:
     """sizing.json: the target, every step with its factor, the before/after table and both summaries."""
-    from life.sizing import sizing_rows
+    from flexcycle.sizing.sizing import sizing_rows
 
     def proposal(p) -> dict:
         return {"file": p.name, "steps": [{"what": st.what, "factor": st.factor, "note": st.note} for st in p.steps],
@@ -187,7 +173,7 @@ def sizing_json(answer: SizingAnswer) -> str:
     return json.dumps(doc, indent=2, allow_nan=False) + "\n"
 
 
-STAGING_PREFIX = ".bendlife-staging-"  # the temporary folder beside --out that a run writes into first
+STAGING_PREFIX = ".flexcycle-staging-"  # the temporary folder beside --out that a run writes into first
 
 
 def write_files(files: Mapping[str, str], out: Path) -> list[Path]:
@@ -196,7 +182,7 @@ def write_files(files: Mapping[str, str], out: Path) -> list[Path]:
     Every file is written into a temporary folder created beside ``out`` (same file system), and only when
     all are written are they moved into ``out`` one by one (``os.replace``, atomic per file); the staging
     folder is then removed. A failure before the moves leaves ``out`` as it was. Files in ``out`` that
-    bendlife does not write are never touched.
+    flexcycle does not write are never touched.
 
     Raises InputError — ``out`` is a file, an output name there is taken by a folder, or the folder
     cannot be written.
@@ -219,7 +205,7 @@ def write_files(files: Mapping[str, str], out: Path) -> list[Path]:
         umask = os.umask(0)
         os.umask(umask)
         for name, text in files.items():
-            with io.open(staging / name, "w", encoding="utf-8", newline="") as fh:
+            with open(staging / name, "w", encoding="utf-8", newline="") as fh:
                 fh.write(text)
             os.chmod(staging / name, 0o666 & ~umask)
         out.mkdir(exist_ok=True)

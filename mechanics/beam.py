@@ -27,16 +27,16 @@ deflection stays below about 10 % of the span: a warning says when it does not).
 """
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Sequence
 
 import numpy as np
 
-from mechanics.errors import InputError
-from mechanics.laminate import (
+from .errors import InputError
+from .laminate import (
     SECTIONS,
-    Layer,
     Laminate,
+    Layer,
     ShearFlow,
     UnitBending,
     laminate,
@@ -45,7 +45,7 @@ from mechanics.laminate import (
     shear_stiffness,
     unit_bending,
 )
-from mechanics.materials import Material
+from .materials import Material
 
 SUPPORTS = ("cantilever", "three-point", "four-point", "guided")
 DEFAULT_STATIONS = 40

@@ -10,8 +10,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from mechanics.beam import BeamResponse
-from mechanics.errors import InputError
+from .beam import BeamResponse
+from .errors import InputError
 
 DRIVES = ("force", "deflection")
 

@@ -13,13 +13,13 @@ and width.
 """
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Sequence
 
 import numpy as np
 
-from mechanics.errors import InputError
-from mechanics.materials import Material
+from .errors import InputError
+from .materials import Material
 
 SECTIONS = ("beam", "plate")
 

@@ -30,8 +30,8 @@ from dataclasses import dataclass
 from importlib import resources
 from types import MappingProxyType
 
-from mechanics.errors import InputError
-from mechanics.units import is_dimensionless, parse_quantity
+from .errors import InputError
+from .units import is_dimensionless, parse_quantity
 
 MATERIAL_KEYS_REQUIRED = ("E1", "E2", "G12", "nu12", "density", "Xt", "Xc", "Yt", "Yc", "S12")
 MATERIAL_KEYS_OPTIONAL = ("G13", "G23", "thickness", "S13", "eps1t", "eps1c")
@@ -43,7 +43,7 @@ CURVE_KEYS = ("form", "R", "S1", "m", "b", "limit", "knee", "m2", "b2", "source"
 NUMERIC_KEYS = MATERIAL_KEYS_REQUIRED + MATERIAL_KEYS_OPTIONAL
 TABLE_KEYS = ("description", "kind", "sources") + NUMERIC_KEYS + FATIGUE_TABLES
 
-# The quantity kind (mechanics.units.KINDS) each numeric key is read as.
+# The quantity kind (flexcycle.mechanics.units.KINDS) each numeric key is read as.
 QUANTITY_KIND = {
     "E1": "stress", "E2": "stress", "G12": "stress", "G13": "stress", "G23": "stress",
     "nu12": "strain", "density": "density",
@@ -486,7 +486,7 @@ def material_from_table(name: str, table: Mapping, where: str, base: Material | 
 
 @functools.cache
 def _library() -> Mapping[str, Material]:
-    text = resources.files("mechanics").joinpath("data/materials.toml").read_text(encoding="utf-8")
+    text = resources.files("flexcycle.mechanics").joinpath("data/materials.toml").read_text(encoding="utf-8")
     try:
         tables = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:

@@ -3,7 +3,7 @@
 A reserve factor R is the load multiplier to first failure: the stresses scale linearly with the drive,
 so the ply fails at R times the given stress state. R > 1 is safe, R < 1 has failed, R = inf when the
 ply carries no stress. Everything is vectorized over any leading shape of the stress arrays, e.g.
-(stations, plies, faces) of ``mechanics.beam.BeamResponse.stress_12``.
+(stations, plies, faces) of ``flexcycle.mechanics.beam.BeamResponse.stress_12``.
 
 Stresses in ply axes, ``stress_12[..., :] = [σ1, σ2, τ12]`` [Pa]; strengths are positive magnitudes
 (compressive ones included).
@@ -14,13 +14,13 @@ ply, nor about fatigue (``life`` does that).
 """
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Sequence
 
 import numpy as np
 
-from mechanics.errors import InputError
-from mechanics.materials import Material
+from .errors import InputError
+from .materials import Material
 
 MODES = ("fibre-tension", "fibre-compression", "transverse", "shear")
 TSAI_HAHN_F12_STAR = -0.5  # normalised interaction term F12* (Tsai & Hahn, Introduction to Composite Materials, 1980)

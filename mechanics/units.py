@@ -1,6 +1,6 @@
 """Quantities at the edge: strings with units in, SI floats out (pint).
 
-Inside bendlife every number is SI (m, N, Pa, J, kg, s). A dimensional value
+Inside flexcycle every number is SI (m, N, Pa, J, kg, s). A dimensional value
 must come with its unit (``"0.8 mm"``, ``"45 lbf"``, ``"38.6 GPa"``); a bare
 number for a dimensional quantity is an error, never a guess. Ratios (strain,
 Poisson's ratio, counts) are bare numbers; a strain may also be written with a
@@ -14,7 +14,7 @@ import tokenize
 
 import pint
 
-from mechanics.errors import InputError
+from .errors import InputError
 
 
 def _registry() -> pint.UnitRegistry:

@@ -11,7 +11,7 @@ E1049-85, section 5.4.4, that returns exactly the cycles of the `rainflow` packa
 cycles, same extremes, in the same order. Long histories are counted chunk by chunk
 with the residue carried over (`count_chunk`, `close_count`). It knows no
 units: a cycle's extremes are in the unit of the signal handed in (SI by the
-convention of bendlife: m for a deflection, N for a force).
+convention of flexcycle: m for a deflection, N for a force).
 
 A counted history may be the whole life (``residue="half"``, the standard's residue
 as half cycles) or one block of a duty that repeats (``residue="repeat"``: the block
@@ -20,13 +20,12 @@ joint of two blocks are counted whole).
 """
 from __future__ import annotations
 
+from collections.abc import Callable, Iterable
 from dataclasses import dataclass
-
-from typing import Callable, Iterable
 
 import numpy as np
 
-from spectra.errors import InputError
+from .errors import InputError
 
 
 def _frozen_vector(values: object, name: str) -> np.ndarray:
@@ -505,7 +504,7 @@ def _paired_by_extremes(cycles: Cycles, halves: np.ndarray) -> Cycles:
     if np.any(merged.count != np.round(merged.count)):
         raise RuntimeError(
             f"rainflow_cycles: the closed loop left half cycles that do not pair "
-            f"(lo {cycles.lo[halves].tolist()}, hi {cycles.hi[halves].tolist()}); this is a fault in bendlife"
+            f"(lo {cycles.lo[halves].tolist()}, hi {cycles.hi[halves].tolist()}); this is a fault in flexcycle"
         )
     whole = np.ones(cycles.count.size, dtype=bool)
     whole[halves] = False

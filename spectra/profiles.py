@@ -2,7 +2,7 @@
 
 A duty is given one of three ways, each turned into SI values here:
 - a time history read from a CSV file (one column of drive samples), later counted
-  by `spectra.counting.rainflow_cycles`;
+  by `flexcycle.spectra.counting.rainflow_cycles`;
 - a block table of (min, max, count) rows, already cycles;
 - a constant-amplitude duty (one block of identical cycles).
 
@@ -16,16 +16,16 @@ import csv
 import io
 import math
 import re
+from collections.abc import Sequence
 from dataclasses import dataclass
 from importlib import resources
 from pathlib import Path
-from typing import Sequence
 
 import numpy as np
 import pandas as pd
 
-from spectra.counting import Cycles
-from spectra.errors import InputError
+from .counting import Cycles
+from .errors import InputError
 
 COMMENT = "#"  # a line whose first character is this is a comment (common practice for CSV headers)
 
@@ -241,7 +241,7 @@ def constant_amplitude(lo: float, hi: float, count: float) -> Cycles:
 
 
 def _data_dir() -> Path:
-    return Path(str(resources.files("spectra") / "data"))
+    return Path(str(resources.files("flexcycle.spectra") / "data"))
 
 
 def bundled_profiles() -> list[str]:

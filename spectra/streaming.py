@@ -3,13 +3,13 @@
 A measured duty can be far larger than memory (a day at 500 Hz is over 4·10⁷ samples). Here
 the drive column of a CSV file is read chunk by chunk (pandas' C parser, one column, float),
 each chunk is rainflow-counted with the residue carried to the next
-(`spectra.counting.count_chunk`), and the history is kept only as a min/max envelope for
+(`flexcycle.spectra.counting.count_chunk`), and the history is kept only as a min/max envelope for
 plots. A history of at most ``keep_signal`` samples is also kept whole, and counted at once
-with `spectra.counting.rainflow_cycles` (the cycles in the reference package's order);
+with `flexcycle.spectra.counting.rainflow_cycles` (the cycles in the reference package's order);
 a longer one is counted in chunks, its identical cycles merged (the same cycles: the tests
 check it).
 
-The file format and every error message are those of `spectra.profiles.read_time_history`:
+The file format and every error message are those of `flexcycle.spectra.profiles.read_time_history`:
 when the fast reader meets anything it does not accept (a missing file or column, a cell
 that is not a finite number, a ragged row, a repeated column name, fewer than 2 samples),
 the file is read again by `read_time_history`, which raises the message with the file's
@@ -24,15 +24,15 @@ import math
 import mmap
 import queue
 import threading
+from collections.abc import Callable, Iterator
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Callable, Iterator
 
 import numpy as np
 
-from spectra.counting import OPEN, Cycles, _merged, close_count, count_chunk, hold, rainflow_cycles
-from spectra.errors import InputError
-from spectra.profiles import COMMENT, read_time_history
+from .counting import OPEN, Cycles, _merged, close_count, count_chunk, hold, rainflow_cycles
+from .errors import InputError
+from .profiles import COMMENT, read_time_history
 
 CHUNK_SAMPLES = 1 << 20  # samples per chunk read: 8 MB of floats, a few times that in parser buffers
 ENVELOPE_BIN = 1 << 10  # samples per envelope bin while reading; CHUNK_SAMPLES is a multiple of it
@@ -140,7 +140,7 @@ def history_chunks(
 
     Parameters
     ----------
-    path : Path — CSV file, the format of `spectra.profiles.read_time_history`
+    path : Path — CSV file, the format of `flexcycle.spectra.profiles.read_time_history`
     column : str — name of the column holding the drive
     scale : float — factor from the file's numbers to SI [SI unit per file unit]
     where : str — what asked for the file; every error message starts with it
@@ -247,7 +247,7 @@ def _read_ahead(chunks: Iterator[np.ndarray], depth: int = READ_AHEAD) -> Iterat
         except BaseException as exc:  # handed to the caller's thread, raised there
             hand(("error", exc))
 
-    reader = threading.Thread(target=read, name="bendlife-reader", daemon=True)
+    reader = threading.Thread(target=read, name="flexcycle-reader", daemon=True)
     reader.start()
     try:
         while True:
@@ -316,7 +316,7 @@ def count_history(
     Parameters
     ----------
     path, column, scale, where : as `history_chunks`
-    residue : str — one of `spectra.counting.RESIDUE_MODES`, as in `rainflow_cycles`
+    residue : str — one of `flexcycle.spectra.counting.RESIDUE_MODES`, as in `rainflow_cycles`
     keep_signal : int — the history is kept whole (and counted at once) up to this many samples
     progress : Callable[[int, int], None] | None — called with (bytes read, file size) after each
         chunk; the library prints nothing

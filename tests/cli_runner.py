@@ -1,4 +1,4 @@
-"""Run the ``bendlife`` console entry point in-process (fast; no subprocess) for the CLI tests."""
+"""Run the ``flexcycle`` console entry point in-process (fast; no subprocess) for the CLI tests."""
 from __future__ import annotations
 
 import contextlib
@@ -8,7 +8,7 @@ from typing import NamedTuple
 
 import numpy as np
 
-from life import cli
+from flexcycle.cli import app as cli
 
 
 class Ran(NamedTuple):
@@ -20,11 +20,11 @@ class Ran(NamedTuple):
 
 
 def run_cli(args: list) -> Ran:
-    """``bendlife ARGS`` in-process without pytest fixtures (for hypothesis tests, which run many cases
+    """``flexcycle ARGS`` in-process without pytest fixtures (for hypothesis tests, which run many cases
     in one test function): exit code, stdout, stderr."""
     out, err = io.StringIO(), io.StringIO()
     saved_argv, saved_err = sys.argv, np.geterr()
-    sys.argv = ["bendlife", *map(str, args)]
+    sys.argv = ["flexcycle", *map(str, args)]
     try:
         with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
             try:
@@ -38,7 +38,7 @@ def run_cli(args: list) -> Ran:
     return Ran(code, out.getvalue(), err.getvalue())
 
 
-def bendlife(args: list, monkeypatch, capsys) -> Ran:
-    """Run ``bendlife ARGS`` through ``life.cli.main`` (the fixtures are taken for the tests' signatures;
+def flexcycle(args: list, monkeypatch, capsys) -> Ran:
+    """Run ``flexcycle ARGS`` through ``flexcycle.cli.app.main`` (the fixtures are taken for the tests' signatures;
     the output is captured by `run_cli` itself)."""
     return run_cli(args)

@@ -14,7 +14,7 @@ import dataclasses
 
 import pytest
 
-from mechanics.materials import Material, library
+from flexcycle.mechanics.materials import Material, library
 
 
 def make_isotropic(E: float, nu: float = 0.3, density: float = 1800.0, name: str = "test-isotropic") -> Material:

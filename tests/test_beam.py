@@ -1,4 +1,4 @@
-"""Tests of mechanics.beam: closed-form beam results computed by hand, and invariants (hypothesis).
+"""Tests of flexcycle.mechanics.beam: closed-form beam results computed by hand, and invariants (hypothesis).
 
 Sources: Roark's Formulas for Stress and Strain, 7th ed. (Young & Budynas), Table 8.1 (moments and
 deflections; the four supports are checked in tests/validation/test_roark_beam_cases.py); the unit-load
@@ -13,10 +13,10 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from mechanics.beam import Beam, Ply, core_warnings, range_warnings, respond, validate
-from mechanics.errors import InputError
-from mechanics.materials import library
-from mechanics.units import parse_quantity
+from flexcycle.mechanics.beam import Beam, Ply, core_warnings, range_warnings, respond, validate
+from flexcycle.mechanics.errors import InputError
+from flexcycle.mechanics.materials import library
+from flexcycle.mechanics.units import parse_quantity
 
 ROUND_OFF = 1e-12  # closed form and model agree exactly: only floating-point round-off separates them
 
@@ -125,7 +125,7 @@ def test_compliance_agrees_with_scipy_quad(span, tip_ratio, drop_at, support):
     compliance of a tapered, stepped beam, C = Σ ∫ m²/(b·Db) dx + ∫ v²/(b·S) dx over the segments."""
     from scipy import integrate
 
-    from mechanics.beam import guided_end_moment, moment_shear, segments
+    from flexcycle.mechanics.beam import guided_end_moment, moment_shear, segments
 
     b0 = 30e-3
     stack = (Ply(ISO, 0.0, 1e-3), Ply(ISO, 0.0, 1e-3), Ply(ISO, 0.0, 1e-3, ends_at=drop_at * span / (2 if support == "three-point" else 1)))
@@ -136,9 +136,9 @@ def test_compliance_agrees_with_scipy_quad(span, tip_ratio, drop_at, support):
     total = 0.0
     for s in segs:
         v = float(moment_shear(beam, np.array([0.5 * (s.x0 + s.x1)]), m0)[1][0])
-        total += integrate.quad(lambda x: float(moment_shear(beam, np.array([x]), m0)[0][0]) ** 2
+        total += integrate.quad(lambda x, s=s: float(moment_shear(beam, np.array([x]), m0)[0][0]) ** 2
                                 * s.bending.flexural_compliance / float(beam.width(x)), s.x0, s.x1, epsabs=0.0, epsrel=1e-12, limit=200)[0]
-        total += integrate.quad(lambda x: v**2 / (float(beam.width(x)) * s.shear_stiffness), s.x0, s.x1, epsabs=0.0, epsrel=1e-12, limit=200)[0]
+        total += integrate.quad(lambda x, s=s, v=v: v**2 / (float(beam.width(x)) * s.shear_stiffness), s.x0, s.x1, epsabs=0.0, epsrel=1e-12, limit=200)[0]
     assert r.compliance == pytest.approx(beam.halves * total, rel=1e-10)
 
 

@@ -1,7 +1,7 @@
-"""The ``bendlife`` command, life/cli.py (DESIGN.md, outputs contract and exit codes).
+"""The ``flexcycle`` command, life/cli.py (DESIGN.md, outputs contract and exit codes).
 
 The bundled example and one wrong design run through the installed console script (a subprocess, as a
-user runs it); everything else runs in-process through ``life.cli.main`` with ``sys.argv`` patched, which
+user runs it); everything else runs in-process through ``flexcycle.cli.app.main`` with ``sys.argv`` patched, which
 is the same entry point without the ~1.5 s start-up of a new interpreter.
 
 Designs here are small cantilevers of a UD laminate, for which the rectangular-section formulas hold at
@@ -22,14 +22,14 @@ import numpy as np
 import pandas as pd
 import pytest
 import rainflow
-
-from spectra.profiles import bundled_profile
-from cli_runner import bendlife
-from life import cli as cli_module
-from spectra import profiles as spectra_profiles
+from cli_runner import flexcycle
 from designs import user_glass
 
-BENDLIFE = Path(sys.executable).parent / "bendlife"  # the console script of this environment
+from flexcycle.cli import app as cli_module
+from flexcycle.spectra import profiles as spectra_profiles
+from flexcycle.spectra.profiles import bundled_profile
+
+FLEXCYCLE = Path(sys.executable).parent / "flexcycle"  # the console script of this environment
 
 CONTRACT_KEYS = {
     "title", "life_cycles", "life_blocks", "life_days", "damage_per_block", "critical", "stiffness_n_per_m",
@@ -91,9 +91,9 @@ def ride_cycles_reference() -> list[tuple[float, float]]:
 
 @pytest.fixture(scope="module")
 def example_run(tmp_path_factory):
-    """`bendlife run --out DIR` with no design: the bundled example, run once for the tests below."""
+    """`flexcycle run --out DIR` with no design: the bundled example, run once for the tests below."""
     out = tmp_path_factory.mktemp("example") / "out"
-    proc = subprocess.run([str(BENDLIFE), "run", "--out", str(out)], capture_output=True, text=True, timeout=120)
+    proc = subprocess.run([str(FLEXCYCLE), "run", "--out", str(out)], capture_output=True, text=True, timeout=120)
     return proc, out
 
 
@@ -105,29 +105,20 @@ def test_example_run_exits_0_and_writes_the_four_files(example_run):
         assert (out / name).is_file(), name
 
 
-def test_the_console_script_leaves_at_once_with_everything_written(example_run):
-    """`life.cli.entry` ends the process without the interpreter's clean-up: the terminal output is there to
-    its last line (flushed first), and every file is whole (the report ends with its closing tag)."""
+def test_the_console_script_leaves_everything_written(example_run):
+    """`flexcycle.cli.app.entry`: the terminal output is there to its last line (flushed), and every file is
+    whole (the report ends with its closing tag); no staging folder is left behind."""
     proc, out = example_run
     assert proc.stdout.rstrip().endswith(f"to {out}")
     assert (out / "report.html").read_text(encoding="utf-8").rstrip().endswith("</html>")
-    assert not list(out.parent.glob(".bendlife-staging-*"))
+    assert not list(out.parent.glob(".flexcycle-staging-*"))
 
 
 def test_no_command_shows_the_help_and_no_empty_message():
-    proc = subprocess.run([str(BENDLIFE)], capture_output=True, text=True, timeout=60)
+    proc = subprocess.run([str(FLEXCYCLE)], capture_output=True, text=True, timeout=60)
     assert proc.returncode == 2
     assert "Usage" in proc.stdout and "run" in proc.stdout
     assert proc.stderr.strip() == ""
-
-
-def test_the_allocator_is_set_for_array_work_on_linux():
-    """life.allocator: glibc's mallopt takes both thresholds (it returns 1 for each)."""
-    from life import allocator
-
-    if not sys.platform.startswith("linux"):
-        pytest.skip("glibc's mallopt only")
-    assert allocator.tune() is True
 
 
 def test_example_summary_has_every_contract_key_finite_strict_json(example_run):
@@ -233,13 +224,13 @@ def test_wrong_design_exits_2_with_one_message_and_leaves_out_untouched(tmp_path
     out.mkdir()
     (out / "notes.txt").write_bytes(b"my notes\n")
     before = snapshot(out)
-    proc = subprocess.run([str(BENDLIFE), "run", str(design), "--out", str(out)], capture_output=True, text=True,
+    proc = subprocess.run([str(FLEXCYCLE), "run", str(design), "--out", str(out)], capture_output=True, text=True,
                           timeout=120)
     assert proc.returncode == 2
     assert "Traceback" not in proc.stderr and "Traceback" not in proc.stdout
     lines = proc.stderr.strip().splitlines()
     assert len(lines) == 1, proc.stderr
-    assert lines[0].startswith("bendlife: wrong.toml [[ply]] #1 thickness")
+    assert lines[0].startswith("flexcycle: wrong.toml [[ply]] #1 thickness")
     assert "no unit" in lines[0]
     assert snapshot(out) == before
 
@@ -247,18 +238,18 @@ def test_wrong_design_exits_2_with_one_message_and_leaves_out_untouched(tmp_path
 def test_check_good_and_bad(tmp_path, monkeypatch, capsys):
     good = tmp_path / "good.toml"
     good.write_text(cantilever('drive = "deflection"\ncycles = [ { min = "0 mm", max = "5 mm", count = 10 } ]'))
-    ran = bendlife(["check", good], monkeypatch, capsys)
+    ran = flexcycle(["check", good], monkeypatch, capsys)
     assert ran.code == 0 and "valid" in ran.out and ran.err == ""
     bad = tmp_path / "bad.toml"
     bad.write_text(WRONG)
-    ran = bendlife(["check", bad], monkeypatch, capsys)
+    ran = flexcycle(["check", bad], monkeypatch, capsys)
     assert ran.code == 2
-    assert ran.err.startswith("bendlife: bad.toml") and len(ran.err.strip().splitlines()) == 1
+    assert ran.err.startswith("flexcycle: bad.toml") and len(ran.err.strip().splitlines()) == 1
     assert "Traceback" not in ran.err
 
 
 def test_missing_design_file_exits_2(tmp_path, monkeypatch, capsys):
-    ran = bendlife(["run", tmp_path / "none.toml", "--out", tmp_path / "out"], monkeypatch, capsys)
+    ran = flexcycle(["run", tmp_path / "none.toml", "--out", tmp_path / "out"], monkeypatch, capsys)
     assert ran.code == 2 and "none.toml" in ran.err
     assert not (tmp_path / "out").exists()  # nothing is created when the input is wrong
 
@@ -268,11 +259,11 @@ def test_missing_design_file_exits_2(tmp_path, monkeypatch, capsys):
 
 
 def test_count_matches_the_rainflow_package(monkeypatch, capsys):
-    """`bendlife count` on a bundled CSV: its table's counts add up to the `rainflow` package's count_cycles
+    """`flexcycle count` on a bundled CSV: its table's counts add up to the `rainflow` package's count_cycles
     total on the same column (reference implementation of ASTM E1049-85 §5.4.4), and Σ range·count agrees
     (rel 1e-4: the table prints ranges to 5 significant digits)."""
     path = bundled_profile("feeder-flexure")
-    ran = bendlife(["count", path, "--column", "deflection_mm", "--unit", "mm", "--top", "0"], monkeypatch, capsys)
+    ran = flexcycle(["count", path, "--column", "deflection_mm", "--unit", "mm", "--top", "0"], monkeypatch, capsys)
     assert ran.code == 0, ran.err
     lines = ran.out.splitlines()
     start = next(k for k, line in enumerate(lines) if line.split()[:2] == ["range", "mean"]) + 1
@@ -286,7 +277,7 @@ def test_count_matches_the_rainflow_package(monkeypatch, capsys):
 
 
 def test_count_with_a_missing_column_exits_2(monkeypatch, capsys):
-    ran = bendlife(["count", bundled_profile("feeder-flexure"), "--column", "nope", "--unit", "mm"],
+    ran = flexcycle(["count", bundled_profile("feeder-flexure"), "--column", "nope", "--unit", "mm"],
                    monkeypatch, capsys)
     assert ran.code == 2 and "'nope'" in ran.err and "deflection_mm" in ran.err
 
@@ -296,18 +287,18 @@ def test_count_with_a_missing_column_exits_2(monkeypatch, capsys):
     ("# logged\nd\n3\n3\n3\n", ["column 'd' is constant", "3 mm in all 3 samples", "no cycle to count"]),
 ])
 def test_count_refuses_a_headerless_or_constant_history(text, words, tmp_path, monkeypatch, capsys):
-    """`bendlife count` says what the design loader says about the same files: exit 2, the file, the line or
+    """`flexcycle count` says what the design loader says about the same files: exit 2, the file, the line or
     column, and what would be right (issue 5, profiles)."""
     path = tmp_path / "h.csv"
     path.write_text(text, encoding="utf-8")
-    ran = bendlife(["count", path, "--column", "d", "--unit", "mm"], monkeypatch, capsys)
-    assert ran.code == 2 and ran.err.startswith("bendlife: count: profile file") and "h.csv" in ran.err
+    ran = flexcycle(["count", path, "--column", "d", "--unit", "mm"], monkeypatch, capsys)
+    assert ran.code == 2 and ran.err.startswith("flexcycle: count: profile file") and "h.csv" in ran.err
     assert all(w in ran.err for w in words), ran.err
     assert "Traceback" not in ran.err and len(ran.err.strip().splitlines()) == 1
 
 
 def test_materials_lists_the_six_bundled(monkeypatch, capsys):
-    ran = bendlife(["materials"], monkeypatch, capsys)
+    ran = flexcycle(["materials"], monkeypatch, capsys)
     assert ran.code == 0
     listed = {line.split()[0] for line in ran.out.splitlines() if line.strip()}
     assert BUNDLED_MATERIALS <= listed
@@ -316,13 +307,13 @@ def test_materials_lists_the_six_bundled(monkeypatch, capsys):
 
 def test_materials_shows_e_glass_with_its_source(monkeypatch, capsys):
     """E-glass/epoxy E1 = 38.6 GPa, Tsai & Hahn 1980 (REFERENCES.md; also Kaw Table 2.1)."""
-    ran = bendlife(["materials", "e-glass-epoxy"], monkeypatch, capsys)
+    ran = flexcycle(["materials", "e-glass-epoxy"], monkeypatch, capsys)
     assert ran.code == 0
     assert re.search(r"^\s*E1\s+38\.6 GPa\s+.*Tsai & Hahn", ran.out, re.MULTILINE), ran.out
 
 
 def test_unknown_material_exits_2(monkeypatch, capsys):
-    ran = bendlife(["materials", "e-glass-epoxi"], monkeypatch, capsys)
+    ran = flexcycle(["materials", "e-glass-epoxi"], monkeypatch, capsys)
     assert ran.code == 2
     assert "'e-glass-epoxi'" in ran.err and "e-glass-epoxy" in ran.err
     assert "Traceback" not in ran.err
@@ -335,7 +326,7 @@ def test_unknown_material_exits_2(monkeypatch, capsys):
 def run_design(tmp_path: Path, name: str, text: str, monkeypatch, capsys) -> dict:
     design = tmp_path / f"{name}.toml"
     design.write_text(text, encoding="utf-8")
-    ran = bendlife(["run", design, "--out", tmp_path / name], monkeypatch, capsys)
+    ran = flexcycle(["run", design, "--out", tmp_path / name], monkeypatch, capsys)
     assert ran.code == 0, ran.err
     return strict_json((tmp_path / name / "summary.json").read_text(encoding="utf-8"))
 
@@ -435,7 +426,7 @@ def test_wrong_arguments_exit_2_with_a_message(args, says, monkeypatch, capsys):
     ride = spectra_profiles.bundled_profile("cargo-bike-ride")
     one = cli_module.example_design()
     args = [str(ride) if a == "RIDE" else str(one) if a == "ONE" else a for a in args]
-    ran = bendlife(args, monkeypatch, capsys)
+    ran = flexcycle(args, monkeypatch, capsys)
     assert ran.code == 2, ran
     assert says in ran.err and "Traceback" not in ran.err
 
@@ -534,16 +525,16 @@ BAD_INPUT = [
 
 @pytest.mark.parametrize("text, csv, fragments", [c[1:] for c in BAD_INPUT], ids=[c[0] for c in BAD_INPUT])
 def test_bad_input_class_exits_2_with_a_clear_message(text, csv, fragments, tmp_path, monkeypatch, capsys):
-    """`bendlife check` on a design with one thing wrong: exit 2, one line on stderr starting with
-    "bendlife: bad.toml", holding every fragment; nothing on stdout, no traceback."""
+    """`flexcycle check` on a design with one thing wrong: exit 2, one line on stderr starting with
+    "flexcycle: bad.toml", holding every fragment; nothing on stdout, no traceback."""
     (tmp_path / "ride.csv").write_text(csv, encoding="utf-8")
     design = tmp_path / "bad.toml"
     design.write_text(text, encoding="utf-8")
-    ran = bendlife(["check", design], monkeypatch, capsys)
+    ran = flexcycle(["check", design], monkeypatch, capsys)
     assert ran.code == 2, ran
     assert "Traceback" not in ran.err and ran.out == ""
     assert len(ran.err.strip().splitlines()) == 1, ran.err
-    assert ran.err.startswith("bendlife: bad.toml"), ran.err
+    assert ran.err.startswith("flexcycle: bad.toml"), ran.err
     for fragment in fragments:
         assert fragment in ran.err, f"{fragment!r} not in {ran.err!r}"
 
@@ -554,7 +545,7 @@ def test_the_designs_the_bad_cases_start_from_are_valid(tmp_path, monkeypatch, c
     for name, text in (("good", GOOD), ("profile", PROFILE), ("glass", edit(GOOD, '"e-glass-epoxy"', '"my-glass"')
                                                                 + MY_GLASS)):
         (tmp_path / f"{name}.toml").write_text(text, encoding="utf-8")
-        ran = bendlife(["check", tmp_path / f"{name}.toml"], monkeypatch, capsys)
+        ran = flexcycle(["check", tmp_path / f"{name}.toml"], monkeypatch, capsys)
         assert ran.code == 0, ran.err
 
 
@@ -626,8 +617,8 @@ def test_a_failing_run_leaves_out_and_the_inputs_as_they_were(tmp_path, monkeypa
     (out / "notes.txt").write_bytes(b"mine\n")
     (out / "summary.json").write_bytes(b'{"old": true}\n')
     before, inputs = snapshot(out), {p: digest(p) for p in (design, tmp_path / "ride.csv")}
-    ran = bendlife(["run", design, "--out", out], monkeypatch, capsys)
-    assert ran.code == 2 and ran.err.startswith("bendlife: huge.toml [duty]") and "no cycle to count" in ran.err
+    ran = flexcycle(["run", design, "--out", out], monkeypatch, capsys)
+    assert ran.code == 2 and ran.err.startswith("flexcycle: huge.toml [duty]") and "no cycle to count" in ran.err
     assert snapshot(out) == before
     assert sorted(p.name for p in tmp_path.iterdir()) == ["huge.toml", "out", "ride.csv"]
     assert {p: digest(p) for p in inputs} == inputs
@@ -641,7 +632,7 @@ def test_a_good_run_keeps_foreign_files_and_leaves_no_staging(tmp_path, monkeypa
     out = tmp_path / "out"
     out.mkdir()
     (out / "notes.txt").write_bytes(b"mine\n")
-    ran = bendlife(["run", design, "--out", out], monkeypatch, capsys)
+    ran = flexcycle(["run", design, "--out", out], monkeypatch, capsys)
     assert ran.code == 0, ran.err
     assert (out / "notes.txt").read_bytes() == b"mine\n"
     assert {p.name for p in out.iterdir()} == {"notes.txt", "summary.json", "cycles.csv", "locations.csv",
@@ -654,7 +645,7 @@ def test_out_that_is_a_file_exits_2(tmp_path, monkeypatch, capsys):
     design = tmp_path / "good.toml"
     design.write_text(GOOD, encoding="utf-8")
     (tmp_path / "taken").write_bytes(b"a file\n")
-    ran = bendlife(["run", design, "--out", tmp_path / "taken"], monkeypatch, capsys)
+    ran = flexcycle(["run", design, "--out", tmp_path / "taken"], monkeypatch, capsys)
     assert ran.code == 2 and "exists and is not a folder" in ran.err and "Traceback" not in ran.err
     assert (tmp_path / "taken").read_bytes() == b"a file\n"
 
@@ -664,7 +655,7 @@ def test_same_input_same_summary_bytes_and_no_time_in_it(tmp_path, monkeypatch, 
     design = tmp_path / "good.toml"
     design.write_text(GOOD, encoding="utf-8")
     for name in ("one", "two"):
-        assert bendlife(["run", design, "--out", tmp_path / name], monkeypatch, capsys).code == 0
+        assert flexcycle(["run", design, "--out", tmp_path / name], monkeypatch, capsys).code == 0
     first = (tmp_path / "one" / "summary.json").read_bytes()
     assert first == (tmp_path / "two" / "summary.json").read_bytes()
     text = first.decode("utf-8")
@@ -672,7 +663,7 @@ def test_same_input_same_summary_bytes_and_no_time_in_it(tmp_path, monkeypatch, 
     assert not {"date", "time", "timestamp", "created"} & set(strict_json(text))
 
 
-# bendlife size
+# flexcycle size
 
 
 SIZE_DUTY = 'drive = "{drive}"\ncycles = [ {{ min = "{lo}", max = "{hi}", count = 1000 }} ]'
@@ -686,10 +677,10 @@ def size_design(tmp_path: Path, drive: str = "deflection", lo: str = "0 mm", hi:
 
 
 def test_size_writes_the_sized_files_and_a_table(tmp_path, monkeypatch, capsys):
-    """--rate and --taper: sized.toml and sized-drops.toml are valid design files (bendlife check reads them),
+    """--rate and --taper: sized.toml and sized-drops.toml are valid design files (flexcycle check reads them),
     sizing.json is strict JSON with the before/after table, report.html has the Sizing table."""
     out = tmp_path / "out"
-    ran = bendlife(["size", size_design(tmp_path), "--life", "1e7", "--rate", "5 N/mm", "--taper", "--out", out],
+    ran = flexcycle(["size", size_design(tmp_path), "--life", "1e7", "--rate", "5 N/mm", "--taper", "--out", out],
                    monkeypatch, capsys)
     assert ran.code == 0, ran.err
     assert {"sized.toml", "sized-drops.toml", "sizing.json", "report.html"} <= {p.name for p in out.iterdir()}
@@ -700,7 +691,7 @@ def test_size_writes_the_sized_files_and_a_table(tmp_path, monkeypatch, capsys):
     assert "<h3>Sizing</h3>" in (out / "report.html").read_text(encoding="utf-8")
     assert "quantity" in ran.out and "storage efficiency" in ran.out
     for name in ("sized.toml", "sized-drops.toml"):
-        assert bendlife(["check", out / name], monkeypatch, capsys).code == 0
+        assert flexcycle(["check", out / name], monkeypatch, capsys).code == 0
 
 
 @pytest.mark.parametrize("drive, lo, hi, args, says", [
@@ -715,7 +706,7 @@ def test_size_wrong_input_exits_2_with_the_reason(tmp_path, drive, lo, hi, args,
     """±2600 N on h = 5 mm, b = 20 mm: σ = 6FL/(bh²) = 6240 MPa; at width × 10, 624 MPa, still past the
     e-glass/epoxy Xc = 610 MPa (Tsai & Hahn): no factor in 0.1–10 reaches any life."""
     out = tmp_path / "out"
-    ran = bendlife(["size", size_design(tmp_path, drive, lo, hi), "--life", "1e3", *args, "--out", out],
+    ran = flexcycle(["size", size_design(tmp_path, drive, lo, hi), "--life", "1e3", *args, "--out", out],
                    monkeypatch, capsys)
     assert ran.code == 2, ran
     assert says in ran.err and "Traceback" not in ran.err
@@ -725,13 +716,13 @@ def test_size_wrong_input_exits_2_with_the_reason(tmp_path, drive, lo, hi, args,
 # --- lean start ---------------------------------------------------------------------------------
 
 WORKTREE = Path(__file__).resolve().parent.parent
-HEAVY = ("matplotlib", "scipy.integrate", "scipy.optimize", "scipy.interpolate", "scipy.special", "life.report",
-         "life.outputs", "life.compare")
+HEAVY = ("matplotlib", "scipy.integrate", "scipy.optimize", "scipy.interpolate", "scipy.special", "flexcycle.report.report",
+         "flexcycle.outputs", "flexcycle.explore.compare")
 
 
 def _modules_after(args: list[str]) -> set[str]:
-    """The modules a fresh Python holds after ``bendlife ARGS`` (run through life.cli.main from this tree)."""
-    code = ("import sys\nsys.argv = ['bendlife', *sys.argv[1:]]\nfrom life.cli import main\n"
+    """The modules a fresh Python holds after ``flexcycle ARGS`` (run through flexcycle.cli.app.main from this tree)."""
+    code = ("import sys\nsys.argv = ['flexcycle', *sys.argv[1:]]\nfrom flexcycle.cli.app import main\n"
             "try:\n    main()\nexcept SystemExit:\n    pass\nprint('MODULES', ' '.join(sorted(sys.modules)))")
     proc = subprocess.run([sys.executable, "-c", code, *args], cwd=WORKTREE, capture_output=True, text=True, timeout=120)
     line = [ln for ln in proc.stdout.splitlines() if ln.startswith("MODULES")][-1]
@@ -739,14 +730,14 @@ def _modules_after(args: list[str]) -> set[str]:
 
 
 def test_help_imports_neither_matplotlib_scipy_nor_pandas():
-    """Lean start: ``bendlife --help`` loads none of the heavy libraries (the commands import them)."""
+    """Lean start: ``flexcycle --help`` loads none of the heavy libraries (the commands import them)."""
     loaded = _modules_after(["--help"])
     assert not {m for m in loaded if m.split(".")[0] in ("matplotlib", "scipy", "pandas", "pint")}
     assert not loaded & set(HEAVY)
 
 
 def test_check_imports_no_matplotlib_and_no_scipy_submodule():
-    """``bendlife check`` loads no matplotlib and none of scipy's numerical submodules. (pint, which
+    """``flexcycle check`` loads no matplotlib and none of scipy's numerical submodules. (pint, which
     parses the units, imports scipy's top-level package only, to learn that it is there.)"""
     loaded = _modules_after(["check", str(cli_module.example_design())])
     assert not {m for m in loaded if m.split(".")[0] == "matplotlib"}

@@ -13,12 +13,12 @@ import re
 
 import pandas as pd
 import pytest
-
-from life.compare import COLUMNS, comparison_html, comparison_table
-from life.design import load_design
-from life.estimate import CAUTION, estimate
-from cli_runner import bendlife
+from cli_runner import flexcycle
 from designs import user_glass
+
+from flexcycle.design import load_design
+from flexcycle.estimate import CAUTION, estimate
+from flexcycle.explore.compare import COLUMNS, comparison_html, comparison_table
 
 # DESIGN.md, outputs contract: comparison.csv has at least these columns
 CONTRACT = ["title", "life_blocks", "life_cycles", "mass_kg", "stiffness_n_per_m", "peak_energy_j",
@@ -175,7 +175,7 @@ def test_page_ranks_by_life(results):
 
 @pytest.mark.parametrize("common", [False, True])
 def test_cli_compare_rows_equal_run_summaries(files, tmp_path, monkeypatch, capsys, common):
-    """Each row of comparison.csv equals summary.json of `bendlife run` on that design (to the 9 digits the
+    """Each row of comparison.csv equals summary.json of `flexcycle run` on that design (to the 9 digits the
     CSV keeps). With --duty, the design is run on a copy of its file whose [duty] is the common one."""
     import json
 
@@ -184,7 +184,7 @@ def test_cli_compare_rows_equal_run_summaries(files, tmp_path, monkeypatch, caps
                     encoding="utf-8")
     names = ["thin", "thick"]
     args = ["compare", *(files[n] for n in names), "--out", tmp_path / "cmp"] + (["--duty", duty] if common else [])
-    code, stdout, err = bendlife(args, monkeypatch, capsys)
+    code, stdout, err = flexcycle(args, monkeypatch, capsys)
     assert code == 0, err
     expected_note = "common duty from common.toml" if common else "each design with its own duty"
     assert f"duty: {expected_note}" in stdout
@@ -198,7 +198,7 @@ def test_cli_compare_rows_equal_run_summaries(files, tmp_path, monkeypatch, caps
             design.write_text(re.sub(r"\[duty\]\n.*?\n\n", "[duty]\ndrive = \"force\"\ncycles = [ { min = \"-5 N\", "
                                      "max = \"15 N\", count = 300 } ]\n\n", text, flags=re.DOTALL), encoding="utf-8")
         out = tmp_path / f"run-{name}"
-        code, _, err = bendlife(["run", design, "--out", out], monkeypatch, capsys)
+        code, _, err = flexcycle(["run", design, "--out", out], monkeypatch, capsys)
         assert code == 0, err
         s = json.loads((out / "summary.json").read_text(encoding="utf-8"))
         if common:
@@ -215,17 +215,17 @@ def test_cli_compare_wrong_duty_file_names_it(files, tmp_path, monkeypatch, caps
     """A --duty file with a wrong key: exit 2, the message names the duty file and the key."""
     duty = tmp_path / "common.toml"
     duty.write_text('[duty]\ndrive = "force"\ncycles = [ { min = "0 N", max = "15", count = 300 } ]\n', encoding="utf-8")
-    code, _, err = bendlife(["compare", files["thin"], files["thick"], "--duty", duty, "--out", tmp_path / "c"],
+    code, _, err = flexcycle(["compare", files["thin"], files["thick"], "--duty", duty, "--out", tmp_path / "c"],
                             monkeypatch, capsys)
     assert code == 2
     assert "common.toml" in err and "max" in err and "Traceback" not in err
 
 
 def test_cli_compare_writes_csv_and_html(files, results, tmp_path, monkeypatch, capsys):
-    """`bendlife compare A B --out DIR`: exit 0, comparison.csv with a row per design in the given order
+    """`flexcycle compare A B --out DIR`: exit 0, comparison.csv with a row per design in the given order
     and each design's summary figures, comparison.html beside it."""
     out = tmp_path / "cmp"
-    code, stdout, err = bendlife(["compare", files["thin"], files["thick"], "--out", out], monkeypatch, capsys)
+    code, stdout, err = flexcycle(["compare", files["thin"], files["thick"], "--out", out], monkeypatch, capsys)
     assert code == 0, err
     assert (out / "comparison.html").is_file()
     table = pd.read_csv(out / "comparison.csv")
@@ -244,7 +244,7 @@ def test_cli_compare_writes_csv_and_html(files, results, tmp_path, monkeypatch, 
 def test_cli_compare_unbounded_is_an_empty_cell(files, tmp_path, monkeypatch, capsys):
     """Strict figures: an unbounded life is an empty CSV cell (no 'inf' or 'nan' text), the page says 'unbounded'."""
     out = tmp_path / "cmp"
-    code, stdout, err = bendlife(["compare", files["thick"], files["safe"], "--out", out], monkeypatch, capsys)
+    code, stdout, err = flexcycle(["compare", files["thick"], files["safe"], "--out", out], monkeypatch, capsys)
     assert code == 0, err
     text = (out / "comparison.csv").read_text(encoding="utf-8")
     assert "inf" not in text.lower() and "nan" not in text.lower()
@@ -259,7 +259,7 @@ def test_cli_compare_wrong_design_exits_2_and_writes_nothing(files, tmp_path, mo
     wrong = tmp_path / "wrong.toml"
     wrong.write_text(candidate("wrong", 4).replace('span = "200 mm"', 'span = "200"'), encoding="utf-8")
     out = tmp_path / "cmp"
-    code, _, err = bendlife(["compare", files["thin"], wrong, "--out", out], monkeypatch, capsys)
+    code, _, err = flexcycle(["compare", files["thin"], wrong, "--out", out], monkeypatch, capsys)
     assert code == 2
     assert "wrong.toml" in err and "span" in err and "Traceback" not in err
     assert not (out / "comparison.csv").exists()

@@ -1,4 +1,4 @@
-"""Tests of spectra.counting: reversals, rainflow cycles with extremes, merging.
+"""Tests of flexcycle.spectra.counting: reversals, rainflow cycles with extremes, merging.
 
 References: the `rainflow` package (implementation of ASTM E1049-85 §5.4.4) as the
 reference counter; hand-worked closed forms in the docstrings; invariants of
@@ -16,7 +16,7 @@ import rainflow
 from hypothesis import assume, example, given, settings
 from hypothesis import strategies as st
 
-from spectra.counting import (
+from flexcycle.spectra.counting import (
     RESIDUE_MODES,
     Cycles,
     _full_cycles,
@@ -24,7 +24,7 @@ from spectra.counting import (
     rainflow_cycles,
     reversals,
 )
-from spectra.errors import InputError
+from flexcycle.spectra.errors import InputError
 
 # Integer-valued histories: every difference and comparison is exact in floating point,
 # so an invariant that holds in exact arithmetic must hold to the bit.
@@ -155,7 +155,7 @@ def test_range_histogram_equals_rainflow_count_cycles(history):
     """Reference: rainflow.count_cycles (ASTM E1049-85 §5.4.4), exact: same arithmetic.
 
     A constant history is left out: the package counts it as a half cycle of zero
-    range, bendlife as no cycles (test_constant_signal_has_no_cycles).
+    range, flexcycle as no cycles (test_constant_signal_has_no_cycles).
     """
     assume(min(history) != max(history))
     cycles = rainflow_cycles(np.array(history))
@@ -467,7 +467,7 @@ def test_merge_of_no_cycles_is_empty():
 
 # --- the vectorised count against the reference package, and chunked counting ------------
 
-from spectra.counting import OPEN, close_count, count_chunk, rainflow_chunks  # noqa: E402
+from flexcycle.spectra.counting import OPEN, close_count, count_chunk, rainflow_chunks  # noqa: E402
 
 # Histories the four-point formulation must get right: few distinct values (ties X == Y,
 # plateaus), wide-range floats (ranges that round alike), short and monotone ones.
@@ -584,7 +584,7 @@ def test_order_any_gives_the_same_cycles(residue, history):
 def test_order_any_across_chunks_of_a_long_walk(monkeypatch):
     """Reference: `rainflow.extract_cycles` on a seeded 50 000-sample integer random walk, counted by
     order="any" in chunks of 4096 samples: the same multiset of (min, max, count)."""
-    from spectra import counting
+    from flexcycle.spectra import counting
 
     monkeypatch.setattr(counting, "SIGNAL_CHUNK", 4096)
     walk = np.round(np.cumsum(np.random.default_rng(9).normal(size=50_000)) * 2)

@@ -11,8 +11,8 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from life.curves import SNCurve, curve_from_mapping
-from life.errors import InputError
+from flexcycle.errors import InputError
+from flexcycle.fatigue.curves import SNCurve, curve_from_mapping
 
 MPa = 1e6
 
@@ -128,7 +128,7 @@ def test_amplitude_non_increasing_in_cycles(N, m):
 
 
 def test_curve_from_mapping_reads_the_material_shape():
-    """The raw curve dict as mechanics.materials provides it: S1 = 0.026 strain, m = 10 ->
+    """The raw curve dict as flexcycle.mechanics.materials provides it: S1 = 0.026 strain, m = 10 ->
     a = 0.013 lives 2^10 = 1024 cycles (hand calc)."""
     c = curve_from_mapping(RAW, "material e-glass [fatigue]")
     assert (c.form, c.R, c.basis, c.S1, c.m) == ("power", -1.0, "strain", 0.026, 10.0)

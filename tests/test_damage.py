@@ -8,12 +8,12 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from life.curves import SNCurve
-from life.damage import Locations, build_models, locations, miner_damage
-from life.meanstress import fatigue_model
-from mechanics.beam import Beam, Ply, respond
-from mechanics.materials import library
-from spectra.counting import Cycles
+from flexcycle.fatigue.curves import SNCurve
+from flexcycle.fatigue.damage import Locations, build_models, locations, miner_damage
+from flexcycle.fatigue.meanstress import fatigue_model
+from flexcycle.mechanics.beam import Beam, Ply, respond
+from flexcycle.mechanics.materials import library
+from flexcycle.spectra.counting import Cycles
 
 MPa = 1e6
 
@@ -152,9 +152,9 @@ def test_strain_basis_transverse_curve_sees_stress_over_modulus():
 
 # --- damage at scale: exact merging, and the bracket ------------------------------------------
 
-from life import damage as damage_module  # noqa: E402
-from life.meanstress import RULES  # noqa: E402
-from spectra.counting import rainflow_cycles  # noqa: E402
+from flexcycle.fatigue import damage as damage_module  # noqa: E402
+from flexcycle.fatigue.meanstress import RULES  # noqa: E402
+from flexcycle.spectra.counting import rainflow_cycles  # noqa: E402
 
 
 def _library_models(rule: str):
@@ -169,7 +169,7 @@ def test_a_wider_local_cycle_never_has_more_cycles_to_failure(rule, data):
     """The property the bracket rests on (Notes of miner_damage): under goodman, gerber and none, a local
     cycle [lo, hi] inside another [lo - a, hi + b] (a, b >= 0) has at least as many cycles to failure,
     for every library material and mode, anywhere inside the static strengths and beyond them.
-    Reference: the models themselves (life.meanstress, checked against published cases elsewhere);
+    Reference: the models themselves (flexcycle.fatigue.meanstress, checked against published cases elsewhere);
     rel 1e-9: lives are computed through logarithms, equal lives may differ in the last digits."""
     models = _library_models(rule)
     model = models[data.draw(st.integers(0, len(models) - 1))]

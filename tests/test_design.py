@@ -2,7 +2,7 @@
 
 Checks: a design in the contract's form loads to SI values checked by hand; width tapers, block tables in
 US units and bundled profiles; and one test per impossible input, each asserting that the message is a
-``life.errors.InputError`` naming the file, the key (and row) and what would be right.
+``flexcycle.errors.InputError`` naming the file, the key (and row) and what would be right.
 
 Unit factors used by hand here are exact by definition (NIST SP 811, 2008, App. B): 1 in = 0.0254 m;
 1 lbf = 0.45359237 kg × 9.80665 m/s² = 4.4482216152605 N.
@@ -19,9 +19,9 @@ import rainflow
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from life.design import Design, load_design, parse_design
-from life.errors import InputError
-from spectra.profiles import bundled_profile
+from flexcycle.design import Design, load_design, parse_design
+from flexcycle.errors import InputError
+from flexcycle.spectra.profiles import bundled_profile
 
 INCH = 0.0254  # m per in, exact (NIST SP 811, App. B)
 LBF = 0.45359237 * 9.80665  # N per lbf, exact: avoirdupois pound × standard gravity (NIST SP 811, App. B)
@@ -337,7 +337,7 @@ ERROR_CASES = [
     ("missing column", edit(SMALL_WITH_PROFILE, 'column = "deflection"', 'column = "defl"'), RIDE_CSV,
      ["[duty] profile", "ride.csv", "no column 'defl'", "'time_s', 'deflection'"]),
     # line 5 of the file: the comment line, the header, then samples on lines 3, 4, 5
-    ("non-numeric cell", SMALL_WITH_PROFILE, RIDE_CSV.replace("2,10", "2,ten"), 
+    ("non-numeric cell", SMALL_WITH_PROFILE, RIDE_CSV.replace("2,10", "2,ten"),
      ["[duty] profile", "ride.csv", "line 5", "'deflection'", "'ten'", "not a number"]),
     ("min above max", edit(SMALL, 'min = "0 mm", max = "4 mm"', 'min = "6 mm", max = "4 mm"'), RIDE_CSV,
      ["[duty] cycles", "row 2", "min > max", "swap"]),

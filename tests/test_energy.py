@@ -6,9 +6,9 @@ import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
-from mechanics.beam import Beam, Ply, respond
-from mechanics.energy import cycle_energy, force_per_drive, storage_figures, stored_energy
-from mechanics.errors import InputError
+from flexcycle.mechanics.beam import Beam, Ply, respond
+from flexcycle.mechanics.energy import cycle_energy, force_per_drive, storage_figures, stored_energy
+from flexcycle.mechanics.errors import InputError
 
 C = 2e-3  # compliance [m/N]: 500 N/m
 

@@ -7,9 +7,9 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from life.design import parse_design
-from life.errors import InputError
-from life.estimate import estimate
+from flexcycle.design import parse_design
+from flexcycle.errors import InputError
+from flexcycle.estimate import estimate
 
 GLASS = {
     "E1": "40 GPa", "E2": "10 GPa", "G12": "4 GPa", "nu12": 0.3, "density": "1900 kg/m^3",

@@ -1,6 +1,6 @@
 """The bundled example designs, life/examples/*.toml (invented demo data, package data of ``life``).
 
-Every example must load, run and pass ``bendlife check``; its summary must hold finite contract values;
+Every example must load, run and pass ``flexcycle check``; its summary must hold finite contract values;
 its materials must be library materials and its header must say it is demo data. Two examples have a
 closed form for the surface strain per load-point deflection of a homogeneous 0° strip (narrow beam of
 one orthotropic material: 1/d11 = E1·h³/12, so E·I = E1·b·h³/12), checked here with the shear share
@@ -18,13 +18,13 @@ from importlib import resources
 from pathlib import Path
 
 import pytest
+from cli_runner import flexcycle
 
-from life.design import load_design
-from life.estimate import estimate
-from mechanics.materials import library
-from cli_runner import bendlife
+from flexcycle.design import load_design
+from flexcycle.estimate import estimate
+from flexcycle.mechanics.materials import library
 
-EXAMPLES = sorted(Path(str(p)) for p in (resources.files("life") / "examples").iterdir() if p.name.endswith(".toml"))
+EXAMPLES = sorted(Path(str(p)) for p in (resources.files("flexcycle") / "examples").iterdir() if p.name.endswith(".toml"))
 NEW = ["feeder-flexure.toml", "prosthetic-keel.toml", "coupon-three-point.toml"]
 FINITE_KEYS = ["life_cycles", "life_blocks", "damage_per_block", "stiffness_n_per_m", "mass_kg", "peak_strain",
                "peak_energy_j", "cycle_energy_j", "specific_energy_j_per_kg", "static_reserve"]  # DESIGN.md outputs
@@ -84,17 +84,17 @@ def test_new_examples_plausible_and_within_the_model(name, results):
 
 
 @pytest.mark.parametrize("path", EXAMPLES, ids=lambda p: p.name)
-def test_bendlife_check_accepts(path, monkeypatch, capsys):
-    code, out, err = bendlife(["check", path], monkeypatch, capsys)
+def test_flexcycle_check_accepts(path, monkeypatch, capsys):
+    code, out, err = flexcycle(["check", path], monkeypatch, capsys)
     assert code == 0, err
     assert "the design file is valid" in out
 
 
 @pytest.mark.parametrize("name", NEW)
-def test_bendlife_run_exits_0(name, results, tmp_path, monkeypatch, capsys):
-    """`bendlife run FILE --out DIR`: exit 0, the four files; summary.json gives the in-process figures."""
+def test_flexcycle_run_exits_0(name, results, tmp_path, monkeypatch, capsys):
+    """`flexcycle run FILE --out DIR`: exit 0, the four files; summary.json gives the in-process figures."""
     out = tmp_path / "out"
-    code, stdout, err = bendlife(["run", resources.files("life") / "examples" / name, "--out", out], monkeypatch, capsys)
+    code, stdout, err = flexcycle(["run", resources.files("flexcycle") / "examples" / name, "--out", out], monkeypatch, capsys)
     assert code == 0, err
     for f in ("summary.json", "cycles.csv", "locations.csv", "report.html"):
         assert (out / f).is_file(), f
@@ -104,7 +104,7 @@ def test_bendlife_run_exits_0(name, results, tmp_path, monkeypatch, capsys):
 
 def test_feeder_duty_and_shift():
     """blocks_per_day = one 8 h shift of the 4 s profile: 8 × 3600 / 4 = 7200."""
-    d = load_design(resources.files("life") / "examples" / "feeder-flexure.toml")
+    d = load_design(resources.files("flexcycle") / "examples" / "feeder-flexure.toml")
     assert d.duty.blocks_per_day == 8 * 3600 / 4
     assert d.beam.support == "guided" and d.duty.drive == "deflection"
     assert d.duty.signal is not None  # the bundled time history
@@ -112,7 +112,7 @@ def test_feeder_duty_and_shift():
 
 def test_keel_layup():
     """±45 outer plies, 0° core, two ply-drop stations, a width taper, a force block table."""
-    d = load_design(resources.files("life") / "examples" / "prosthetic-keel.toml")
+    d = load_design(resources.files("flexcycle") / "examples" / "prosthetic-keel.toml")
     angles = [p.angle for p in d.beam.plies]
     assert angles[:2] == [45, -45] and angles[-2:] == [-45, 45]
     assert set(angles[2:-2]) == {0}

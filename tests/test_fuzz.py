@@ -5,11 +5,11 @@ Seeds: the bundled example designs (life/examples/*.toml) and a small cantilever
 material of tests/designs.py. Each case applies 1-3 random mutations to the parsed document — drop a key,
 duplicate a [[ply]], change a value's type (string, number, table, list), rescale a number or the number of a
 quantity string (×0, ×−1, ×1e6, ×1e-6, ×1e300, ×1e-300), make a number NaN or infinite, garble a unit ("mm" → "mn", "m m", "kg", ""), swap a name for
-another key's name — writes it as TOML (tomlkit) and runs `bendlife check` (most cases) or `bendlife run`
+another key's name — writes it as TOML (tomlkit) and runs `flexcycle check` (most cases) or `flexcycle run`
 (every eighth) in-process.
 
 The normal test run tries FUZZ_EXAMPLES cases (default 120, about 25 s of CPU on this machine); set the environment
-variable BENDLIFE_FUZZ_EXAMPLES to try more (the figures in the issue note come from 2000).
+variable FLEXCYCLE_FUZZ_EXAMPLES to try more (the figures in the issue note come from 2000).
 """
 from __future__ import annotations
 
@@ -21,13 +21,12 @@ from importlib import resources
 from pathlib import Path
 
 import tomlkit
+from cli_runner import run_cli
+from designs import user_glass
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from cli_runner import run_cli
-from designs import user_glass
-
-FUZZ_EXAMPLES = int(os.environ.get("BENDLIFE_FUZZ_EXAMPLES", "120"))
+FUZZ_EXAMPLES = int(os.environ.get("FLEXCYCLE_FUZZ_EXAMPLES", "120"))
 
 SMALL = """\
 title = "fuzz cantilever"
@@ -68,7 +67,7 @@ stress_factor = 1.2
 
 
 def _seeds() -> list[dict]:
-    folder = resources.files("life") / "examples"
+    folder = resources.files("flexcycle") / "examples"
     texts = [(folder / name).read_text(encoding="utf-8") for name in sorted(
         p.name for p in folder.iterdir() if p.name.endswith(".toml"))]
     return [tomllib.loads(text) for text in texts + [SMALL]]
@@ -167,7 +166,7 @@ def check_outcome(doc: dict, command: str) -> None:
     assert "Traceback" not in err and "Traceback" not in out
     assert "internal fault" not in err
     if code == 2:
-        assert err.startswith("bendlife: fuzzed.toml"), err
+        assert err.startswith("flexcycle: fuzzed.toml"), err
         assert len(err.strip().splitlines()) == 1, err
         assert out == ""
 

@@ -1,4 +1,4 @@
-"""Tests of mechanics.laminate: invariants of classical laminate theory (hypothesis) and hand checks.
+"""Tests of flexcycle.mechanics.laminate: invariants of classical laminate theory (hypothesis) and hand checks.
 
 Sources: Jones, Mechanics of Composite Materials, 2nd ed., ch. 2 and 4 (Q, Q̄, ABD; symmetric laminates
 have B = 0); Kaw, Mechanics of Composite Materials, 2nd ed., ch. 2 and 4 (transformations, Eq. 2.94,
@@ -12,8 +12,8 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from mechanics.errors import InputError
-from mechanics.laminate import (
+from flexcycle.mechanics.errors import InputError
+from flexcycle.mechanics.laminate import (
     Layer,
     laminate,
     midplane_response,
@@ -26,7 +26,7 @@ from mechanics.laminate import (
     transverse_shear_stiffness,
     unit_bending,
 )
-from mechanics.materials import library
+from flexcycle.mechanics.materials import library
 
 ROUND_OFF = 1e-12  # closed form and model agree exactly: only floating-point round-off separates them
 

@@ -1,4 +1,4 @@
-"""Tests of mechanics.materials: the bundled library against published tables, user materials,
+"""Tests of flexcycle.mechanics.materials: the bundled library against published tables, user materials,
 units, and the validation of impossible input.
 
 Sources of the check values (see /work/shared/REFERENCES.md):
@@ -22,8 +22,8 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from mechanics.errors import InputError
-from mechanics.materials import (
+from flexcycle.mechanics.errors import InputError
+from flexcycle.mechanics.materials import (
     FATIGUE_TABLES,
     MATERIAL_KEYS_REQUIRED,
     Material,

@@ -14,12 +14,17 @@ from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 from scipy.optimize import brentq
 
-from life.curves import SNCurve
-from life.errors import InputError
-from life.meanstress import (
-    convert_curve_ratio, fatigue_model, gerber_amplitude_at_zero_mean,
-    gerber_amplitude_on_ray, goodman_amplitude_at_zero_mean, goodman_amplitude_on_ray,
-    mean_ratio, model_warnings,
+from flexcycle.errors import InputError
+from flexcycle.fatigue.curves import SNCurve
+from flexcycle.fatigue.meanstress import (
+    convert_curve_ratio,
+    fatigue_model,
+    gerber_amplitude_at_zero_mean,
+    gerber_amplitude_on_ray,
+    goodman_amplitude_at_zero_mean,
+    goodman_amplitude_on_ray,
+    mean_ratio,
+    model_warnings,
 )
 
 MPa = 1e6
@@ -311,7 +316,8 @@ def reference_cld_log_life(curves, Xt, Xc, sa, sm):
     theta, rho = math.atan2(sa, sm), math.hypot(sa, sm)
     if rho <= limit_radius(curves, Xt, Xc, theta):
         return math.inf
-    f = lambda L: diagram_radius(curves, Xt, Xc, theta, L) - rho
+    def f(L):
+        return diagram_radius(curves, Xt, Xc, theta, L) - rho
     if f(-30.0) < 0:
         return -math.inf
     if f(60.0) > 0:
@@ -417,9 +423,10 @@ def models():
 def any_cld():
     """A diagram of arbitrary curves at three to four of R = 10, −1, 0.1, 0.5, each with or without
     a limit (folds allowed: along a ray the life is still monotone)."""
-    curve = lambda R: st.builds(
-        lambda S1, m, lim: power(R=R, S1=S1 * MPa, m=m, limit=None if lim is None else lim * S1 * MPa),
-        st.floats(50, 600), st.floats(3, 20), st.sampled_from([None, 0.0, 0.02, 0.1, 0.3]))
+    def curve(R):
+        return st.builds(
+            lambda S1, m, lim: power(R=R, S1=S1 * MPa, m=m, limit=None if lim is None else lim * S1 * MPa),
+            st.floats(50, 600), st.floats(3, 20), st.sampled_from([None, 0.0, 0.02, 0.1, 0.3]))
     return st.lists(st.sampled_from([10.0, -1.0, 0.1, 0.5]), min_size=2, max_size=4, unique=True).flatmap(
         lambda Rs: st.tuples(*[curve(R) for R in Rs])).map(lambda cs: fatigue_model("cld", cs, XT, XC, "hypothesis"))
 

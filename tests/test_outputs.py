@@ -9,6 +9,7 @@ example history.
 """
 from __future__ import annotations
 
+import builtins
 import html
 import os
 import re
@@ -19,10 +20,10 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from life.design import load_design
-from life.errors import InputError
-from life.estimate import CAUTION, estimate
-from life.outputs import location_table, render, write_files
+from flexcycle.design import load_design
+from flexcycle.errors import InputError
+from flexcycle.estimate import CAUTION, estimate
+from flexcycle.outputs import location_table, render, write_files
 
 LOCATION_COLUMNS = ["station", "x_m", "ply", "material", "angle_deg", "face", "z_m", "mode", "basis", "amplitude",
                     "mean", "damage_per_block", "life_blocks"]
@@ -274,7 +275,7 @@ def test_stations_csv_follows_the_beam_formulas(result, written):
 
 def test_outputs_are_staged_beside_out_on_the_same_file_system(files, tmp_path, monkeypatch):
     """The staging folder is created in --out's parent, and is gone after the run."""
-    from life import outputs
+    from flexcycle import outputs
 
     made = []
     real = outputs.tempfile.mkdtemp
@@ -294,14 +295,14 @@ def test_outputs_are_staged_beside_out_on_the_same_file_system(files, tmp_path, 
 def test_a_write_failing_midway_leaves_out_as_it_was_and_no_staging(files, tmp_path, monkeypatch):
     """The third file cannot be written (a full disk, simulated): an InputError, --out byte-identical (the user's
     file and an old summary.json), and no staging folder left beside it."""
-    from life import outputs
+    from flexcycle import outputs
 
     out = tmp_path / "out"
     out.mkdir()
     (out / "notes.txt").write_bytes(b"mine\n")
     (out / "summary.json").write_bytes(b"old\n")
     before = snapshot(out)
-    real_open, opened = outputs.io.open, []
+    real_open, opened = builtins.open, []
 
     def failing_open(path, *args, **kwargs):
         opened.append(path)
@@ -309,7 +310,7 @@ def test_a_write_failing_midway_leaves_out_as_it_was_and_no_staging(files, tmp_p
             raise OSError(28, "No space left on device")
         return real_open(path, *args, **kwargs)
 
-    monkeypatch.setattr(outputs.io, "open", failing_open)
+    monkeypatch.setattr(outputs, "open", failing_open, raising=False)  # the module's own name for open
     with pytest.raises(InputError, match="cannot write there .No space left on device"):
         write_files(files, out)
     assert snapshot(out) == before
@@ -319,7 +320,7 @@ def test_a_write_failing_midway_leaves_out_as_it_was_and_no_staging(files, tmp_p
 def test_a_parent_that_cannot_be_written_is_a_clear_error(files, tmp_path, monkeypatch):
     """No staging folder can be made beside --out (permission denied, simulated: tests may run as root):
     an InputError that names --out and says to choose a writable folder; nothing is created."""
-    from life import outputs
+    from flexcycle import outputs
 
     def denied(*args, **kwargs):
         raise PermissionError(13, "Permission denied")
@@ -334,8 +335,8 @@ def test_cycles_csv_at_scale_holds_at_most_max_rows_and_says_binned(monkeypatch)
     """Outputs at scale (DESIGN.md: an aggregated form at scale, said in the report): with MAX_CYCLE_ROWS
     lowered to 100, the bundled example's cycle table has at most 100 rows, keeps the total count (exact:
     multiples of 0.5 summed), and its note names the binning width."""
-    from life import outputs
-    from life.cli import example_design
+    from flexcycle import outputs
+    from flexcycle.cli.app import example_design
 
     result = estimate(load_design(example_design()))
     monkeypatch.setattr(outputs, "MAX_CYCLE_ROWS", 100)

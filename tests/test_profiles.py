@@ -1,4 +1,4 @@
-"""Tests of spectra.profiles: CSV time histories, block tables, constant amplitude,
+"""Tests of flexcycle.spectra.profiles: CSV time histories, block tables, constant amplitude,
 bundled demo profiles.
 
 References: values written into the test files by hand (hand calc: file number ×
@@ -15,8 +15,8 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from spectra.errors import InputError
-from spectra.profiles import (
+from flexcycle.spectra.errors import InputError
+from flexcycle.spectra.profiles import (
     TimeHistory,
     block_table,
     bundled_profile,
@@ -243,7 +243,7 @@ def test_demo_profiles_are_regenerated_exactly(tmp_path):
 
 def test_spectra_imports_neither_mechanics_nor_life():
     """Layering rule of DESIGN.md: spectra stands alone."""
-    code = ("import sys, spectra.profiles, spectra.counting, spectra.errors; "
+    code = ("import sys, flexcycle.spectra.profiles, flexcycle.spectra.counting, flexcycle.spectra.errors; "
             "print(sorted(m for m in sys.modules if m.split('.')[0] in ('mechanics', 'life')))")
     result = subprocess.run([sys.executable, "-c", code], check=True, capture_output=True, text=True)
     assert result.stdout.strip() == "[]"

@@ -12,11 +12,11 @@ from pathlib import Path
 
 import pytest
 
-from life.cli import example_design
-from life.design import load_design, parse_design
-from life.estimate import CAUTION, estimate
-from life.outputs import cycle_table, location_table
-from life.report import report_html
+from flexcycle.cli.app import example_design
+from flexcycle.design import load_design, parse_design
+from flexcycle.estimate import CAUTION, estimate
+from flexcycle.outputs import cycle_table, location_table
+from flexcycle.report.report import report_html
 
 TITLE = "Test spring <A> & 'B'"  # markup characters: the report must escape them
 
@@ -181,13 +181,13 @@ def test_identification_hashes_and_version(example):
     import hashlib
     from importlib import metadata
 
-    from spectra.profiles import bundled_profile
+    from flexcycle.spectra.profiles import bundled_profile
 
     result, page = example
     assert hashlib.sha256(example_design().read_bytes()).hexdigest() in page
     assert result.design.duty.profile_path == bundled_profile("cargo-bike-ride")
     assert hashlib.sha256(bundled_profile("cargo-bike-ride").read_bytes()).hexdigest() in page
-    assert f"bendlife {metadata.version('bendlife')}" in page
+    assert f"flexcycle {metadata.version('flexcycle')}" in page
 
 
 def test_block_table_has_no_profile(wide):
@@ -198,7 +198,7 @@ def test_block_table_has_no_profile(wide):
 
 def test_sizing_rows_follow_the_results_escaped(wide):
     """render(result, sizing=rows): a Sizing table right after the results, before the warnings, escaped."""
-    from life.outputs import render
+    from flexcycle.outputs import render
 
     result, _ = wide
     rows = [("thickness <scale>", "1", "0.8125"), ("life_blocks", "1.2e+03", "5e+04")]
@@ -260,11 +260,11 @@ def test_example_stack_has_sixteen_plies(example):
 def test_minmax_envelope_keeps_every_extreme():
     """The decimated duty: at most 2000 bins, each bin's (min, max) exactly those of its samples (numpy by
     brute force here), so the history's own extremes survive."""
+    import numpy as np
     from hypothesis import given, settings
     from hypothesis import strategies as st
-    import numpy as np
 
-    from spectra.streaming import ENVELOPE_BINS, minmax_envelope
+    from flexcycle.spectra.streaming import ENVELOPE_BINS, minmax_envelope
 
     @settings(max_examples=60, deadline=None)
     @given(st.lists(st.floats(-1e3, 1e3), min_size=1, max_size=6000))
@@ -314,7 +314,7 @@ def test_duty_figure_of_a_long_history_draws_its_envelope():
 
     import numpy as np
 
-    from spectra.streaming import Envelope
+    from flexcycle.spectra.streaming import Envelope
 
     result = estimate(load_design(example_design()))
     duty = result.design.duty
@@ -333,7 +333,7 @@ def test_log_axis_labels_are_plain_powers_of_ten():
     no label (an infinite count per block once crashed the report: found by the fuzz test)."""
     import math
 
-    from life.report import _power_of_ten
+    from flexcycle.report.report import _power_of_ten
 
     assert [_power_of_ten(v) for v in (1e-3, 1.0, 10.0, 1e12)] == ["10⁻³", "10⁰", "10¹", "10¹²"]
     assert [_power_of_ten(v) for v in (2e-3, 0.0, -10.0, math.inf, math.nan)] == ["", "", "", "", ""]

@@ -13,15 +13,28 @@ import tomllib
 from pathlib import Path
 
 import pytest
-
-from designs import user_glass
-from life.design import load_design
-from life.errors import InputError
-from life.estimate import estimate
 from cli_runner import run_cli
-from life.sizing import (SAFE_STEP, TIP_FLOOR, drop_plies, inner_range, plan, read_back, restack, scaled_design,
-                         size, size_plies, size_rate, sizing_rows, taper_width)
-from mechanics.beam import respond
+from designs import user_glass
+
+from flexcycle.design import load_design
+from flexcycle.errors import InputError
+from flexcycle.estimate import estimate
+from flexcycle.mechanics.beam import respond
+from flexcycle.sizing.sizing import (
+    SAFE_STEP,
+    TIP_FLOOR,
+    drop_plies,
+    inner_range,
+    plan,
+    read_back,
+    restack,
+    scaled_design,
+    size,
+    size_plies,
+    size_rate,
+    sizing_rows,
+    taper_width,
+)
 
 DESIGN = """title = "sizing check"
 [beam]
@@ -87,7 +100,7 @@ def test_written_file_keeps_comments_and_reaches_the_target(tmp_path):
     target = 1e6
     answer = plan(load_design(_write(tmp_path, rule="none")), target)
     text = answer.sized.text
-    assert text.startswith("# Sized by bendlife")
+    assert text.startswith("# Sized by flexcycle")
     assert "a comment the sized file keeps" in text
     doc = tomllib.loads(text)
     s_hand = math.sqrt(120.0 / _goodman_target(target))

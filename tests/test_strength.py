@@ -1,4 +1,4 @@
-"""Tests of mechanics.strength: first-ply-failure reserve factors against hand calculations.
+"""Tests of flexcycle.mechanics.strength: first-ply-failure reserve factors against hand calculations.
 
 Sources: maximum stress criterion (Jones, Mechanics of Composite Materials, 2nd ed., sec. 2.9.2; Kaw,
 Mechanics of Composite Materials, 2nd ed., sec. 2.8.1); Tsai-Wu (Kaw sec. 2.8.4, Eq. 2.152 and its
@@ -12,9 +12,9 @@ import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
-from mechanics.errors import InputError
-from mechanics.materials import library
-from mechanics.strength import (
+from flexcycle.mechanics.errors import InputError
+from flexcycle.mechanics.materials import library
+from flexcycle.mechanics.strength import (
     MODES,
     Strengths,
     interlaminar_reserve,

@@ -15,11 +15,11 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from life import cli
-from life.design import parse_design
-from life.estimate import CAUTION, estimate
-from life.terminal import cycle_text, summary_text
-from spectra.counting import merge_identical, rainflow_cycles
+from flexcycle.cli import app as cli
+from flexcycle.cli.terminal import cycle_text, summary_text
+from flexcycle.design import parse_design
+from flexcycle.estimate import CAUTION, estimate
+from flexcycle.spectra.counting import merge_identical, rainflow_cycles
 
 GLASS = {
     "E1": "40 GPa", "E2": "10 GPa", "G12": "4 GPa", "nu12": 0.3, "density": "1900 kg/m^3",
@@ -147,11 +147,11 @@ def test_summary_is_a_fixed_width_table(finite):
 
 
 def test_cli_run_prints_the_values_of_summary_json(tmp_path, monkeypatch, capsys):
-    """`bendlife run DESIGN`: the printed life, stiffness, mass and energy are summary.json's to the digits shown
+    """`flexcycle run DESIGN`: the printed life, stiffness, mass and energy are summary.json's to the digits shown
     (3 significant for lives, 4 for the rest)."""
     import json
 
-    from cli_runner import bendlife
+    from cli_runner import flexcycle
 
     design = tmp_path / "hand.toml"
     design.write_text("""\
@@ -171,7 +171,7 @@ drive = "force"
 cycles = [ { min = "0 N", max = "50 N", count = 1000 } ]
 blocks_per_day = 100
 """, encoding="utf-8")
-    code, out, err = bendlife(["run", design, "--out", tmp_path / "out"], monkeypatch, capsys)
+    code, out, err = flexcycle(["run", design, "--out", tmp_path / "out"], monkeypatch, capsys)
     assert code == 0, err
     s = json.loads((tmp_path / "out" / "summary.json").read_text(encoding="utf-8"))
     rows = table_rows_of(out)
@@ -235,11 +235,11 @@ def test_cycle_text_top_rows():
 
 
 def test_cli_count_prints_the_astm_table(tmp_path, monkeypatch, capsys):
-    """`bendlife count FILE --column load --unit lbf --top 0`, in-process through life.cli.main: the same table."""
+    """`flexcycle count FILE --column load --unit lbf --top 0`, in-process through flexcycle.cli.app.main: the same table."""
     csv = tmp_path / "astm.csv"
     csv.write_text("# ASTM E1049-85 section 5.4.4 example history\nload\n"
                    + "\n".join(str(v) for v in ASTM_E1049_HISTORY) + "\n", encoding="utf-8")
-    monkeypatch.setattr(sys, "argv", ["bendlife", "count", str(csv), "--column", "load", "--unit", "lbf", "--top", "0"])
+    monkeypatch.setattr(sys, "argv", ["flexcycle", "count", str(csv), "--column", "load", "--unit", "lbf", "--top", "0"])
     saved = np.geterr()
     try:
         with pytest.raises(SystemExit) as info:
@@ -253,8 +253,8 @@ def test_cli_count_prints_the_astm_table(tmp_path, monkeypatch, capsys):
 
 def test_sizing_text_is_a_before_after_table(tmp_path):
     """The sizing view lists the steps, then one line per row of sizing_rows with its before and after."""
-    from life.sizing import plan, sizing_rows
-    from life.terminal import sizing_text
+    from flexcycle.cli.terminal import sizing_text
+    from flexcycle.sizing.sizing import plan, sizing_rows
     doc = {"title": "t", "beam": {"support": "cantilever", "span": "200 mm", "width": "20 mm", "stations": 4},
            "material": {"g": GLASS}, "ply": [{"material": "g", "angle": 0, "thickness": "0.5 mm", "count": 10}],
            "duty": {"drive": "force", "cycles": [{"min": "-50 N", "max": "50 N", "count": 1000}]},

@@ -17,10 +17,11 @@ from __future__ import annotations
 import math
 
 import pytest
-from hypothesis import given, strategies as st
+from hypothesis import given
+from hypothesis import strategies as st
 
-from mechanics.errors import InputError
-from mechanics.units import EXAMPLES, KINDS, is_dimensionless, parse_quantity, unit_factor
+from flexcycle.mechanics.errors import InputError
+from flexcycle.mechanics.units import EXAMPLES, KINDS, is_dimensionless, parse_quantity, unit_factor
 
 # exact definitions (NIST SP 811, App. B; see the module docstring)
 INCH = 0.0254  # m

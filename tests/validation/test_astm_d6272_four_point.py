@@ -8,8 +8,8 @@ constant, (P/2)·a with a = (L − s)/2, so the face stress 6M/(bd²) is the sam
 import numpy as np
 import pytest
 
-from mechanics.beam import Beam, Ply, respond
-from mechanics.materials import library
+from flexcycle.mechanics.beam import Beam, Ply, respond
+from flexcycle.mechanics.materials import library
 
 ROUND_OFF = 1e-12  # closed form and model agree exactly: only floating-point round-off separates them
 

@@ -16,8 +16,8 @@ and the full deflection with that hand correction.
 import numpy as np
 import pytest
 
-from mechanics.beam import Beam, Ply, respond
-from mechanics.materials import library
+from flexcycle.mechanics.beam import Beam, Ply, respond
+from flexcycle.mechanics.materials import library
 
 ROUND_OFF = 1e-12  # closed form and model agree exactly: only floating-point round-off separates them
 

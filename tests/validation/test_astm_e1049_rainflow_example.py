@@ -2,7 +2,7 @@
 
 Source: ASTM E1049-85 (2011), "Standard Practices for Cycle Counting in Fatigue
 Analysis", §5.4.4 and its figure of the rainflow example (see /work/shared/REFERENCES.md).
-Load history (units of the example: "load units", any unit; bendlife counts in SI,
+Load history (units of the example: "load units", any unit; flexcycle counts in SI,
 and counting is the same in any unit):
 
     -2, 1, -3, 5, -1, 3, -4, 4, -2
@@ -23,7 +23,7 @@ import numpy as np
 import pytest
 import rainflow
 
-from spectra.counting import merge_identical, rainflow_cycles, reversals
+from flexcycle.spectra.counting import merge_identical, rainflow_cycles, reversals
 
 ASTM_E1049_EXAMPLE = np.array([-2.0, 1.0, -3.0, 5.0, -1.0, 3.0, -4.0, 4.0, -2.0])  # §5.4.4 example history
 

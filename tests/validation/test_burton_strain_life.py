@@ -10,8 +10,8 @@ the static strain), as in the project's material library.
 import numpy as np
 import pytest
 
-from life.curves import curve_from_mapping
-from life.meanstress import fatigue_model
+from flexcycle.fatigue.curves import curve_from_mapping
+from flexcycle.fatigue.meanstress import fatigue_model
 
 EPS_UT = 1062e6 / 38.6e9
 EPS_UC = 610e6 / 38.6e9

@@ -8,7 +8,7 @@ published figures as recalled). Intermediate checks: interface coordinates and t
 import numpy as np
 import pytest
 
-from mechanics.laminate import Layer, laminate, reduced_stiffness, transformed_stiffness
+from flexcycle.mechanics.laminate import Layer, laminate, reduced_stiffness, transformed_stiffness
 
 ROUND_OFF = 1e-12  # closed form and model agree exactly: only floating-point round-off separates them
 

@@ -8,7 +8,7 @@ published figures as recalled). Intermediate check: the ply strains ε = ε⁰ +
 import numpy as np
 import pytest
 
-from mechanics.laminate import Layer, laminate, midplane_response, ply_field
+from flexcycle.mechanics.laminate import Layer, laminate, midplane_response, ply_field
 
 ROUND_OFF = 1e-12  # closed form and model agree exactly: only floating-point round-off separates them
 

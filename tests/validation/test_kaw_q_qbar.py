@@ -8,7 +8,7 @@ published figure as recalled).
 import numpy as np
 import pytest
 
-from mechanics.laminate import reduced_stiffness, transformed_stiffness
+from flexcycle.mechanics.laminate import reduced_stiffness, transformed_stiffness
 
 ROUND_OFF = 1e-12  # closed form and model agree exactly: only floating-point round-off separates them
 

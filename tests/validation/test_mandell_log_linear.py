@@ -9,8 +9,8 @@ b = 0.1 is that relation, decade by decade.
 import numpy as np
 import pytest
 
-from life.curves import SNCurve
-from life.meanstress import fatigue_model
+from flexcycle.fatigue.curves import SNCurve
+from flexcycle.fatigue.meanstress import fatigue_model
 
 S0 = 1062e6  # Pa, Tsai & Hahn E-glass/epoxy Xt
 MANDELL = SNCurve("log-linear", -1.0, S0, "stress", b=0.1, source="Mandell 1982, recalled")

@@ -19,7 +19,7 @@
 import numpy as np
 import pytest
 
-from mechanics.beam import Beam, Ply, respond
+from flexcycle.mechanics.beam import Beam, Ply, respond
 
 ROUND_OFF = 1e-12  # closed form and model agree exactly: only floating-point round-off separates them
 

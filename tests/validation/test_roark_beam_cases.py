@@ -22,7 +22,7 @@ Tolerance rel 1e-9: the beam integrates by adaptive quadrature to rel 1e-11; the
 import numpy as np
 import pytest
 
-from mechanics.beam import Beam, Ply, moment_shear, respond
+from flexcycle.mechanics.beam import Beam, Ply, moment_shear, respond
 
 ROUND_OFF = 1e-12  # closed form and model agree exactly: only floating-point round-off separates them
 

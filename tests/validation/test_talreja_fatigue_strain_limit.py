@@ -8,8 +8,8 @@ R = 0.1 (our reading of the recalled value), i.e. an amplitude limit ε_a = 0.00
 import numpy as np
 import pytest
 
-from life.curves import SNCurve
-from life.meanstress import fatigue_model
+from flexcycle.fatigue.curves import SNCurve
+from flexcycle.fatigue.meanstress import fatigue_model
 
 LIMIT_PEAK = 0.006
 R = 0.1

@@ -11,18 +11,18 @@ Either may carry a fatigue limit (amplitudes at or below it do no damage; Talrej
 recalled, for the fatigue strain limit of epoxy-matrix composites) and a knee beyond which a
 second slope applies. The amplitude is in the curve's basis: a stress [Pa] or a strain [-].
 
-Curves arrive as plain mappings (already SI floats) from ``mechanics.materials``; this module
+Curves arrive as plain mappings (already SI floats) from ``flexcycle.mechanics.materials``; this module
 only checks and evaluates them and never imports ``mechanics``.
 """
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass
-from typing import Mapping
 
 import numpy as np
 
-from life.errors import InputError
+from flexcycle.errors import InputError
 
 FORMS = ("power", "log-linear")
 BASES = ("stress", "strain")
@@ -48,7 +48,7 @@ class SNCurve:
     limit : float | None — fatigue-limit amplitude at this R [Pa or -], 0 <= limit < S1:
         amplitudes at or below it do no damage (N = inf); under a mean-stress rule it sets the
         rule's fatigue-limit diagram (a positive limit is a vertex of the cld one; Notes of
-        ``life.meanstress.FatigueModel``)
+        ``flexcycle.fatigue.meanstress.FatigueModel``)
     knee : float | None — cycles at the knee [-], > 1; beyond it the slope m2 (power) or b2
         (log-linear) applies, continuous at the knee
     m2 : float | None — inverse slope beyond the knee of a power curve [-], > 1
@@ -176,7 +176,7 @@ class SNCurve:
 def curve_from_mapping(raw: Mapping, where: str) -> SNCurve:
     """A checked ``SNCurve`` from a raw curve mapping (SI floats), as ``Material.fatigue`` holds them.
 
-    A design file's curves were already checked, key by key, as ``mechanics.materials`` read them;
+    A design file's curves were already checked, key by key, as ``flexcycle.mechanics.materials`` read them;
     ``SNCurve`` checks its ranges again because curves are also built in code.
 
     raw : Mapping — keys ``form, R, basis, S1, m, b, limit, knee, m2, b2, source`` (absent or None

@@ -2,22 +2,22 @@
 from __future__ import annotations
 
 import io
-from typing import TYPE_CHECKING, Mapping
+from collections.abc import Mapping
+from typing import TYPE_CHECKING
 
 import numpy as np
+import pandas as pd
 from rich import box
 from rich.console import Console
 from rich.table import Table
 
-import pandas as pd
+from flexcycle.design import Design
+from flexcycle.estimate import CAUTION, LifeResult
+from flexcycle.mechanics.materials import Material
+from flexcycle.spectra.counting import Cycles
 
-from life.design import Design
-from life.estimate import CAUTION, LifeResult
-from mechanics.materials import Material
-from spectra.counting import Cycles
-
-if TYPE_CHECKING:  # life.sizing loads scipy.optimize: only when a sizing answer is printed
-    from life.sizing import SizingAnswer
+if TYPE_CHECKING:  # flexcycle.sizing.sizing loads scipy.optimize: only when a sizing answer is printed
+    from flexcycle.sizing.sizing import SizingAnswer
 
 
 WIDTH = 100  # fixed console width: the same layout on a terminal, in a pipe and in tests
@@ -70,7 +70,7 @@ def summary_table(result: LifeResult) -> Table:
 def summary_text(result: LifeResult, example: bool = False) -> str:
     """The run summary: a header, the table of figures, the warnings, and the caution as the last line."""
     d = result.design
-    lines = [f"bendlife — {d.title}" + ("  [bundled example, invented demo data]" if example else "")]
+    lines = [f"flexcycle — {d.title}" + ("  [bundled example, invented demo data]" if example else "")]
     lines.append(f"  part  {d.beam.support}, span {d.beam.span * 1e3:.0f} mm, {len(d.beam.plies)} plies, "
                  f"section {d.beam.section}")
     lines.append(f"  duty  {d.duty.source}; {d.duty.cycles.n_total:g} cycles per block, {d.duty.drive} at the load point")
@@ -122,7 +122,7 @@ def materials_text(lib: Mapping[str, Material]) -> str:
     for name in sorted(lib):
         m = lib[name]
         lines.append(f"{name:20s} {m.kind:5s} {m.E1 / 1e9:7.1f} {m.Xt / 1e6:7.0f} {m.density:6.0f}  {m.description}")
-    lines.append("\n`bendlife materials NAME` shows every value with its source.")
+    lines.append("\n`flexcycle materials NAME` shows every value with its source.")
     return "\n".join(lines)
 
 
@@ -144,7 +144,7 @@ def comparison_text(table: pd.DataFrame, duty: str = "each design with its own d
 
 def sizing_text(answer: SizingAnswer) -> str:
     """The sizing answer: the steps, then a before/after table, then the sizing warnings."""
-    from life.sizing import sizing_rows
+    from flexcycle.sizing.sizing import sizing_rows
 
     lines = [f"sizing for a life of {answer.target_blocks:g} blocks of the duty"]
     lines += [f"  {st.what}: {st.note}" for st in answer.sized.steps]

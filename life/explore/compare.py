@@ -8,17 +8,17 @@ from __future__ import annotations
 
 import html
 import tomllib
+from collections.abc import Sequence
 from pathlib import Path
-from typing import Sequence
 
 import matplotlib
 import numpy as np
 import pandas as pd
 
-from life.design import BUNDLED_PREFIX, Design, parse_design, read_document
-from life.errors import InputError
-from life.estimate import CAUTION, LifeResult
-from life.report import PALETTE, STYLE, _subplots, _svg, force_deflection, span_envelope
+from flexcycle.design import BUNDLED_PREFIX, Design, parse_design, read_document
+from flexcycle.errors import InputError
+from flexcycle.estimate import CAUTION, LifeResult
+from flexcycle.report.report import PALETTE, STYLE, _subplots, _svg, force_deflection, span_envelope
 
 OWN_DUTY = "each design with its own duty"
 
@@ -167,7 +167,7 @@ def comparison_html(table: pd.DataFrame, results: Sequence[LifeResult], duty: st
         for i, r in enumerate(results, start=1)
     )
     return f"""<!DOCTYPE html>
-<html lang="en"><head><meta charset="utf-8"><title>bendlife comparison</title>
+<html lang="en"><head><meta charset="utf-8"><title>flexcycle comparison</title>
 <style>body {{ font-family: system-ui, sans-serif; margin: 2em; color: #222 }}
 table {{ border-collapse: collapse; font-size: 0.85em }} td, th {{ border: 1px solid #ddd; padding: 3px 6px }}
 th {{ background: #f1eee6 }} figure {{ margin: 1em 0; break-inside: avoid }} svg {{ max-width: 100%; height: auto }}

@@ -12,11 +12,11 @@ import hashlib
 import html
 import io
 import math
+from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
-from datetime import datetime, timezone
+from datetime import UTC, datetime
 from importlib import metadata
 from pathlib import Path
-from typing import Callable, Mapping, Sequence
 
 import matplotlib
 import numpy as np
@@ -28,17 +28,17 @@ from matplotlib.figure import Figure
 from matplotlib.patches import Rectangle
 from matplotlib.ticker import FuncFormatter, LogLocator, NullLocator
 
-from life.damage import FACES, FIRST_LOAD_FAILURE, cycle_lives
-from life.estimate import CAUTION, LifeResult
-from life.meanstress import (
+from flexcycle.estimate import CAUTION, LifeResult
+from flexcycle.fatigue.damage import FACES, FIRST_LOAD_FAILURE, cycle_lives
+from flexcycle.fatigue.meanstress import (
     gerber_amplitude_at_zero_mean,
     gerber_amplitude_on_ray,
     goodman_amplitude_at_zero_mean,
     goodman_amplitude_on_ray,
     mean_ratio,
 )
-from spectra.counting import Cycles
-from spectra.streaming import minmax_envelope
+from flexcycle.spectra.counting import Cycles
+from flexcycle.spectra.streaming import minmax_envelope
 
 METHODS = [
     ("Laminate", "classical laminate theory: Q, Q̄, ABD (Kaw, Mechanics of Composite Materials, 2nd ed., Eqs. 2.93, "
@@ -216,7 +216,7 @@ def drive_unit(drive: str) -> tuple[str, float]:
 
 def _tool_version() -> str:
     try:
-        return metadata.version("bendlife")
+        return metadata.version("flexcycle")
     except metadata.PackageNotFoundError:
         return "unknown (not installed)"
 
@@ -330,7 +330,7 @@ def figure_layup(result: LifeResult) -> str:
     with matplotlib.rc_context(STYLE):
         fig, (a1, a2) = _subplots((7.5, 4.6), 2, 1, sharex=True, gridspec_kw={"height_ratios": [3, 1.4]})
         z = 0.0
-        for k, p in enumerate(beam.plies, start=1):
+        for _k, p in enumerate(beam.plies, start=1):
             end = L if p.ends_at is None else p.ends_at * 1e3
             shade = 0.95 if p.angle % 180 == 0 else 0.55
             a1.add_patch(Rectangle((0, z), end, p.thickness * 1e3, facecolor=colour[p.material.name], alpha=shade,
@@ -479,7 +479,7 @@ def figure_duty(result: LifeResult, cycles: pd.DataFrame) -> str:
 
 
 def _equivalent_amplitude(model, sa: np.ndarray, sm: np.ndarray) -> np.ndarray:
-    """Each cycle's amplitude moved to the curve's R by the model's own rule (life.meanstress functions)."""
+    """Each cycle's amplitude moved to the curve's R by the model's own rule (flexcycle.fatigue.meanstress functions)."""
     curve = model.curves[0]
     if model.rule == "goodman":
         return goodman_amplitude_on_ray(goodman_amplitude_at_zero_mean(sa, sm, model.Xt, model.Xc), curve.R, model.Xt, model.Xc)
@@ -635,7 +635,7 @@ def section_identification(result: LifeResult, stamp: str) -> str:
     rows = [
         ("title", d.title),
         ("date", stamp),
-        ("tool", f"bendlife {_tool_version()}"),
+        ("tool", f"flexcycle {_tool_version()}"),
         ("design file", d.path.name if d.path else "— (built in memory)"),
         ("design file SHA-256", _sha256(d.path)),
         ("duty profile", profile.name if profile else "block table in the design file"),
@@ -650,7 +650,7 @@ def section_identification(result: LifeResult, stamp: str) -> str:
               f"{len(result.warnings)} warning{'s' if len(result.warnings) != 1 else ''}.")
     return f"""<section id="identification">
 <h1>Design review: {_e(d.title)}</h1>
-<p class="sub">Fatigue-life and stored-energy estimate of a flexing composite beam, written by bendlife.</p>
+<p class="sub">Fatigue-life and stored-energy estimate of a flexing composite beam, written by flexcycle.</p>
 <div class="glance"><b>Answer at a glance.</b> {_e(glance)}</div>
 <h2>1. Identification</h2>
 {_table(rows, cls="kv")}
@@ -911,7 +911,7 @@ def report_html(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, locat
     """
     if svg is None:
         svg = figures(result, cycles, locations)
-    stamp = datetime.now(timezone.utc).strftime("%Y-%m-%d %H:%M UTC")
+    stamp = datetime.now(UTC).strftime("%Y-%m-%d %H:%M UTC")
     body = "\n".join([
         section_identification(result, stamp),
         section_inputs(result, cycles, cycle_note, svg),
@@ -925,9 +925,9 @@ def report_html(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, locat
     return f"""<!DOCTYPE html>
 <html lang="en"><head><meta charset="utf-8">
 <meta name="viewport" content="width=device-width, initial-scale=1">
-<title>bendlife design review — {_e(result.design.title)}</title>
+<title>flexcycle design review — {_e(result.design.title)}</title>
 <style>{CSS}</style></head><body>
 {body}
-<p class="sub">bendlife {_e(_tool_version())} · {stamp}</p>
+<p class="sub">flexcycle {_e(_tool_version())} · {stamp}</p>
 </body></html>
 """

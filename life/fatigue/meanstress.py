@@ -28,13 +28,13 @@ constant-life diagram is solved with exact ray geometry (see ``FatigueModel``).
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Sequence
 
 import numpy as np
 
-from life.curves import SNCurve
-from life.errors import InputError
+from flexcycle.errors import InputError
+from flexcycle.fatigue.curves import SNCurve
 
 RULES = ("goodman", "gerber", "none", "cld")
 

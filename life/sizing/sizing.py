@@ -41,13 +41,13 @@ import numpy as np
 import tomlkit
 from scipy import optimize
 
-from life.design import BUNDLED_PREFIX, Design, parse_design
-from life.errors import InputError
-from life.estimate import LifeResult, estimate
-from mechanics.beam import Beam, moment_shear, respond
-from mechanics.errors import InputError as MechanicsInputError
-from mechanics.laminate import Layer, laminate, ply_field, unit_bending
-from mechanics.units import UREG, parse_quantity
+from flexcycle.design import BUNDLED_PREFIX, Design, parse_design
+from flexcycle.errors import InputError
+from flexcycle.estimate import LifeResult, estimate
+from flexcycle.mechanics.beam import Beam, moment_shear, respond
+from flexcycle.mechanics.errors import InputError as MechanicsInputError
+from flexcycle.mechanics.laminate import Layer, laminate, ply_field, unit_bending
+from flexcycle.mechanics.units import UREG, parse_quantity
 
 VARY = ("thickness", "width")
 SCALE_LIMITS = (0.1, 10.0)  # the sane range of scale factors (issue 7): beyond it the design is another part
@@ -730,7 +730,7 @@ class Proposal:
 
 @dataclass(frozen=True)
 class SizingAnswer:
-    """What ``bendlife size`` gives.
+    """What ``flexcycle size`` gives.
 
     target_blocks : float — life asked for [blocks]
     before : LifeResult — the design as given
@@ -754,12 +754,12 @@ class SizingAnswer:
 
 def _finish(design: Design, start: Design, name: str, steps: list[Step], target: float,
             rows: tuple[int, ...] | None = None) -> Proposal:
-    header = [f"Sized by bendlife for a life of {target:g} blocks of the duty, from {start.path.name if start.path else 'the design'}:"]
+    header = [f"Sized by flexcycle for a life of {target:g} blocks of the duty, from {start.path.name if start.path else 'the design'}:"]
     header += [f"  {s.what}: {s.note}" for s in steps]
     if rows is not None:
         header += ["Every ply is one of the design's real plies, of its own cured thickness: plies added, removed "
                    "or dropped whole, none scaled."]
-    header += ["Figures from reading this file back; confirm by tests (bendlife run)."]
+    header += ["Figures from reading this file back; confirm by tests (flexcycle run)."]
     title = f"{start.title} — sized for {target:g} blocks" + (" (ply drops)" if "drops" in name else "")
     text = design_file(start, design.beam, header, title, rows)
     result = estimate(read_back(text, start, name))

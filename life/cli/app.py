@@ -1,35 +1,28 @@
-"""The ``bendlife`` command: parse arguments, call the library, print. Nothing else lives here.
+"""The ``flexcycle`` command: parse arguments, call the library, print. Nothing else lives here.
 
 Exit codes: 0 done; 2 the input is wrong (one message on stderr, no traceback); 1 an internal fault.
 
 Lean start: the library (numpy, pandas, scipy, matplotlib, pint) is imported inside the commands, so that
-``bendlife --help`` shows at once and ``bendlife check`` never loads scipy or matplotlib.
+``flexcycle --help`` shows at once and ``flexcycle check`` never loads scipy or matplotlib.
 """
 from __future__ import annotations
 
 import difflib
-import gc
 import os
 import sys
 import traceback
 from importlib import resources
 from pathlib import Path
-from typing import Callable, Optional
 
 import typer
 
-from life.caution import CAUTION
-from life.errors import InputError as LifeInputError
-from mechanics.errors import InputError as MechanicsInputError
-from spectra.errors import InputError as SpectraInputError
+from flexcycle.caution import CAUTION
+from flexcycle.errors import InputError as LifeInputError
+from flexcycle.mechanics.errors import InputError as MechanicsInputError
+from flexcycle.spectra.errors import InputError as SpectraInputError
 
 INPUT_ERRORS = (LifeInputError, MechanicsInputError, SpectraInputError)
 EXAMPLE = "cargo-bike-rear-spring.toml"
-# While threads share the work on a long history (reading, counting, importing), the counting thread, which
-# lets go of the interpreter lock at every numpy call, gets it back within this time rather than Python's
-# default 5 ms [s] (interleaved runs on 10⁷ samples: 0.1 s sooner; on a short history it only costs)
-SWITCH_INTERVAL = 0.0002
-SHARED_BYTES = 8_000_000  # a history file larger than this is read in several chunks by a second thread
 PROGRESS_BYTES = 20_000_000  # a time history file larger than this (about 10⁶ samples) gets a progress bar
 
 app = typer.Typer(
@@ -41,27 +34,24 @@ app = typer.Typer(
 
 def example_design() -> Path:
     """Path of the bundled example design (invented demo data)."""
-    return Path(str(resources.files("life") / "examples" / EXAMPLE))
+    return Path(str(resources.files("flexcycle") / "examples" / EXAMPLE))
 
 
 @app.command()
 def run(
-    design: Optional[Path] = typer.Argument(None, help="design file (TOML); without it, the bundled example"),
-    out: Path = typer.Option(Path("bendlife-out"), "--out", "-o", help="folder for summary.json, cycles.csv, locations.csv, stations.csv, report.html"),
+    design: Path | None = typer.Argument(None, help="design file (TOML); without it, the bundled example"),
+    out: Path = typer.Option(Path("flexcycle-out"), "--out", "-o", help="folder for summary.json, cycles.csv, locations.csv, stations.csv, report.html"),
 ) -> None:
     """Estimate the fatigue life, stiffness, mass and stored energy of a design."""
-    from life import parallel, terminal
-    from life.design import load_design
-    from life.estimate import estimate
+    from flexcycle.cli import terminal
+    from flexcycle.design import load_design
+    from flexcycle.estimate import estimate
 
-    plotting = parallel.Preload("life.outputs")  # the report modules, imported while the history is counted
     path = design if design is not None else example_design()
-    with _progress(when_read=plotting.start) as progress:
+    with _progress() as progress:
         loaded = load_design(path, progress=progress)
-    plotting.start()  # a block table, or a history read without a last progress call
     result = estimate(loaded)
-    plotting.join()  # before anything forks
-    from life.outputs import render, write_files
+    from flexcycle.outputs import render, write_files
 
     files = render(result)
     written = write_files(files, out)
@@ -72,15 +62,15 @@ def run(
 @app.command()
 def compare(
     designs: list[Path] = typer.Argument(..., help="two or more design files (TOML)"),
-    out: Path = typer.Option(Path("bendlife-compare"), "--out", "-o", help="folder for comparison.csv and comparison.html"),
-    duty: Optional[Path] = typer.Option(None, "--duty", help="TOML file with one [duty] table: run every design with it"),
+    out: Path = typer.Option(Path("flexcycle-compare"), "--out", "-o", help="folder for comparison.csv and comparison.html"),
+    duty: Path | None = typer.Option(None, "--duty", help="TOML file with one [duty] table: run every design with it"),
 ) -> None:
     """Run several candidate designs and set their figures side by side."""
-    from life import terminal
-    from life.compare import comparison_html, comparison_table, duty_note, with_common_duty
-    from life.design import load_design
-    from life.estimate import estimate
-    from life.outputs import write_files
+    from flexcycle.cli import terminal
+    from flexcycle.design import load_design
+    from flexcycle.estimate import estimate
+    from flexcycle.explore.compare import comparison_html, comparison_table, duty_note, with_common_duty
+    from flexcycle.outputs import write_files
 
     if len(designs) < 2:
         raise LifeInputError("compare: give two or more design files to set side by side")
@@ -99,15 +89,15 @@ def size(
     design: Path = typer.Argument(..., help="design file (TOML)"),
     life: float = typer.Option(..., "--life", help="target life in blocks of the duty"),
     vary: str = typer.Option("thickness", "--vary", help="thickness (every ply) or width"),
-    rate: Optional[str] = typer.Option(None, "--rate", help='spring rate with its unit, e.g. "30 N/mm" (deflection drive): the width for it, after the thickness for the life'),
+    rate: str | None = typer.Option(None, "--rate", help='spring rate with its unit, e.g. "30 N/mm" (deflection drive): the width for it, after the thickness for the life'),
     taper: bool = typer.Option(False, "--taper", help="propose a width taper (sized.toml) and ply drops (sized-drops.toml) that even the strain"),
-    out: Path = typer.Option(Path("bendlife-size"), "--out", "-o", help="folder for sized.toml, sizing.json, report.html"),
+    out: Path = typer.Option(Path("flexcycle-size"), "--out", "-o", help="folder for sized.toml, sizing.json, report.html"),
 ) -> None:
     """Size a design for a target life: the thickness (or width), the width for a spring rate, a taper."""
-    from life import terminal
-    from life.design import load_design
-    from life.outputs import render, sizing_json, write_files
-    from life.sizing import parse_rate, plan, sizing_rows
+    from flexcycle.cli import terminal
+    from flexcycle.design import load_design
+    from flexcycle.outputs import render, sizing_json, write_files
+    from flexcycle.sizing.sizing import parse_rate, plan, sizing_rows
 
     k = None if rate is None else parse_rate(rate)
     answer = plan(load_design(design), life, vary, k, taper)
@@ -124,8 +114,8 @@ def size(
 @app.command()
 def check(design: Path = typer.Argument(..., help="design file (TOML)")) -> None:
     """Validate a design file without running the estimate."""
-    from life import terminal
-    from life.design import load_design
+    from flexcycle.cli import terminal
+    from flexcycle.design import load_design
 
     typer.echo(terminal.design_text(load_design(design)))
     typer.echo("the design file is valid")
@@ -140,11 +130,11 @@ def count(
     residue: str = typer.Option("half", "--residue", help="half (ASTM E1049-85) or repeat (a block of a repeated duty)"),
 ) -> None:
     """Rainflow-count a time history (ASTM E1049-85) and print the cycle table."""
-    from life import terminal
-    from mechanics.units import unit_factor
-    from spectra.counting import RESIDUE_MODES, merge_identical
-    from spectra.profiles import refuse_headerless
-    from spectra.streaming import count_history, refuse_constant
+    from flexcycle.cli import terminal
+    from flexcycle.mechanics.units import unit_factor
+    from flexcycle.spectra.counting import RESIDUE_MODES, merge_identical
+    from flexcycle.spectra.profiles import refuse_headerless
+    from flexcycle.spectra.streaming import count_history, refuse_constant
 
     if residue not in RESIDUE_MODES:
         raise LifeInputError(f"--residue: must be one of {', '.join(RESIDUE_MODES)}, got {residue!r}")
@@ -162,10 +152,10 @@ def count(
 
 
 @app.command()
-def materials(name: Optional[str] = typer.Argument(None, help="a material to show in full")) -> None:
+def materials(name: str | None = typer.Argument(None, help="a material to show in full")) -> None:
     """List the bundled materials, or show one with the source of every value."""
-    from life import terminal
-    from mechanics.materials import describe, library
+    from flexcycle.cli import terminal
+    from flexcycle.mechanics.materials import describe, library
 
     lib = library()
     if name is None:
@@ -181,26 +171,14 @@ def materials(name: Optional[str] = typer.Argument(None, help="a material to sho
 class _progress:
     """A progress bar on stderr while a long time history is read (rich), as a callback for the library.
 
-    Shown only for a file over PROGRESS_BYTES and only on a terminal; the library itself prints nothing. The
-    callback also learns when the file is read through (``when_read``, called once) and, for a file over
-    SHARED_BYTES, shortens the interpreter's switch interval while the reading and counting threads share the
-    work (SWITCH_INTERVAL; the former interval back on leaving).
+    Shown only for a file over PROGRESS_BYTES and only on a terminal; the library itself prints nothing.
     """
-
-    def __init__(self, when_read: Callable[[], None] | None = None) -> None:
-        self.when_read = when_read  # called once, when the whole file has been read
 
     def __enter__(self):
         self.bar = None
-        self.interval = sys.getswitchinterval()
         return self.update
 
     def update(self, done: int, total: int) -> None:
-        if total > SHARED_BYTES and sys.getswitchinterval() > SWITCH_INTERVAL:  # restored on leaving
-            sys.setswitchinterval(SWITCH_INTERVAL)
-        if done >= total and self.when_read is not None:
-            self.when_read()
-            self.when_read = None
         if self.bar is None:
             if total < PROGRESS_BYTES or not sys.stderr.isatty():
                 return
@@ -214,22 +192,15 @@ class _progress:
         self.bar.update(self.task, completed=done)
 
     def __exit__(self, *exc) -> None:
-        sys.setswitchinterval(self.interval)
         if self.bar is not None:
             self.bar.stop()
 
 
 def entry() -> None:
-    """The ``bendlife`` command: `main`, then leave at once with its exit code.
+    """The ``flexcycle`` console script: `main`, its exit code, and the streams flushed.
 
-    Every output file is written, moved into place and closed by then, and the terminal output is flushed
-    here; what is skipped is the interpreter's clean-up of numpy, pandas, matplotlib and the arrays of the run,
-    which took 0.3–0.5 s after every run (measured on 10⁷ samples). The cyclic garbage collector is off for
-    the command's short life: its full passes over the libraries' million objects cost about 0.2 s per run
-    (interleaved runs, 10⁵ and 10⁷ samples), and a run leaves little cyclic garbage (peak memory of a streamed
-    10⁸-sample run 671 MB, the same as with the collector on). Tests and other Python callers use `main`.
+    Tests and other Python callers use `main`.
     """
-    gc.disable()
     try:
         main()
         code = 0
@@ -242,21 +213,15 @@ def entry() -> None:
             stream.flush()
         except (OSError, ValueError):  # a closed pipe: nothing more can be said
             code = code or 1
-    os._exit(code)
+    sys.exit(code)
 
 
 def main() -> None:
     """Console entry point: turn input errors into exit 2 with one message, faults into exit 1."""
-    from life import allocator
-
-    allocator.tune()  # memory reused for numpy's temporaries (life.allocator)
-    import numpy as np  # here, not at the top: lean start
-
-    np.seterr(all="ignore")  # the library handles inf/NaN explicitly; no floating-point chatter on the terminal
     try:
         app(standalone_mode=False)
     except INPUT_ERRORS as exc:
-        typer.echo(f"bendlife: {exc}", err=True)
+        typer.echo(f"flexcycle: {exc}", err=True)
         sys.exit(2)
     except typer.Exit as exc:
         sys.exit(exc.exit_code)
@@ -264,10 +229,10 @@ def main() -> None:
         sys.exit(1)
     except typer.TyperException as exc:  # a wrong option or argument (or no command: the help was shown)
         if exc.format_message():
-            typer.echo(f"bendlife: {exc.format_message()}", err=True)
+            typer.echo(f"flexcycle: {exc.format_message()}", err=True)
         sys.exit(exc.exit_code)
     except Exception as exc:
-        typer.echo(f"bendlife: internal fault: {type(exc).__name__}: {exc}", err=True)
-        if os.environ.get("BENDLIFE_DEBUG"):
+        typer.echo(f"flexcycle: internal fault: {type(exc).__name__}: {exc}", err=True)
+        if os.environ.get("FLEXCYCLE_DEBUG"):
             traceback.print_exc()
         sys.exit(1)

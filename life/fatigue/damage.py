@@ -11,16 +11,16 @@ Palmgren–Miner: D = Σ nᵢ/Nᵢ per block of the duty, failure when D reaches
 """
 from __future__ import annotations
 
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
-from typing import Mapping, Sequence
 
 import numpy as np
 
-from life.curves import curve_from_mapping
-from life.meanstress import FatigueModel, fatigue_model
-from mechanics.beam import BeamResponse
-from mechanics.materials import Material
-from spectra.counting import Cycles, merge_identical
+from flexcycle.fatigue.curves import curve_from_mapping
+from flexcycle.fatigue.meanstress import FatigueModel, fatigue_model
+from flexcycle.mechanics.beam import BeamResponse
+from flexcycle.mechanics.materials import Material
+from flexcycle.spectra.counting import Cycles, merge_identical
 
 # Fatigue modes, the Material.fatigue table that holds each one's curves, and the ply-axis component.
 MODE_TABLES = {
@@ -185,7 +185,7 @@ def locations(resp: BeamResponse, models: ModelSet, dominant_sign: float) -> Loc
         [model[0, j] >= 0 and models.models[model[0, j]].curves[0].basis == "strain" for j in range(p)]
     )
     # strain basis: γxz = τxz/G_xz with G_xz = G13 cos²θ + G23 sin²θ, the ply's shear modulus in the x–z plane
-    # (as in mechanics.laminate.transverse_shear_stiffness; Jones, 2nd ed., sec. 2.6)
+    # (as in flexcycle.mechanics.laminate.transverse_shear_stiffness; Jones, 2nd ed., sec. 2.6)
     theta = np.radians([ply.angle for ply in plies])
     g_xz = np.array([ply.material.G13 for ply in plies]) * np.cos(theta) ** 2 + \
         np.array([ply.material.G23 for ply in plies]) * np.sin(theta) ** 2
