@@ -20,7 +20,8 @@ from flexcycle.errors import InputError
 from flexcycle.estimate import LifeResult
 from flexcycle.fatigue.damage import FACES
 from flexcycle.mechanics.energy import cycle_energy
-from flexcycle.report.report import FIGURES, figures, report_html
+from flexcycle.report.figures import FIGURES
+from flexcycle.report.page import figure_svgs, report_html
 from flexcycle.spectra.counting import Cycles, merge_identical
 
 if TYPE_CHECKING:  # flexcycle.sizing.sizing loads scipy.optimize (0.3 s): only `flexcycle size` needs it
@@ -146,7 +147,7 @@ def render(result: LifeResult, sizing: Sequence[tuple[str, str, str]] | None = N
         "locations.csv": locations.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
         "stations.csv": station_table(result).to_csv(index=False, float_format="%.9g", lineterminator="\n"),
     }
-    svg = figures(result, cycles, locations, FIGURES)
+    svg = figure_svgs(result, cycles, locations, FIGURES)
     files["report.html"] = report_html(result, cycles, note, locations, sizing, svg=svg)
     return {name: files[name] for name in ("summary.json", "cycles.csv", "locations.csv", "stations.csv", "report.html")}
 

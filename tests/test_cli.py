@@ -716,8 +716,8 @@ def test_size_wrong_input_exits_2_with_the_reason(tmp_path, drive, lo, hi, args,
 # --- lean start ---------------------------------------------------------------------------------
 
 WORKTREE = Path(__file__).resolve().parent.parent
-HEAVY = ("matplotlib", "scipy.integrate", "scipy.optimize", "scipy.interpolate", "scipy.special", "flexcycle.report.report",
-         "flexcycle.outputs", "flexcycle.explore.compare")
+HEAVY = ("matplotlib", "scipy.integrate", "scipy.optimize", "scipy.interpolate", "scipy.special", "flexcycle.report.style",
+         "flexcycle.report.figures", "flexcycle.report.page", "flexcycle.outputs", "flexcycle.explore.compare")
 
 
 def _modules_after(args: list[str]) -> set[str]:

@@ -1,4 +1,4 @@
-"""The design-review report, life/report.py (DESIGN.md, outputs contract: report.html, one self-contained file).
+"""The design-review report, flexcycle.report (DESIGN.md, outputs contract: report.html, one self-contained file).
 
 Two designs: the bundled example (a deflection time history, 16 plies) and a small block-table
 cantilever of one homogeneous 0° user material whose critical place is known by hand (below), driven
@@ -16,7 +16,7 @@ from flexcycle.cli.app import example_design
 from flexcycle.design import load_design, parse_design
 from flexcycle.estimate import CAUTION, estimate
 from flexcycle.outputs import cycle_table, location_table
-from flexcycle.report.report import report_html
+from flexcycle.report.page import report_html
 
 TITLE = "Test spring <A> & 'B'"  # markup characters: the report must escape them
 
@@ -139,6 +139,32 @@ def test_an_inline_svg_per_figure(case):
             assert html.escape(w) in body or w in body, (number, w)
     assert page.count("<svg") == 7 and page.count("</svg>") == 7
     assert "<?xml" not in page  # the SVG's XML prologue is cut: it is not allowed inside HTML
+
+
+FIGURE_NUMBERS = {"layup": "1", "duty": "2", "force-deflection": "3", "strain-envelope": "4",
+                  "through-thickness": "5", "fatigue-curve": "6", "damage": "7"}
+
+
+def test_every_figure_maker_returns_a_matplotlib_figure(wide):
+    """Each maker of the registry returns a matplotlib Figure (no SVG text) of the small hand case, with the
+    words its report figure shows among the Figure's own texts; the registry holds the seven report figures."""
+    from matplotlib.figure import Figure
+    from matplotlib.text import Text
+
+    from flexcycle.report.figures import FIGURE_MAKERS
+    from flexcycle.report.figures import FIGURES as NAMES
+
+    result, _ = wide
+    cycles, _ = cycle_table(result)
+    locations = location_table(result)
+    assert NAMES == tuple(FIGURE_MAKERS) and sorted(NAMES) == sorted(FIGURE_NUMBERS)
+    for name, make in FIGURE_MAKERS.items():
+        figure = make(result, cycles, locations)
+        assert isinstance(figure, Figure), name
+        assert figure.axes, name
+        texts = " ".join(t.get_text() for t in figure.findobj(Text))
+        for words in FIGURES[FIGURE_NUMBERS[name]]:
+            assert words in texts, (name, words)
 
 
 def test_fatigue_figure_names_the_critical_curve(wide):
@@ -333,7 +359,7 @@ def test_log_axis_labels_are_plain_powers_of_ten():
     no label (an infinite count per block once crashed the report: found by the fuzz test)."""
     import math
 
-    from flexcycle.report.report import _power_of_ten
+    from flexcycle.report.style import power_of_ten
 
-    assert [_power_of_ten(v) for v in (1e-3, 1.0, 10.0, 1e12)] == ["10⁻³", "10⁰", "10¹", "10¹²"]
-    assert [_power_of_ten(v) for v in (2e-3, 0.0, -10.0, math.inf, math.nan)] == ["", "", "", "", ""]
+    assert [power_of_ten(v) for v in (1e-3, 1.0, 10.0, 1e12)] == ["10⁻³", "10⁰", "10¹", "10¹²"]
+    assert [power_of_ten(v) for v in (2e-3, 0.0, -10.0, math.inf, math.nan)] == ["", "", "", "", ""]

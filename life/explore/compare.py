@@ -18,7 +18,8 @@ import pandas as pd
 from flexcycle.design import BUNDLED_PREFIX, Design, parse_design, read_document
 from flexcycle.errors import InputError
 from flexcycle.estimate import CAUTION, LifeResult
-from flexcycle.report.report import PALETTE, STYLE, _subplots, _svg, force_deflection, span_envelope
+from flexcycle.report.data import force_deflection, span_envelope
+from flexcycle.report.style import PALETTE, STYLE, arrange, figure_with_axes, to_svg
 
 OWN_DUTY = "each design with its own duty"
 
@@ -109,7 +110,7 @@ def bar_figure(table: pd.DataFrame, results: Sequence[LifeResult]) -> str:
     labels = [str(i) for i in range(1, len(results) + 1)]
     life = table["life_blocks"].astype(float).to_numpy()
     with matplotlib.rc_context(STYLE):
-        fig, axes = _subplots((9.5, 3.0), 1, 4)
+        fig, axes = figure_with_axes((9.5, 3.0), 1, 4)
         shown = np.where(np.isnan(life), np.nan, np.maximum(life, 1e-3))
         axes[0].bar(labels, np.nan_to_num(shown, nan=0.0), color=PALETTE[0])
         axes[0].set_yscale("log")
@@ -126,13 +127,13 @@ def bar_figure(table: pd.DataFrame, results: Sequence[LifeResult]) -> str:
         for ax in axes:
             ax.set_xlabel("design")
             ax.grid(axis="x", visible=False)
-        return _svg(fig, "bars", wspace=0.45)
+        return to_svg(arrange(fig, wspace=0.45), "bars")
 
 
 def overlay_figure(results: Sequence[LifeResult]) -> str:
     """Force–deflection lines over each duty and the largest |ε1| at the outer faces along the span."""
     with matplotlib.rc_context(STYLE):
-        fig, (a1, a2) = _subplots((9.5, 3.6), 1, 2)
+        fig, (a1, a2) = figure_with_axes((9.5, 3.6), 1, 2)
         for i, (r, label) in enumerate(zip(results, _labels(results))):
             colour = PALETTE[i % len(PALETTE)]
             fd = force_deflection(r)
@@ -147,7 +148,7 @@ def overlay_figure(results: Sequence[LifeResult]) -> str:
         a2.set_ylabel("largest |ε1| at the faces [%]")
         a2.set_title("fibre-strain envelope along the span")
         a1.legend(loc="upper left")
-        return _svg(fig, "overlay", wspace=0.3)
+        return to_svg(arrange(fig, wspace=0.3), "overlay")
 
 
 def comparison_html(table: pd.DataFrame, results: Sequence[LifeResult], duty: str = OWN_DUTY) -> str:

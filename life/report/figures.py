@@ -1,0 +1,345 @@
+"""The design-review report's figures, each a function of the estimate that returns a matplotlib Figure.
+
+Read top to bottom: layup, force–deflection, strain envelope, through-thickness, duty, fatigue curve, damage,
+then the registry ``FIGURE_MAKERS`` (name → maker of (result, cycles, locations)) in the report's order. Each
+figure is drawn in the shared style (``flexcycle.report.style``) with fixed margins; turning it into SVG is the
+page's business (``flexcycle.report.page``).
+"""
+from __future__ import annotations
+
+from collections.abc import Callable
+
+import matplotlib
+import numpy as np
+import pandas as pd
+from matplotlib.collections import LineCollection
+from matplotlib.colors import LogNorm
+from matplotlib.figure import Figure
+from matplotlib.patches import Rectangle
+
+from flexcycle.estimate import LifeResult
+from flexcycle.fatigue.damage import FACES, FIRST_LOAD_FAILURE, cycle_lives
+from flexcycle.fatigue.meanstress import (
+    gerber_amplitude_at_zero_mean,
+    gerber_amplitude_on_ray,
+    goodman_amplitude_at_zero_mean,
+    goodman_amplitude_on_ray,
+    mean_ratio,
+)
+from flexcycle.report.data import (
+    critical_index,
+    cycles_of_table,
+    drive_unit,
+    drop_positions,
+    force_deflection,
+    peak_force,
+    span_envelope,
+)
+from flexcycle.report.style import CRITICAL_COLOUR, DROP_COLOUR, PALETTE, STYLE, arrange, figure_with_axes
+from flexcycle.spectra.streaming import minmax_envelope
+
+
+def _mark_drops(ax, result: LifeResult, label: bool = True) -> None:
+    """Dashed vertical lines at the ply drops (x in mm); the first labelled "ply drop" when ``label``."""
+    for k, x in enumerate(drop_positions(result)):
+        ax.axvline(x * 1e3, color=DROP_COLOUR, lw=0.9, ls=(0, (4, 3)), label="ply drop" if (label and k == 0) else None)
+
+
+def figure_layup(result: LifeResult) -> Figure:
+    """Side view of the stack along the span (each ply to its drop) and the planform (width taper)."""
+    beam = result.design.beam
+    L = beam.length * 1e3
+    materials = list(dict.fromkeys(p.material.name for p in beam.plies))
+    colour = {name: PALETTE[i % len(PALETTE)] for i, name in enumerate(materials)}
+    with matplotlib.rc_context(STYLE):
+        fig, (a1, a2) = figure_with_axes((7.5, 4.6), 2, 1, sharex=True, gridspec_kw={"height_ratios": [3, 1.4]})
+        z = 0.0
+        for _k, p in enumerate(beam.plies, start=1):
+            end = L if p.ends_at is None else p.ends_at * 1e3
+            shade = 0.95 if p.angle % 180 == 0 else 0.55
+            a1.add_patch(Rectangle((0, z), end, p.thickness * 1e3, facecolor=colour[p.material.name], alpha=shade,
+                                   edgecolor="white", lw=0.6))
+            if p.ends_at is not None:
+                a1.plot([end, end], [z, z + p.thickness * 1e3], color="k", lw=1.2)
+            z += p.thickness * 1e3
+        a1.set_xlim(-0.02 * L, 1.02 * L)
+        a1.set_ylim(-0.05 * z, 1.05 * z)
+        a1.set_ylabel("height from the tension face [mm]")
+        a1.set_title("stack along the span (thickness exaggerated); pale = off-axis ply")
+        for name in materials:
+            a1.add_patch(Rectangle((0, 0), 0, 0, facecolor=colour[name], label=name))
+        a1.text(0.99, 0.02, "tension face under positive drive ↓", transform=a1.transAxes, ha="right", va="bottom",
+                fontsize=7.5, color="#555")
+        a1.legend(loc="lower right", bbox_to_anchor=(1.0, 1.06), ncol=min(3, len(materials)))
+        _mark_drops(a1, result, label=False)
+        x = np.linspace(0, L, 50)
+        half = beam.width(x / 1e3) * 1e3 / 2
+        a2.fill_between(x, -half, half, color=PALETTE[2], alpha=0.35, lw=0)
+        a2.plot(x, half, color=PALETTE[2]), a2.plot(x, -half, color=PALETTE[2])
+        a2.set_ylabel("width [mm]")
+        a2.set_xlabel("distance from the root x [mm]")
+        a2.set_title("planform", fontsize=9)
+        _mark_drops(a2, result, label=False)
+        return arrange(fig, top=0.6, hspace=0.35)
+
+
+def figure_force_deflection(result: LifeResult) -> Figure:
+    """(a) Force against load-point deflection over the duty's range, the energy at the peak drive shaded."""
+    fd = force_deflection(result)
+    lo, hi = result.design.duty.extremes
+    fpd, C = result.force_per_drive, result.response.compliance
+    peak = peak_force(result)
+    with matplotlib.rc_context(STYLE):
+        fig, ax = figure_with_axes((6.2, 3.6))
+        ax.plot(fd.deflection * 1e3, fd.force, color=PALETTE[0], label=f"k = {result.response.stiffness / 1e3:.4g} N/mm")
+        f_fill = np.linspace(0.0, peak, 50)
+        ax.fill_between(f_fill * C * 1e3, 0, f_fill, color=PALETTE[3], alpha=0.35,
+                        label=f"stored at the peak drive: U = {result.storage.energy:.4g} J")
+        for d in sorted({lo, hi}):
+            ax.plot(d * fpd * C * 1e3, d * fpd, "o", color=PALETTE[1], ms=5)
+        ax.plot([], [], "o", color=PALETTE[1], ms=5, label="duty extremes")
+        ax.axhline(0, color="#999", lw=0.6), ax.axvline(0, color="#999", lw=0.6)
+        ax.set_xlabel("load-point deflection δ [mm]")
+        ax.set_ylabel("load-point force F [N]")
+        ax.set_title("force–deflection over the duty (linear theory)")
+        ax.legend(loc="upper left")
+        return arrange(fig)
+
+
+def figure_strain_envelope(result: LifeResult) -> Figure:
+    """(b) Fibre strain ε1 along the span at both outer faces, over the whole duty; drops and critical marked."""
+    env = span_envelope(result)
+    c = result.critical
+    x = env.x * 1e3
+    with matplotlib.rc_context(STYLE):
+        fig, ax = figure_with_axes((7.5, 3.6))
+        ax.fill_between(x, env.bottom[:, 0] * 100, env.bottom[:, 1] * 100, color=PALETTE[0], alpha=0.35, lw=0)
+        ax.plot(x, env.bottom[:, 1] * 100, color=PALETTE[0], lw=1.2, label="bottom face (ply 1 side)")
+        ax.plot(x, env.bottom[:, 0] * 100, color=PALETTE[0], lw=1.2)
+        ax.fill_between(x, env.top[:, 0] * 100, env.top[:, 1] * 100, color=PALETTE[2], alpha=0.30, lw=0)
+        ax.plot(x, env.top[:, 0] * 100, color=PALETTE[2], lw=1.2, ls="--", label="top face")
+        ax.plot(x, env.top[:, 1] * 100, color=PALETTE[2], lw=1.2, ls="--")
+        ax.axhline(0, color="#999", lw=0.6)
+        _mark_drops(ax, result)
+        ax.axvline(c.x_m * 1e3, color=CRITICAL_COLOUR, lw=1.4, label=f"critical: {c.mode}, ply {c.ply}, {c.face} face")
+        ax.set_xlabel("distance from the root x [mm]")
+        ax.set_ylabel("fibre strain ε1 [%]")
+        ax.set_title("fibre-strain envelope along the span over the duty (band: min to max)")
+        ax.legend(loc="best")
+        return arrange(fig)
+
+
+def figure_through_thickness(result: LifeResult) -> Figure:
+    """(c) Ply-axis strain and stress through the thickness at the critical station, at the peak drive."""
+    resp, c = result.response, result.critical
+    peak = peak_force(result)
+    k = c.station
+    present = np.flatnonzero(resp.present[k])
+    with matplotlib.rc_context(STYLE):
+        fig, (a1, a2) = figure_with_axes((7.5, 4.0), 1, 2, sharey=True)
+        z = resp.z[k, present] * 1e3  # (ply, face): each ply a straight segment between its faces
+        for ax, field, factor in ((a1, resp.strain_12, peak * 100), (a2, resp.stress_12, peak / 1e6)):
+            for comp, colour, width in ((0, PALETTE[0], 1.6), (1, PALETTE[3], 1.6), (2, PALETTE[4], 1.0)):
+                values = field[k, present, :, comp] * factor
+                ax.add_collection(LineCollection(np.stack([values, z], axis=-1), colors=colour, linewidths=width))
+            ax.autoscale_view()
+        for ax in (a1, a2):
+            left, right = ax.get_xlim()
+            ax.hlines(np.unique(z.ravel()), left, right, colors="#c9c3b5", lw=0.5, zorder=1)
+            ax.set_xlim(left, right)
+            if c.station == k:
+                lo_z, hi_z = resp.z[k, c.ply - 1] * 1e3
+                ax.axhspan(lo_z, hi_z, color=CRITICAL_COLOUR, alpha=0.12)
+            ax.axvline(0, color="#999", lw=0.6)
+            ax.grid(axis="y", visible=False)
+        a1.plot([], [], color=PALETTE[0], label="ε1 / σ1 (fibre)")
+        a1.plot([], [], color=PALETTE[3], label="ε2 / σ2 (transverse)")
+        a1.plot([], [], color=PALETTE[4], lw=1.0, label="γ12 / τ12 (shear)")
+        a1.fill_between([], [], color=CRITICAL_COLOUR, alpha=0.12, label=f"critical ply {c.ply}")
+        a1.legend(loc="best")
+        a1.set_xlabel("ply-axis strain [%]")
+        a1.set_ylabel("z from the mid-plane [mm] (thin lines: ply boundaries)")
+        a2.set_xlabel("ply-axis stress [MPa]")
+        a1.set_title(f"at x = {c.x_m * 1e3:.1f} mm, peak drive force {peak:.4g} N")
+        return arrange(fig, wspace=0.08)
+
+
+def figure_duty(result: LifeResult, cycles: pd.DataFrame) -> Figure:
+    """(d) The drive history (min/max envelope of at most 2000 bins) and the rainflow matrix (range × mean)."""
+    duty = result.design.duty
+    unit, scale = drive_unit(duty.drive)
+    rng = (cycles["max"] - cycles["min"]).to_numpy() * scale
+    mean = 0.5 * (cycles["max"] + cycles["min"]).to_numpy() * scale
+    count = cycles["count"].to_numpy(float)
+    with matplotlib.rc_context(STYLE):
+        env = minmax_envelope(duty.signal) if duty.signal is not None else duty.trace  # a long history: its streamed envelope
+        if env is not None:
+            samples = duty.signal.size if duty.signal is not None else duty.trace.samples
+            fig, (a0, ax) = figure_with_axes((7.5, 5.6), 2, 1, gridspec_kw={"height_ratios": [1, 1.5]})
+            a0.fill_between(env.start, env.lo * scale, env.hi * scale, color=PALETTE[0], lw=0.4, step="post",
+                            edgecolor=PALETTE[0], rasterized=True)  # thousands of vertices: drawn as one image
+            a0.set_xlim(0, samples)
+            a0.set_xlabel("sample number in one block")
+            a0.set_ylabel(f"drive [{unit}]")
+            how = "every sample" if env.start.size == samples else f"min/max of {env.start.size} bins"
+            a0.set_title(f"drive history of one block ({samples} samples; {how})")
+        else:
+            fig, ax = figure_with_axes((7.5, 3.8))
+        nb = 24
+        r_edges = np.linspace(0.0, max(rng.max(), 1e-12) * 1.0001, nb + 1)
+        m_lo, m_hi = mean.min(), mean.max()
+        pad = max(m_hi - m_lo, rng.max(), 1e-12) * 0.02
+        m_edges = np.linspace(m_lo - pad, m_hi + pad, nb + 1)
+        H, _, _ = np.histogram2d(mean, rng, bins=[m_edges, r_edges], weights=count)
+        H = np.where(H > 0, H, np.nan)
+        mesh = ax.pcolormesh(m_edges, r_edges, H.T, cmap="YlGnBu", norm=LogNorm(vmin=np.nanmin(H), vmax=np.nanmax(H)),
+                             shading="flat", edgecolors="white", linewidth=0.3, rasterized=True)
+        fig.colorbar(mesh, ax=ax, label="cycles per block")
+        ax.set_xlabel(f"cycle mean [{unit}]")
+        ax.set_ylabel(f"cycle range [{unit}]")
+        ax.set_title(f"rainflow matrix: {float(count.sum()):.6g} cycles per block")
+        ax.grid(False)
+        return arrange(fig, right=0.4, hspace=0.45)
+
+
+def _equivalent_amplitude(model, sa: np.ndarray, sm: np.ndarray) -> np.ndarray:
+    """Each cycle's amplitude moved to the curve's R by the model's own rule (flexcycle.fatigue.meanstress functions)."""
+    curve = model.curves[0]
+    if model.rule == "goodman":
+        return goodman_amplitude_on_ray(goodman_amplitude_at_zero_mean(sa, sm, model.Xt, model.Xc), curve.R, model.Xt, model.Xc)
+    if model.rule == "gerber":
+        return gerber_amplitude_on_ray(gerber_amplitude_at_zero_mean(sa, sm, model.Xt, model.Xc), curve.R, model.Xt, model.Xc)
+    return sa
+
+
+def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame) -> Figure:
+    """(e) The critical location's fatigue curve (or constant-life diagram) with the duty's cycles there."""
+    locs, d = result.locations, result.design
+    k = critical_index(result)
+    m = int(locs.model[k])
+    with matplotlib.rc_context(STYLE):
+        fig, ax = figure_with_axes((7.0, 4.0))
+        if m < 0:
+            ax.text(0.5, 0.5, f"no fatigue curve for {locs.mode[k]} at the critical location:\nchecked statically only",
+                    ha="center", va="center", transform=ax.transAxes)
+            ax.set_axis_off()
+            return arrange(fig)
+        model = locs.models[m]
+        strain = model.curves[0].basis == "strain"
+        ys, yunit = (100.0, "%") if strain else (1e-6, "MPa")
+        cyc = cycles_of_table(cycles)
+        s = locs.response[k] * result.force_per_drive * d.stress_factor
+        a, b = s * cyc.lo, s * cyc.hi
+        lo, hi = np.minimum(a, b), np.maximum(a, b)
+        sa, sm = 0.5 * (hi - lo), 0.5 * (hi + lo)
+        N = cycle_lives(locs, k, cyc, result.force_per_drive, d.stress_factor)
+        live = sa > 0
+        where = f"{locs.mode[k]}, ply {locs.ply[k] + 1}, {FACES[locs.face[k]]} face, x = {result.response.x[locs.station[k]] * 1e3:.1f} mm"
+        if model.rule == "cld":
+            order = sorted(model.curves, key=lambda cv: mean_ratio(cv.R))
+            for i, life in enumerate([1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9]):
+                amps = [float(cv.amplitude(np.array(life))) for cv in order]
+                xm = [-model.Xc] + [mean_ratio(cv.R) * a_ for cv, a_ in zip(order, amps)] + [model.Xt]
+                ya = [0.0] + amps + [0.0]
+                ax.plot(np.array(xm) * ys, np.array(ya) * ys, color=matplotlib.colormaps["copper"](i / 7), lw=1.1, label=f"N = {life:.0e}")
+            sc = ax.scatter(sm[live] * ys, sa[live] * ys, c=cyc.count[live], cmap="YlGnBu", norm=LogNorm(),
+                            s=14, edgecolors="#333", linewidths=0.3, zorder=3, rasterized=live.sum() > 500)
+            fig.colorbar(sc, ax=ax, label="cycles per block")
+            ax.set_xlabel(f"mean [{yunit}]")
+            ax.set_ylabel(f"amplitude [{yunit}]")
+            ax.set_title(f"constant-life diagram at the critical location ({where})")
+            ax.legend(loc="upper right", ncol=2)
+            return arrange(fig, right=0.4)
+        curve = model.curves[0]
+        seq = _equivalent_amplitude(model, sa, sm)
+        finite = np.isfinite(N) & (N > 0) & live
+        n_max = max(1e9, float(N[finite].max()) * 10 if finite.any() else 1e9)
+        grid = np.logspace(0, np.log10(n_max), 200)
+        ax.plot(grid, curve.amplitude(grid) * ys, color=PALETTE[0], lw=2,
+                label=f"{curve.form} curve at R = {curve.R:g}" + (f", limit {curve.limit * ys:.3g} {yunit}" if curve.limit else ""))
+        order = np.argsort(-seq)
+        cum = np.cumsum(cyc.count[order])
+        ax.step(cum, seq[order] * ys, where="post", color=PALETTE[3], lw=1.3,
+                label="duty: cycles per block at or above the amplitude")
+        if finite.any():
+            dmg = cyc.count[finite] / N[finite]
+            ax.scatter(N[finite], seq[finite] * ys, s=10 + 60 * dmg / dmg.max(), color=PALETTE[1], alpha=0.8, zorder=3,
+                       label="each counted cycle at its life (size: damage)", rasterized=finite.sum() > 500)
+        safe = live & np.isinf(N)
+        if safe.any():
+            ax.scatter(np.full(safe.sum(), n_max), seq[safe] * ys, marker="|", color="#777", s=30,
+                       label="cycles below the fatigue limit (no damage)", rasterized=safe.sum() > 500)
+        broken = live & (N <= 0)
+        if broken.any():
+            ax.scatter(np.full(broken.sum(), FIRST_LOAD_FAILURE), seq[broken] * ys, marker="x", color=CRITICAL_COLOUR,
+                       label="cycles past the static strength")
+        ax.set_xscale("log")
+        ax.set_xlim(0.4, n_max * 1.5)
+        ax.set_ylim(bottom=0)
+        ax.set_xlabel("cycles N (to failure for the curve; cumulative count for the duty)")
+        ax.set_ylabel(f"amplitude at R = {curve.R:g} [{yunit}]")
+        ax.set_title(f"fatigue curve at the critical location ({where})", fontsize=9)
+        ax.legend(loc="upper right")
+        return arrange(fig)
+
+
+def figure_damage(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame) -> Figure:
+    """(f) Damage per block along the span (largest per mode at each station) and by drive range at the critical location."""
+    d = result.design
+    unit, scale = drive_unit(d.duty.drive)
+    with matplotlib.rc_context(STYLE):
+        fig, (a1, a2) = figure_with_axes((7.5, 5.8), 2, 1)
+        drawn = False
+        for mode, group in locations.groupby("mode"):
+            per = group.groupby("x_m")["damage_per_block"].max()
+            if (per > 0).any():
+                a1.semilogy(per.index * 1e3, per.where(per > 0), marker=".", ms=4, label=mode)
+                drawn = True
+        if drawn:
+            top = max(float(locations["damage_per_block"].max()), d.miner_limit)
+            a1.set_ylim(top * 1e-9, top * 5)  # nine decades: smaller damage is round-off of a zero component
+        else:
+            a1.text(0.5, 0.5, "no location takes fatigue damage", ha="center", va="center", transform=a1.transAxes)
+        _mark_drops(a1, result)
+        a1.axvline(result.critical.x_m * 1e3, color=CRITICAL_COLOUR, lw=1.2, label="critical station")
+        a1.axhline(d.miner_limit, color="#555", lw=0.8, ls=":", label=f"Miner limit {d.miner_limit:g}")
+        a1.set_xlabel("distance from the root x [mm]")
+        a1.set_ylabel("damage per block")
+        a1.set_title("damage along the span (largest of each mode)")
+        a1.legend(loc="best", ncol=2)
+        cyc = cycles_of_table(cycles)
+        k = critical_index(result)
+        N = cycle_lives(result.locations, k, cyc, result.force_per_drive, d.stress_factor)
+        dmg = np.where(N > 0, cyc.count / np.where(N > 0, N, 1.0), cyc.count / FIRST_LOAD_FAILURE)
+        rng = (cyc.hi - cyc.lo) * scale
+        edges = np.linspace(0.0, max(rng.max(), 1e-12) * 1.0001, 26)
+        per_bin, _ = np.histogram(rng, bins=edges, weights=dmg)
+        counts, _ = np.histogram(rng, bins=edges, weights=cyc.count)
+        total = per_bin.sum()
+        share = per_bin / total * 100 if total > 0 else per_bin
+        a2.bar(edges[:-1], share, width=np.diff(edges), align="edge", color=PALETTE[1], alpha=0.85,
+               edgecolor="white", label="share of the damage [%]")
+        a2.set_xlabel(f"drive range of the cycle [{unit}]")
+        a2.set_ylabel("share of the damage [%]")
+        a3 = a2.twinx()
+        a3.spines["right"].set_visible(True)
+        a3.step(edges[:-1], np.where(counts > 0, counts, np.nan), where="post", color=PALETTE[2], lw=1.2)
+        a3.set_yscale("log")
+        a3.set_ylabel("cycles per block (line)", color=PALETTE[2])
+        a3.grid(False)
+        a2.set_title("damage by cycle range at the critical location")
+        return arrange(fig, right=0.7, hspace=0.45)
+
+
+# The report's figures in their order, each drawn from (result, cycles, locations).
+FIGURE_MAKERS: dict[str, Callable[[LifeResult, pd.DataFrame, pd.DataFrame], Figure]] = {
+    "layup": lambda result, cycles, locations: figure_layup(result),
+    "duty": lambda result, cycles, locations: figure_duty(result, cycles),
+    "force-deflection": lambda result, cycles, locations: figure_force_deflection(result),
+    "strain-envelope": lambda result, cycles, locations: figure_strain_envelope(result),
+    "through-thickness": lambda result, cycles, locations: figure_through_thickness(result),
+    "fatigue-curve": lambda result, cycles, locations: figure_fatigue_curve(result, cycles),
+    "damage": lambda result, cycles, locations: figure_damage(result, cycles, locations),
+}
+FIGURES = tuple(FIGURE_MAKERS)
+

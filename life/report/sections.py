@@ -1,0 +1,334 @@
+"""The design-review report's HTML sections, in reading order: identification, inputs, method and
+assumptions, results, sizing, warnings, cautions, review and sign-off; with the small HTML and number
+helpers they share. Every string that comes from the user (title, material names, file names, warnings that
+quote them) goes through ``escape_html``; the figures come in already drawn, as inline SVG by name.
+"""
+from __future__ import annotations
+
+import hashlib
+import html
+from collections.abc import Mapping, Sequence
+from importlib import metadata
+from pathlib import Path
+
+import numpy as np
+import pandas as pd
+
+from flexcycle.caution import CAUTION
+from flexcycle.estimate import LifeResult
+from flexcycle.report.data import drive_unit, drop_positions
+from flexcycle.report.texts import CAUTIONS, LIMITS, METHODS, RULE_NAMES
+
+# ---------------------------------------------------------------------------------------------
+# Small helpers
+
+
+def escape_html(value) -> str:
+    """``str(value)`` with the HTML markup characters escaped (&, <, >, quotes)."""
+    return html.escape(str(value))
+
+
+def figure_html(svg: str, number: str, caption: str) -> str:
+    """A numbered <figure> holding an inline SVG element and its caption."""
+    return (f'<figure id="fig-{number}">{svg}<figcaption><b>Figure {number}.</b> {escape_html(caption)}'
+            "</figcaption></figure>")
+
+
+def table_html(rows, header=None, cls: str = "") -> str:
+    """An HTML table of the rows (each a sequence of cells), with an optional header row and CSS class."""
+    out = [f'<table class="{cls}">' if cls else "<table>"]
+    if header:
+        out.append("<tr>" + "".join(f"<th>{escape_html(h)}</th>" for h in header) + "</tr>")
+    for row in rows:
+        out.append("<tr>" + "".join(f"<td>{escape_html(c)}</td>" for c in row) + "</tr>")
+    out.append("</table>")
+    return "\n".join(out)
+
+
+def quantity(value: float | None, unit: str = "", scale: float = 1.0, digits: int = 4) -> str:
+    """The report's one number format: ``value × scale`` to ``digits`` significant digits, then the unit;
+    None (no bound) is "unbounded"."""
+    if value is None:
+        return "unbounded"
+    return f"{value * scale:.{digits}g} {unit}".strip()
+
+
+def life_text(value: float | None, unit: str) -> str:
+    """A life in ``unit`` (cycles, blocks, days) in words where it has no number: unbounded, or zero."""
+    if value is None:
+        return "unbounded (no damaging cycle)"
+    if value == 0:
+        return f"0 {unit} (fails at first loading)"
+    return quantity(value, unit, digits=3)
+
+
+def file_sha256(path: Path | None) -> str:
+    """The SHA-256 of the file's bytes in hex, or a dash when there is no file or it cannot be read."""
+    if path is None:
+        return "—"
+    try:
+        return hashlib.sha256(Path(path).read_bytes()).hexdigest()
+    except OSError:
+        return "— (file not readable when the report was written)"
+
+
+def tool_version() -> str:
+    """flexcycle's installed version."""
+    try:
+        return metadata.version("flexcycle")
+    except metadata.PackageNotFoundError:
+        return "unknown (not installed)"
+
+
+def stack_rows(plies) -> list[tuple]:
+    """One row per run of identical consecutive plies: numbers (count), material, angle, thickness, drop."""
+    runs: list[list] = []  # [first, last, cells]
+    for k, p in enumerate(plies, start=1):
+        cells = (p.material.name, f"{p.angle:g}", f"{p.thickness * 1e3:.3f}",
+                 "—" if p.ends_at is None else f"{p.ends_at * 1e3:g}")
+        if runs and runs[-1][2] == cells:
+            runs[-1][1] = k
+        else:
+            runs.append([k, k, cells])
+    return [(f"{a}" if a == b else f"{a}–{b} ({b - a + 1})",) + cells for a, b, cells in runs]
+
+
+# ---------------------------------------------------------------------------------------------
+# Sections
+
+def section_identification(result: LifeResult, stamp: str) -> str:
+    d = result.design
+    profile = d.duty.profile_path
+    rows = [
+        ("title", d.title),
+        ("date", stamp),
+        ("tool", f"flexcycle {tool_version()}"),
+        ("design file", d.path.name if d.path else "— (built in memory)"),
+        ("design file SHA-256", file_sha256(d.path)),
+        ("duty profile", profile.name if profile else "block table in the design file"),
+        ("profile SHA-256", (d.duty.profile_sha256 or file_sha256(profile)) if profile else "— (no separate file)"),
+    ]
+    c, s = result.critical, result.summary()
+    ply = d.beam.plies[c.ply - 1]
+    glance = (f"Life {life_text(s['life_cycles'], 'cycles')} = {life_text(s['life_blocks'], 'blocks of the duty')}"
+              + (f" = {life_text(s['life_days'], 'days')}" if d.duty.blocks_per_day else "")
+              + f"; first failure: {c.mode}, ply {c.ply} ({ply.material.name}, {ply.angle:g}°), {c.face} face, "
+              f"x = {c.x_m * 1e3:.1f} mm; static reserve {s['static_reserve']:.3g}; "
+              f"{len(result.warnings)} warning{'s' if len(result.warnings) != 1 else ''}.")
+    return f"""<section id="identification">
+<h1>Design review: {escape_html(d.title)}</h1>
+<p class="sub">Fatigue-life and stored-energy estimate of a flexing composite beam, written by flexcycle.</p>
+<div class="glance"><b>Answer at a glance.</b> {escape_html(glance)}</div>
+<h2>1. Identification</h2>
+{table_html(rows, cls="kv")}
+</section>"""
+
+
+def _material_value(key: str, value) -> str:
+    if value is None:
+        return "—"
+    if key == "density":
+        return f"{value:g} kg/m³"
+    if key == "thickness":
+        return f"{value * 1e3:g} mm"
+    if key in ("nu12",):
+        return f"{value:g}"
+    if key.startswith("eps"):
+        return f"{value * 100:.3g} %"
+    if key.startswith(("E", "G")):
+        return f"{value / 1e9:.4g} GPa"
+    return f"{value / 1e6:.4g} MPa"
+
+
+def _materials(result: LifeResult) -> str:
+    out = []
+    for m in result.design.materials.values():
+        rows = [(key, _material_value(key, getattr(m, key, None)), src) for key, src in m.sources.items()]
+        out.append(f"<h4>{escape_html(m.name)} <span class=\"kind\">({escape_html(m.kind)})</span></h4><p>{escape_html(m.description)}</p>")
+        out.append(table_html(rows, header=("value", "", "source"), cls="small"))
+    return "\n".join(out)
+
+
+def section_inputs(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, svg: Mapping[str, str]) -> str:
+    d = result.design
+    beam, duty = d.beam, d.duty
+    unit, scale = drive_unit(duty.drive)
+    width = (f"{beam.width_root * 1e3:g} mm" if beam.width_root == beam.width_tip
+             else f"{beam.width_root * 1e3:g} mm at the root → {beam.width_tip * 1e3:g} mm")
+    part = [("support", beam.support), ("span", f"{beam.span * 1e3:g} mm"), ("width", width),
+            ("section model", beam.section), ("laminate thickness at the root", f"{sum(p.thickness for p in beam.plies) * 1e3:.3f} mm"),
+            ("plies", str(len(beam.plies))), ("stations", str(result.response.x.size))]
+    if beam.load_spacing:
+        part.append(("load spacing", f"{beam.load_spacing * 1e3:g} mm"))
+    drops = drop_positions(result)
+    part.append(("ply drops", ", ".join(f"{x * 1e3:g} mm" for x in drops) if drops else "none"))
+    lo, hi = duty.extremes
+    duty_rows = [
+        ("drive", f"{duty.drive} at the load point"),
+        ("source", duty.source),
+        ("cycles per block", f"{duty.cycles.n_total:g}"),
+        ("drive range", f"{lo * scale:.4g} … {hi * scale:.4g} {unit}"),
+        ("blocks per day", f"{duty.blocks_per_day:g}" if duty.blocks_per_day else "not given (no life in days)"),
+        ("residue", duty.residue if duty.signal is not None else "— (block table)"),
+        ("cycles.csv", cycle_note),
+    ]
+    top = cycles.assign(range=cycles["max"] - cycles["min"]).sort_values("range", ascending=False).head(10)
+    cyc_rows = [(f"{r['min'] * scale:.4g}", f"{r['max'] * scale:.4g}", f"{r['range'] * scale:.4g}", f"{r['count']:g}",
+                 f"{r['energy_j']:.4g}") for _, r in top.iterrows()]
+    return f"""<section id="inputs">
+<h2>2. Inputs</h2>
+<h3>Beam and support</h3>
+{table_html(part, cls="kv")}
+<h3>Ply stack (from the tension face under positive drive)</h3>
+{table_html(stack_rows(beam.plies), header=("plies (count)", "material", "angle [°]", "thickness [mm]", "ends at [mm]"))}
+{figure_html(svg["layup"], "1", "The layup drawn along the span: each ply runs from the root to its drop (black end line); "
+         "thickness is exaggerated. Below, the planform: the width along the span.")}
+<h3>Materials and the source of every value</h3>
+{_materials(result)}
+<h3>Duty</h3>
+{table_html(duty_rows, cls="kv")}
+{figure_html(svg["duty"], "2", "The duty: one block of the drive history (decimated to a min/max envelope when long) "
+         "and its rainflow matrix, cycles per block by range and mean (ASTM E1049-85 counting).")}
+<h4>Largest counted cycles</h4>
+{table_html(cyc_rows, header=(f"min [{unit}]", f"max [{unit}]", f"range [{unit}]", "count", "energy [J]"), cls="small")}
+</section>"""
+
+
+def _curve_text(curve) -> str:
+    slope = f"m = {curve.m:g}" if curve.form == "power" else f"b = {curve.b:g} per decade"
+    basis = "strain" if curve.basis == "strain" else "stress"
+    s1 = f"{curve.S1 * 100:.3g} %" if basis == "strain" else f"{curve.S1 / 1e6:.4g} MPa"
+    extra = ""
+    if curve.limit is not None:
+        extra += ", limit " + (f"{curve.limit * 100:.3g} %" if basis == "strain" else f"{curve.limit / 1e6:.4g} MPa")
+    if curve.knee is not None:
+        extra += f", knee {curve.knee:.3g} cycles"
+    return f"{curve.form}, {basis} basis, R = {curve.R:g}, S1 = {s1}, {slope}{extra}; source: {curve.source}"
+
+
+def section_method(result: LifeResult) -> str:
+    d = result.design
+    locs = result.locations
+    curves = []
+    seen = set()
+    for m in sorted(set(int(v) for v in locs.model if v >= 0)):
+        rows = np.flatnonzero(locs.model == m)
+        j = rows[0]
+        key = (d.beam.plies[locs.ply[j]].material.name, locs.family[j])
+        if key in seen:
+            continue
+        seen.add(key)
+        model = locs.models[m]
+        for cv in model.curves:
+            curves.append((key[0], key[1], model.rule, _curve_text(cv)))
+    choices = [
+        ("theory", "linear elastic, small deflection (ASTM D790 / D6272 consistent); every local stress is the drive "
+                   "times a response per unit force, so the drive is counted once"),
+        ("section model", "narrow beam (free anticlastic curvature, 1/d11)" if d.beam.section == "beam"
+         else "plate (cylindrical bending)"),
+        ("cycle counting", "rainflow, ASTM E1049-85; residue "
+         + ("as half cycles" if d.duty.residue == "half" else "closed: the block as one of a repeating duty")),
+        ("mean-stress rule", RULE_NAMES.get(d.mean_stress, d.mean_stress)),
+        ("damage rule", f"Palmgren–Miner linear damage sum; failure at D = {d.miner_limit:g} (Miner limit)"),
+        ("stress factor", f"{d.stress_factor:g} on every local stress and strain, fatigue and static"),
+    ]
+    return f"""<section id="method">
+<h2>3. Method and assumptions</h2>
+{table_html(choices, cls="kv")}
+<h3>Fatigue curves used</h3>
+{table_html(curves, header=("material", "direction", "rule", "curve")) if curves else "<p>No fatigue curve applies: every location is checked statically only.</p>"}
+<h3>Models and their sources</h3>
+{table_html(METHODS, header=("step", "method"))}
+<h3>Limits of the models</h3>
+<ul>{''.join(f"<li>{escape_html(x)}</li>" for x in LIMITS)}</ul>
+</section>"""
+
+
+def section_results(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame, svg: Mapping[str, str]) -> str:
+    d, s, c = result.design, result.summary(), result.critical
+    ply = d.beam.plies[c.ply - 1]
+    life = [
+        ("life in cycles", life_text(s["life_cycles"], "cycles")),
+        ("life in blocks of the duty", life_text(s["life_blocks"], "blocks")),
+        ("life in days", life_text(s["life_days"], "days") + f" at {d.duty.blocks_per_day:g} blocks per day"
+         if d.duty.blocks_per_day else "— (no blocks_per_day given)"),
+        ("damage per block", f"{s['damage_per_block']:.3g} (Miner limit {d.miner_limit:g})"),
+        ("critical", f"{c.mode}, ply {c.ply} ({ply.material.name}, {ply.angle:g}°), {c.face} face, "
+                     f"x = {c.x_m * 1e3:.1f} mm, z = {c.z_m * 1e3:+.2f} mm"),
+    ]
+    static = [(name, "not checked" if v is None or not np.isfinite(v) else f"{v:.3g}",
+               "governs" if name == result.static.criterion else "") for name, v in result.static.by_criterion.items()]
+    st = result.static
+    figures = [
+        ("stiffness at the load point", quantity(s["stiffness_n_per_m"], "N/mm", scale=1e-3)),
+        ("mass", quantity(s["mass_kg"], "g", scale=1e3)),
+        ("peak fibre strain |ε1|", quantity(s["peak_strain"], "%", scale=100, digits=3)),
+        ("energy at the peak drive", quantity(s["peak_energy_j"], "J")),
+        ("energy in the largest cycle", quantity(s["cycle_energy_j"], "J")),
+        ("specific energy", quantity(s["specific_energy_j_per_kg"], "J/kg")),
+        ("energy-storage efficiency", f"{s['energy_efficiency']:.3f}"),
+    ]
+    worst = locations.sort_values("damage_per_block", ascending=False).head(10)
+    loc_rows = [(f"{r.x_m * 1e3:.1f}", r.ply, r.material, r.face, r["mode"], f"{r.amplitude:.4g}", f"{r['mean']:.4g}",
+                 f"{r.damage_per_block:.3g}") for _, r in worst.iterrows()]
+    return f"""<section id="results">
+<h2>4. Results</h2>
+<h3>Life and the critical place</h3>
+{table_html(life, cls="kv")}
+<h3>Static reserves (first-ply failure at the worst duty extreme)</h3>
+<p>Smallest reserve {st.reserve:.3g} by {escape_html(st.criterion)} at x = {st.x_m * 1e3:.1f} mm, ply {st.ply}
+({escape_html(st.place.mode)}), at the drive extreme {st.drive:g} (SI).</p>
+{table_html(static, header=("criterion", "reserve factor", ""), cls="small")}
+<h3>Stiffness, mass and energy</h3>
+{table_html(figures, cls="kv")}
+{figure_html(svg["force-deflection"], "3", "Force against load-point deflection over the duty's range; the shaded area is the "
+         "elastic energy stored at the peak drive, released at once if the part breaks.")}
+{figure_html(svg["strain-envelope"], "4", "Fibre strain along the span at the two outer faces, from the smallest to the largest "
+         "drive of the duty; dashed grey lines are ply drops, the red line is the critical station.")}
+{figure_html(svg["through-thickness"], "5", "Ply-axis strains and stresses through the thickness at the critical station at the "
+         "peak drive; thin lines are ply boundaries, the shaded band is the critical ply.")}
+{figure_html(svg["fatigue-curve"], "6", "The fatigue curve (or constant-life diagram) of the critical location with the "
+         "duty's cycles there, each moved to the curve's R by the mean-stress rule.")}
+{figure_html(svg["damage"], "7", "Miner damage per block along the span, and the share of the critical "
+         "location's damage by drive range of the cycles.")}
+<h3>Most damaged locations</h3>
+<p>Amplitude and mean of the largest cycle, in the basis of the location's curve (Pa or strain).</p>
+{table_html(loc_rows, header=("x [mm]", "ply", "material", "face", "mode", "amplitude", "mean", "damage/block"), cls="small")}
+</section>"""
+
+
+def section_sizing(sizing: Sequence[tuple[str, str, str]] | None) -> str:
+    """The rows of a sizing run (quantity, before, after), or nothing."""
+    if not sizing:
+        return ""
+    return f"""<section id="sizing">
+<h3>Sizing</h3>
+{table_html(sizing, header=("quantity", "before", "after"), cls="small")}
+</section>"""
+
+
+def section_warnings(result: LifeResult) -> str:
+    warn = "".join(f"<li>{escape_html(w)}</li>" for w in result.warnings) or "<li>none</li>"
+    return f'<section id="warnings"><h2>5. Warnings</h2><ul class="warn">{warn}</ul></section>'
+
+
+def section_cautions(result: LifeResult) -> str:
+    items = "".join(f"<li>{escape_html(x)}</li>" for x in CAUTIONS)
+    return f"""<section id="cautions"><h2>6. Cautions</h2>
+<div class="caution"><p><b>Caution.</b> {escape_html(CAUTION)}</p><ul>{items}</ul>
+<p>Peak stored energy of this part: {result.storage.energy:.4g} J.</p></div></section>"""
+
+
+def section_signoff() -> str:
+    rows = "".join(f"<tr><th>{role}</th><td></td><td></td><td></td></tr>"
+                   for role in ("prepared by", "reviewed by", "approved by"))
+    checks = "".join(f"<li>☐ {escape_html(x)}</li>" for x in (
+        "inputs checked against the drawing and the duty measurement",
+        "material values marked recalled or default replaced by tested data",
+        "warnings above read and resolved or accepted",
+        "prototype fatigue test plan agreed",
+    ))
+    return f"""<section id="signoff"><h2>7. Review and sign-off</h2>
+<ul class="checks">{checks}</ul>
+<table class="sign"><tr><th></th><th>name</th><th>signature</th><th>date</th></tr>{rows}</table>
+<p>Comments:</p><div class="comments"></div></section>"""
