@@ -12,8 +12,10 @@ import time
 
 import numpy as np
 
-from flexcycle.spectra.counting import merge_identical, rainflow_cycles, reversals
+from flexcycle.spectra.merging import merge_identical
 from flexcycle.spectra.profiles import bundled_profile, read_time_history
+from flexcycle.spectra.rainflow import rainflow_cycles
+from flexcycle.spectra.reversals import reversals
 
 N = 1_000_000  # samples
 

@@ -10,7 +10,7 @@ drift) plus sensor noise, quantised to the sensor's 0.01 mm — with a design fi
 example with its [duty] pointed at the file. Measured side by side in one run, for each size:
 
 - counting alone, in memory, the best of three runs each: the `rainflow` package (`extract_cycles` on the
-  samples as a list) against `flexcycle.spectra.counting.rainflow_cycles` (the same cycles, checked one by one), and their ratio;
+  samples as a list) against `flexcycle.spectra.rainflow.rainflow_cycles` (the same cycles, checked as a multiset), and their ratio;
 - the whole `flexcycle run` (the console script's code in a fresh process: start, read, count, estimate,
   report, files, exit) against a fresh process doing only `pandas.read_csv` of the same file plus the
   package's `extract_cycles`, the best of three each, and their ratio;
@@ -123,54 +123,46 @@ def _child(body: str) -> tuple[float, float, float]:
     return wall, float(inside), float(rss_kb) / 1024.0
 
 
-def counting(csv: Path) -> tuple[float, float, float, int]:
-    """Counting times on the samples in memory [s], each the best of three runs: the package, ours (order="any"),
-    ours in the package's order;
-    and the number of cycles. Ours are checked identical to the package's: one by one in its order, and
-    as a multiset of (min, max, count) for order="any"."""
+def counting(csv: Path) -> tuple[float, float, int]:
+    """Counting times on the samples in memory [s], each the best of three runs: the package and ours; and the
+    number of cycles. Ours are checked identical to the package's as a multiset of (min, max, count) rows (the
+    order of the rows carries no meaning)."""
     import pandas as pd
     import rainflow
 
-    from flexcycle.spectra.counting import rainflow_cycles
+    from flexcycle.spectra.rainflow import rainflow_cycles
 
     x = pd.read_csv(csv, comment="#")["deflection_mm"].to_numpy(dtype=float)
-    times, counted = {}, {}
-    for order in ("any", "counted"):  # ours first, before the package's millions of Python floats fill the heap
-        best = np.inf
-        for _ in range(3):  # best of three: the machine is shared
-            begin = time.perf_counter()
-            counted[order] = rainflow_cycles(x, order=order)
-            best = min(best, time.perf_counter() - begin)
-        times[order] = best
+    t_ours = np.inf
+    for _ in range(3):  # best of three: the machine is shared; ours first, before the package's Python floats
+        begin = time.perf_counter()
+        ours = rainflow_cycles(x)
+        t_ours = min(t_ours, time.perf_counter() - begin)
     samples = x.tolist()
     t_package = np.inf
     for _ in range(3):  # best of three for the package too
         begin = time.perf_counter()
         reference = list(rainflow.extract_cycles(samples))
         t_package = min(t_package, time.perf_counter() - begin)
-    for order, ours in counted.items():
-        start = np.array([r[3] for r in reference], dtype=np.intp)
-        end = np.array([r[4] for r in reference], dtype=np.intp)
-        lo, hi = np.minimum(x[start], x[end]), np.maximum(x[start], x[end])
-        count = np.array([r[2] for r in reference])
-        if order == "any":  # the same multiset: sort both by (lo, hi, count)
-            mine, theirs = np.lexsort((ours.count, ours.hi, ours.lo)), np.lexsort((count, hi, lo))
-            ours = type(ours)(ours.lo[mine], ours.hi[mine], ours.count[mine])
-            lo, hi, count = lo[theirs], hi[theirs], count[theirs]
-        if not (np.array_equal(ours.lo, lo) and np.array_equal(ours.hi, hi) and np.array_equal(ours.count, count)):
-            raise AssertionError(f"{csv.name}: the cycles ({order}) differ from the rainflow package's")
-    return t_package, times["any"], times["counted"], len(reference)
+    start = np.array([r[3] for r in reference], dtype=np.intp)
+    end = np.array([r[4] for r in reference], dtype=np.intp)
+    lo, hi = np.minimum(x[start], x[end]), np.maximum(x[start], x[end])
+    count = np.array([r[2] for r in reference])
+    mine, theirs = np.lexsort((ours.count, ours.hi, ours.lo)), np.lexsort((count, hi, lo))  # the same multiset
+    if not (np.array_equal(ours.lo[mine], lo[theirs]) and np.array_equal(ours.hi[mine], hi[theirs])
+            and np.array_equal(ours.count[mine], count[theirs])):
+        raise AssertionError(f"{csv.name}: the cycles differ from the rainflow package's")
+    return t_package, t_ours, len(reference)
 
 
-def counting_apart(csv: Path, tuned: bool) -> tuple[float, float, float, int]:
-    """`counting` in a fresh Python, its C allocator set as `flexcycle` sets its own (life.allocator) or left as
-    it starts: how the allocator reuses memory depends on what a process did before."""
-    args = [sys.executable, str(Path(__file__).resolve()), "--count", str(csv)] + (["--tuned"] if tuned else [])
+def counting_apart(csv: Path) -> tuple[float, float, int]:
+    """`counting` in a fresh Python: how memory is reused depends on what a process did before."""
+    args = [sys.executable, str(Path(__file__).resolve()), "--count", str(csv)]
     done = subprocess.run(args, cwd=REPO, env=dict(os.environ, PYTHONPATH=str(REPO)), capture_output=True, text=True)
     if done.returncode:
         raise RuntimeError(done.stderr)
     line = [ln for ln in done.stdout.splitlines() if ln.startswith("COUNT")][-1].split()
-    return float(line[1]), float(line[2]), float(line[3]), int(line[4])
+    return float(line[1]), float(line[2]), int(line[3])
 
 
 def main() -> None:
@@ -180,13 +172,8 @@ def main() -> None:
     parser.add_argument("--stream", type=float, default=None, help="also run flexcycle on this many samples (e.g. 1e8)")
     parser.add_argument("--keep", type=Path, default=None, help="folder for the generated files (kept between runs)")
     parser.add_argument("--count", type=Path, default=None, help=argparse.SUPPRESS)  # one counting run, in its own process
-    parser.add_argument("--tuned", action="store_true", help=argparse.SUPPRESS)
     args = parser.parse_args()
     if args.count:
-        if args.tuned:
-            from flexcycle import allocator
-
-            allocator.tune()
         print("COUNT", *counting(args.count))
         return
     # this tree's modules compiled to bytecode once, as `pip install` does for an installed flexcycle (with
@@ -206,27 +193,21 @@ def main() -> None:
         _, _, run_rss = child(RUN.format(design=str(design), out=str(folder / f"out-{size}")), repeats=1)
         ref_wall, ref_inside, ref_rss = child(REFERENCE.format(csv=str(csv)), repeats=3)
         _, _, memory_rss = child(IN_MEMORY.format(csv=str(csv)))
-        t_package, t_ours, t_ordered, n_cycles = counting_apart(csv, tuned=True)
-        _, t_untuned, _, _ = counting_apart(csv, tuned=False)
-        rows.append((size, n_cycles, t_package, t_ours, t_ordered, t_untuned, run_wall, ref_wall, run_rss, memory_rss,
-                     ref_rss))
+        t_package, t_ours, n_cycles = counting_apart(csv)
+        rows.append((size, n_cycles, t_package, t_ours, run_wall, ref_wall, run_rss, memory_rss, ref_rss))
     print(f"\nflexcycle scale benchmark ({os.cpu_count()} CPUs, Python {sys.version.split()[0]}); files in {folder}")
     print("counting [s], best of 3, each size in a fresh process: package = rainflow.extract_cycles; ours = "
-          "rainflow_cycles(order='any') with the allocator set as flexcycle sets it; ordered = in the package's "
-          "order; untuned = ours with the allocator left as it starts\nrun, read+ref [s]: fresh processes, best of 3;"
+          "rainflow_cycles\nrun, read+ref [s]: fresh processes, best of 3;"
           " peak memory [MB]: run, in-memory count (count_history keeping the signal), read+ref")
-    print(f"{'samples':>8} {'cycles':>8} | {'package':>7} {'ours':>6} {'ratio':>6} {'ordered':>7} {'ratio':>6} "
-          f"{'untuned':>7} {'ratio':>6} | {'run':>6} "
+    print(f"{'samples':>8} {'cycles':>8} | {'package':>7} {'ours':>6} {'ratio':>6} | {'run':>6} "
           f"{'read+ref':>8} {'ratio':>5} | {'run':>5} {'memory':>6} {'ref':>5} | {'run/sample':>11} {'marginal':>10}")
     first = rows[0]
-    for (size, n_cycles, t_package, t_ours, t_ordered, t_untuned, run_wall, ref_wall, run_rss, memory_rss,
-         ref_rss) in rows:
-        print(f"{size:>8.0e} {n_cycles:>8d} | {t_package:>7.2f} {t_ours:>6.3f} {t_package / t_ours:>5.1f}x "
-              f"{t_ordered:>7.3f} {t_package / t_ordered:>5.1f}x {t_untuned:>7.3f} {t_package / t_untuned:>5.1f}x | "
+    for size, n_cycles, t_package, t_ours, run_wall, ref_wall, run_rss, memory_rss, ref_rss in rows:
+        print(f"{size:>8.0e} {n_cycles:>8d} | {t_package:>7.2f} {t_ours:>6.3f} {t_package / t_ours:>5.1f}x | "
               f"{run_wall:>6.2f} {ref_wall:>8.2f} "
               f"{run_wall / ref_wall:>5.2f} | {run_rss:>5.0f} {memory_rss:>6.0f} {ref_rss:>5.0f} | "
               f"{run_wall / size * 1e6:>8.3f} µs "
-              + (f"{(run_wall - first[6]) / (size - first[0]) * 1e6:>7.3f} µs" if size > first[0] else f"{'':>10}"))
+              + (f"{(run_wall - first[4]) / (size - first[0]) * 1e6:>7.3f} µs" if size > first[0] else f"{'':>10}"))
     print("marginal: (run - run of the smallest) / (samples - samples of the smallest): the cost of each further "
           "sample, without start-up, report and mechanics")
     if args.stream:

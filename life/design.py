@@ -25,8 +25,9 @@ from flexcycle.mechanics.laminate import SECTIONS
 from flexcycle.mechanics.materials import Material, resolve_materials
 from flexcycle.mechanics.units import dimension_name, parse_quantity, unit_factor
 from flexcycle.spectra import errors as spectra_errors
-from flexcycle.spectra.counting import RESIDUE_MODES, Cycles
+from flexcycle.spectra.cycles import Cycles
 from flexcycle.spectra.profiles import block_table, bundled_profile, refuse_headerless
+from flexcycle.spectra.rainflow import RESIDUE_MODES
 from flexcycle.spectra.streaming import Envelope, count_history, refuse_constant
 
 BUNDLED_PREFIX = "bundled:"  # profile = "bundled:NAME" reads a demo profile shipped with flexcycle

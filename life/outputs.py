@@ -22,10 +22,11 @@ from flexcycle.fatigue.damage import FACES
 from flexcycle.mechanics.energy import cycle_energy
 from flexcycle.report.figures import FIGURES
 from flexcycle.report.page import figure_svgs, report_html
-from flexcycle.spectra.counting import Cycles, merge_identical
+from flexcycle.spectra.cycles import Cycles
+from flexcycle.spectra.merging import merge_identical
 
 if TYPE_CHECKING:  # flexcycle.sizing.sizing loads scipy.optimize (0.3 s): only `flexcycle size` needs it
-    from flexcycle.sizing.sizing import SizingAnswer
+    from flexcycle.sizing import SizingAnswer
 
 MAX_CYCLE_ROWS = 20_000  # beyond this many distinct cycles, cycles.csv holds them binned (said in the report)
 BIN_RESOLUTION = 1e-4  # bin width as a fraction of the largest |drive| when binning
@@ -154,7 +155,7 @@ def render(result: LifeResult, sizing: Sequence[tuple[str, str, str]] | None = N
 
 def sizing_json(answer: SizingAnswer) -> str:
     """sizing.json: the target, every step with its factor, the before/after table and both summaries."""
-    from flexcycle.sizing.sizing import sizing_rows
+    from flexcycle.sizing import sizing_rows
 
     def proposal(p) -> dict:
         return {"file": p.name, "steps": [{"what": st.what, "factor": st.factor, "note": st.note} for st in p.steps],

@@ -2,7 +2,7 @@
 
 A duty is given one of three ways, each turned into SI values here:
 - a time history read from a CSV file (one column of drive samples), later counted
-  by `flexcycle.spectra.counting.rainflow_cycles`;
+  by `flexcycle.spectra.rainflow.rainflow_cycles`;
 - a block table of (min, max, count) rows, already cycles;
 - a constant-amplitude duty (one block of identical cycles).
 
@@ -24,7 +24,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from .counting import Cycles
+from .cycles import Cycles
 from .errors import InputError
 
 COMMENT = "#"  # a line whose first character is this is a comment (common practice for CSV headers)

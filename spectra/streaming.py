@@ -3,9 +3,9 @@
 A measured duty can be far larger than memory (a day at 500 Hz is over 4·10⁷ samples). Here
 the drive column of a CSV file is read chunk by chunk (pandas' C parser, one column, float),
 each chunk is rainflow-counted with the residue carried to the next
-(`flexcycle.spectra.counting.count_chunk`), and the history is kept only as a min/max envelope for
+(`flexcycle.spectra.chunked.count_chunk`), and the history is kept only as a min/max envelope for
 plots. A history of at most ``keep_signal`` samples is also kept whole, and counted at once
-with `flexcycle.spectra.counting.rainflow_cycles` (the cycles in the reference package's order);
+with `flexcycle.spectra.rainflow.rainflow_cycles`;
 a longer one is counted in chunks, its identical cycles merged (the same cycles: the tests
 check it).
 
@@ -30,9 +30,12 @@ from pathlib import Path
 
 import numpy as np
 
-from .counting import OPEN, Cycles, _merged, close_count, count_chunk, hold, rainflow_cycles
+from .chunked import OPEN, close_count, count_chunk, hold
+from .cycles import Cycles
 from .errors import InputError
+from .merging import merge_parts
 from .profiles import COMMENT, read_time_history
+from .rainflow import rainflow_cycles
 
 CHUNK_SAMPLES = 1 << 20  # samples per chunk read: 8 MB of floats, a few times that in parser buffers
 ENVELOPE_BIN = 1 << 10  # samples per envelope bin while reading; CHUNK_SAMPLES is a multiple of it
@@ -316,7 +319,7 @@ def count_history(
     Parameters
     ----------
     path, column, scale, where : as `history_chunks`
-    residue : str — one of `flexcycle.spectra.counting.RESIDUE_MODES`, as in `rainflow_cycles`
+    residue : str — one of `flexcycle.spectra.rainflow.RESIDUE_MODES`, as in `rainflow_cycles`
     keep_signal : int — the history is kept whole (and counted at once) up to this many samples
     progress : Callable[[int, int], None] | None — called with (bytes read, file size) after each
         chunk; the library prints nothing
@@ -363,4 +366,4 @@ def count_history(
         return CountedHistory(rainflow_cycles(signal, residue), samples, signal, envelope, name, column,
                               digest.hexdigest())
     parts.append(close_count(state, residue))
-    return CountedHistory(_merged(parts), samples, None, envelope, name, column, digest.hexdigest())
+    return CountedHistory(merge_parts(parts), samples, None, envelope, name, column, digest.hexdigest())

@@ -13,7 +13,7 @@ from flexcycle.fatigue.damage import Locations, build_models, locations, miner_d
 from flexcycle.fatigue.meanstress import fatigue_model
 from flexcycle.mechanics.beam import Beam, Ply, respond
 from flexcycle.mechanics.materials import library
-from flexcycle.spectra.counting import Cycles
+from flexcycle.spectra.cycles import Cycles
 
 MPa = 1e6
 
@@ -154,7 +154,7 @@ def test_strain_basis_transverse_curve_sees_stress_over_modulus():
 
 from flexcycle.fatigue import damage as damage_module  # noqa: E402
 from flexcycle.fatigue.meanstress import RULES  # noqa: E402
-from flexcycle.spectra.counting import rainflow_cycles  # noqa: E402
+from flexcycle.spectra.rainflow import rainflow_cycles  # noqa: E402
 
 
 def _library_models(rule: str):

@@ -1,7 +1,7 @@
 """Tests of flexcycle.spectra.streaming: chunked reading of a CSV drive column, counting as it is read, the envelope.
 
 References: `flexcycle.spectra.profiles.read_time_history` (the exact reader: same values, same error messages,
-whose contents tests/test_profiles.py checks by hand); `flexcycle.spectra.counting.rainflow_cycles` on the whole
+whose contents tests/test_profiles.py checks by hand); `flexcycle.spectra.rainflow.rainflow_cycles` on the whole
 history (itself checked against the `rainflow` package, ASTM E1049-85) for the chunked count; hand
 calculations of min/max per bin for the envelope.
 """
@@ -12,9 +12,10 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from flexcycle.spectra.counting import merge_identical, rainflow_cycles
 from flexcycle.spectra.errors import InputError
+from flexcycle.spectra.merging import merge_identical
 from flexcycle.spectra.profiles import bundled_profile, read_time_history
+from flexcycle.spectra.rainflow import rainflow_cycles
 from flexcycle.spectra.streaming import ENVELOPE_BIN, count_history, history_chunks
 
 WHERE = "ride.toml [duty] profile"

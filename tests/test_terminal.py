@@ -19,7 +19,8 @@ from flexcycle.cli import app as cli
 from flexcycle.cli.terminal import cycle_text, summary_text
 from flexcycle.design import parse_design
 from flexcycle.estimate import CAUTION, estimate
-from flexcycle.spectra.counting import merge_identical, rainflow_cycles
+from flexcycle.spectra.merging import merge_identical
+from flexcycle.spectra.rainflow import rainflow_cycles
 
 GLASS = {
     "E1": "40 GPa", "E2": "10 GPa", "G12": "4 GPa", "nu12": 0.3, "density": "1900 kg/m^3",
@@ -254,7 +255,7 @@ def test_cli_count_prints_the_astm_table(tmp_path, monkeypatch, capsys):
 def test_sizing_text_is_a_before_after_table(tmp_path):
     """The sizing view lists the steps, then one line per row of sizing_rows with its before and after."""
     from flexcycle.cli.terminal import sizing_text
-    from flexcycle.sizing.sizing import plan, sizing_rows
+    from flexcycle.sizing import plan, sizing_rows
     doc = {"title": "t", "beam": {"support": "cantilever", "span": "200 mm", "width": "20 mm", "stations": 4},
            "material": {"g": GLASS}, "ply": [{"material": "g", "angle": 0, "thickness": "0.5 mm", "count": 10}],
            "duty": {"drive": "force", "cycles": [{"min": "-50 N", "max": "50 N", "count": 1000}]},

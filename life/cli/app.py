@@ -97,7 +97,7 @@ def size(
     from flexcycle.cli import terminal
     from flexcycle.design import load_design
     from flexcycle.outputs import render, sizing_json, write_files
-    from flexcycle.sizing.sizing import parse_rate, plan, sizing_rows
+    from flexcycle.sizing import parse_rate, plan, sizing_rows
 
     k = None if rate is None else parse_rate(rate)
     answer = plan(load_design(design), life, vary, k, taper)
@@ -132,8 +132,9 @@ def count(
     """Rainflow-count a time history (ASTM E1049-85) and print the cycle table."""
     from flexcycle.cli import terminal
     from flexcycle.mechanics.units import unit_factor
-    from flexcycle.spectra.counting import RESIDUE_MODES, merge_identical
+    from flexcycle.spectra.merging import merge_identical
     from flexcycle.spectra.profiles import refuse_headerless
+    from flexcycle.spectra.rainflow import RESIDUE_MODES
     from flexcycle.spectra.streaming import count_history, refuse_constant
 
     if residue not in RESIDUE_MODES:

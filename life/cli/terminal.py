@@ -14,10 +14,10 @@ from rich.table import Table
 from flexcycle.design import Design
 from flexcycle.estimate import CAUTION, LifeResult
 from flexcycle.mechanics.materials import Material
-from flexcycle.spectra.counting import Cycles
+from flexcycle.spectra.cycles import Cycles
 
 if TYPE_CHECKING:  # flexcycle.sizing.sizing loads scipy.optimize: only when a sizing answer is printed
-    from flexcycle.sizing.sizing import SizingAnswer
+    from flexcycle.sizing import SizingAnswer
 
 
 WIDTH = 100  # fixed console width: the same layout on a terminal, in a pipe and in tests
@@ -144,7 +144,7 @@ def comparison_text(table: pd.DataFrame, duty: str = "each design with its own d
 
 def sizing_text(answer: SizingAnswer) -> str:
     """The sizing answer: the steps, then a before/after table, then the sizing warnings."""
-    from flexcycle.sizing.sizing import sizing_rows
+    from flexcycle.sizing import sizing_rows
 
     lines = [f"sizing for a life of {answer.target_blocks:g} blocks of the duty"]
     lines += [f"  {st.what}: {st.note}" for st in answer.sized.steps]

@@ -20,7 +20,8 @@ from flexcycle.fatigue.curves import curve_from_mapping
 from flexcycle.fatigue.meanstress import FatigueModel, fatigue_model
 from flexcycle.mechanics.beam import BeamResponse
 from flexcycle.mechanics.materials import Material
-from flexcycle.spectra.counting import Cycles, merge_identical
+from flexcycle.spectra.cycles import Cycles
+from flexcycle.spectra.merging import merge_identical
 
 # Fatigue modes, the Material.fatigue table that holds each one's curves, and the ply-axis component.
 MODE_TABLES = {

@@ -9,7 +9,7 @@ import pandas as pd
 
 from flexcycle.estimate import LifeResult
 from flexcycle.fatigue.damage import FACES
-from flexcycle.spectra.counting import Cycles
+from flexcycle.spectra.cycles import Cycles
 
 
 def drive_unit(drive: str) -> tuple[str, float]:

@@ -23,7 +23,9 @@ import numpy as np
 import pytest
 import rainflow
 
-from flexcycle.spectra.counting import merge_identical, rainflow_cycles, reversals
+from flexcycle.spectra.merging import merge_identical
+from flexcycle.spectra.rainflow import rainflow_cycles
+from flexcycle.spectra.reversals import reversals
 
 ASTM_E1049_EXAMPLE = np.array([-2.0, 1.0, -3.0, 5.0, -1.0, 3.0, -4.0, 4.0, -2.0])  # §5.4.4 example history
 
