@@ -25,7 +25,7 @@ from flexcycle.report.page import figure_svgs, report_html
 from flexcycle.spectra.cycles import Cycles
 from flexcycle.spectra.merging import merge_identical
 
-if TYPE_CHECKING:  # flexcycle.sizing.sizing loads scipy.optimize (0.3 s): only `flexcycle size` needs it
+if TYPE_CHECKING:  # flexcycle.sizing loads scipy.optimize (0.3 s): only `flexcycle size` needs it
     from flexcycle.sizing import SizingAnswer
 
 MAX_CYCLE_ROWS = 20_000  # beyond this many distinct cycles, cycles.csv holds them binned (said in the report)

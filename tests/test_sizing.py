@@ -20,21 +20,12 @@ from flexcycle.design import load_design
 from flexcycle.errors import InputError
 from flexcycle.estimate import estimate
 from flexcycle.mechanics.beam import respond
-from flexcycle.sizing.sizing import (
-    SAFE_STEP,
-    TIP_FLOOR,
-    drop_plies,
-    inner_range,
-    plan,
-    read_back,
-    restack,
-    scaled_design,
-    size,
-    size_plies,
-    size_rate,
-    sizing_rows,
-    taper_width,
-)
+from flexcycle.sizing.plan import plan, sizing_rows
+from flexcycle.sizing.plies import inner_range, restack, size_plies
+from flexcycle.sizing.rate import size_rate
+from flexcycle.sizing.scale import SAFE_STEP, scaled_design, size
+from flexcycle.sizing.taper import TIP_FLOOR, drop_plies, taper_width
+from flexcycle.sizing.writer import read_back
 
 DESIGN = """title = "sizing check"
 [beam]
@@ -81,8 +72,8 @@ def test_thickness_for_a_target_life_force_drive_goodman(tmp_path):
     s_hand = math.sqrt(48.0 / _goodman_target(target) + 0.12)
     r = size(load_design(_write(tmp_path, lo="10 N", hi="50 N")), target, "thickness")
     assert r.grows
-    assert r.scale == pytest.approx(s_hand, rel=SOLVER)
-    assert r.scale >= s_hand * (1 - 1e-7)  # on the safe (thicker) side
+    assert r.scale_factor == pytest.approx(s_hand, rel=SOLVER)
+    assert r.scale_factor >= s_hand * (1 - 1e-7)  # on the safe (thicker) side
     assert r.result.life_blocks >= target
 
 
@@ -90,7 +81,7 @@ def test_width_for_a_target_life_force_drive_goodman(tmp_path):
     """Same duty, width × w: σ ∝ 1/w, σar = (48/w)/(1 − 72/(600 w)) = 48/(w − 0.12), w = 48/σar + 0.12 = 0.5977."""
     target = 1e6
     r = size(load_design(_write(tmp_path, lo="10 N", hi="50 N")), target, "width")
-    assert r.scale == pytest.approx(48.0 / _goodman_target(target) + 0.12, rel=SOLVER)
+    assert r.scale_factor == pytest.approx(48.0 / _goodman_target(target) + 0.12, rel=SOLVER)
     assert r.result.life_blocks >= target
 
 
@@ -155,7 +146,7 @@ def test_deflection_drive_gives_the_thickest_that_reaches_the_target(tmp_path):
     r = size(design, 1e6, "thickness")
     assert not r.grows and "thickest" in r.note
     assert r.result.life_blocks >= 1e6
-    assert estimate(scaled_design(design, "thickness", r.scale * 1.01)).life_blocks < 1e6
+    assert estimate(scaled_design(design, "thickness", r.scale_factor * 1.01)).life_blocks < 1e6
 
 
 def test_width_under_a_deflection_drive_has_no_answer(tmp_path):
@@ -182,7 +173,7 @@ def test_static_failure_at_scale_one_sized_past_it(tmp_path):
     s = sqrt(1680 / (800·(1000 T)^(−0.1)))."""
     target = 1e3
     r = size(load_design(_write(tmp_path, lo="-700 N", hi="700 N", rule="none")), target, "thickness")
-    assert r.scale == pytest.approx(math.sqrt(1680.0 / _goodman_target(target)), rel=SOLVER)
+    assert r.scale_factor == pytest.approx(math.sqrt(1680.0 / _goodman_target(target)), rel=SOLVER)
 
 
 def _taper_efficiency(f: float) -> float:

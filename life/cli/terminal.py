@@ -16,7 +16,7 @@ from flexcycle.estimate import CAUTION, LifeResult
 from flexcycle.mechanics.materials import Material
 from flexcycle.spectra.cycles import Cycles
 
-if TYPE_CHECKING:  # flexcycle.sizing.sizing loads scipy.optimize: only when a sizing answer is printed
+if TYPE_CHECKING:  # flexcycle.sizing loads scipy.optimize: only when a sizing answer is printed
     from flexcycle.sizing import SizingAnswer
 
 

@@ -1,4 +1,4 @@
-"""Tests of flexcycle.spectra counting: cycles, reversals, rainflow cycles with extremes, merging, chunks.
+"""Tests of flexcycle.spectra.rainflow: the rainflow count, residue as half cycles or repeated blocks.
 
 References: the `rainflow` package (implementation of ASTM E1049-85 §5.4.4) as the
 reference counter; hand-worked closed forms in the docstrings; invariants of
@@ -7,7 +7,8 @@ cannot change the count). For ``residue="repeat"`` (one block of a repeated duty
 counted as a closed loop from its largest |value|: common practice), the reference is
 the `rainflow` package counting the block written out several times in a row.
 """
-import dataclasses
+from __future__ import annotations
+
 from collections import defaultdict
 
 import numpy as np
@@ -15,149 +16,31 @@ import pytest
 import rainflow
 from hypothesis import assume, example, given, settings
 from hypothesis import strategies as st
+from rainflow_oracle import (
+    as_dict,
+    chunk_floats,
+    float_histories,
+    halves_of,
+    integer_histories,
+    monotone_histories,
+    multiset,
+    package_cycles,
+    package_misses_a_turn,
+    package_reversals,
+    plateau_histories,
+    range_histogram,
+    subtract,
+    tied_histories,
+    wide_floats,
+)
 
 from flexcycle.spectra.cycles import Cycles
 from flexcycle.spectra.errors import InputError
-from flexcycle.spectra.merging import merge_identical
 from flexcycle.spectra.rainflow import RESIDUE_MODES, _paired_halves, rainflow_cycles
-from flexcycle.spectra.reversals import reversals
-
-# Integer-valued histories: every difference and comparison is exact in floating point,
-# so an invariant that holds in exact arithmetic must hold to the bit.
-integer_histories = st.lists(st.integers(min_value=-1000, max_value=1000), min_size=0, max_size=60)
-# General float histories (bounded so that hi - lo cannot overflow).
-float_histories = st.lists(
-    st.floats(min_value=-1e6, max_value=1e6, allow_nan=False, allow_infinity=False), min_size=3, max_size=60
-)
-# Few distinct integer values: many equal peaks and valleys, the ties X == Y of §5.4.4
-# and equal largest |values| that the "repeat" residue must handle.
-tied_histories = st.lists(st.integers(min_value=-5, max_value=5), min_size=3, max_size=30).filter(
-    lambda h: min(h) != max(h)
-)
-
-
-def as_dict(cycles: Cycles) -> dict[tuple[float, float], float]:
-    """(lo, hi) -> total count, computed by a plain dict (independent of merge_identical)."""
-    totals: dict[tuple[float, float], float] = defaultdict(float)
-    for lo, hi, n in zip(cycles.lo, cycles.hi, cycles.count):
-        totals[(float(lo) + 0.0, float(hi) + 0.0)] += float(n)
-    return dict(totals)
-
-
-def subtract(a: dict, b: dict, times: float = 1.0) -> dict:
-    """a - times * b, entry by entry, zero entries dropped (counts: multiples of 0.5, exact)."""
-    difference: dict[tuple[float, float], float] = defaultdict(float)
-    for key, n in a.items():
-        difference[key] += n
-    for key, n in b.items():
-        difference[key] -= times * n
-    return {key: n for key, n in difference.items() if n != 0.0}
-
-
-def halves_of(cycles: Cycles) -> dict[tuple[float, float], float]:
-    """(lo, hi) -> total count of the half cycles only."""
-    keep = cycles.count == 0.5
-    return as_dict(Cycles(lo=cycles.lo[keep], hi=cycles.hi[keep], count=cycles.count[keep]))
-
-
-def package_misses_a_turn(history: list[float]) -> bool:
-    """Whether the `rainflow` package's reversal test d1·d2 < 0 underflows to zero somewhere (two steps of
-    opposite sign whose product is below the smallest float, about 1e-154 each): it then misses a turn that
-    flexcycle, testing the signs, finds (test_underflowing_turns_are_found_by_hand). Only such histories are
-    left out of the comparisons with the package."""
-    values = np.array(history, dtype=float)
-    steps = np.diff(values)
-    steps = steps[steps != 0]
-    return bool(np.any((np.signbit(steps[:-1]) != np.signbit(steps[1:])) & (steps[:-1] * steps[1:] == 0.0)))
-
-
-def package_reversals(history: list[float]) -> list[float]:
-    """Reference: `rainflow.reversals` (needs 3+ samples: for 2 it yields only the first)."""
-    return [value for _, value in rainflow.reversals(history)]
-
-
-def range_histogram(cycles: Cycles) -> list[tuple[float, float]]:
-    """Sorted (range, count) pairs, the form `rainflow.count_cycles` returns."""
-    totals: dict[float, float] = defaultdict(float)
-    for rng, n in zip(cycles.range, cycles.count):
-        totals[float(rng)] += float(n)
-    return sorted(totals.items())
-
-
-# --- Cycles ---------------------------------------------------------------------------
-
-def test_cycles_range_mean_total_by_hand():
-    """Hand calc: range = hi - lo = [3 - (-1), 2.5 - 2] = [4, 0.5];
-    mean = (hi + lo)/2 = [1, 2.25]; n_total = 1 + 0.5 = 1.5."""
-    cycles = Cycles(lo=np.array([-1.0, 2.0]), hi=np.array([3.0, 2.5]), count=np.array([1.0, 0.5]))
-    np.testing.assert_array_equal(cycles.range, [4.0, 0.5])  # exact: binary fractions
-    np.testing.assert_array_equal(cycles.mean, [1.0, 2.25])
-    assert cycles.n_total == 1.5
-
-
-@pytest.mark.parametrize(
-    "lo, hi, count, says",
-    [
-        ([0.0, 1.0], [1.0], [1.0], "same length"),
-        ([0.0], [-1.0], [1.0], "hi must be >= lo"),
-        ([0.0], [1.0], [0.0], "count must be > 0"),
-        ([0.0], [1.0], [-1.0], "count must be > 0"),
-        ([np.nan], [1.0], [1.0], r"lo\[0\] is nan"),
-        ([0.0], [np.inf], [1.0], r"hi\[0\] is inf"),
-        ([[0.0]], [[1.0]], [[1.0]], "1-D"),
-    ],
-)
-def test_cycles_rejects_invalid(lo, hi, count, says):
-    with pytest.raises(InputError, match=says):
-        Cycles(lo=np.array(lo), hi=np.array(hi), count=np.array(count))
-
-
-def test_cycles_is_frozen_and_read_only():
-    lo = np.array([0.0])
-    cycles = Cycles(lo=lo, hi=np.array([1.0]), count=np.array([1.0]))
-    with pytest.raises(dataclasses.FrozenInstanceError):
-        cycles.lo = np.array([5.0])  # type: ignore[misc]
-    with pytest.raises(ValueError):
-        cycles.lo[0] = 5.0
-    lo[0] = -7.0  # the caller's array is copied, not shared
-    assert cycles.lo[0] == 0.0
-
-
-def test_empty_cycles_total_is_zero():
-    assert Cycles(lo=np.empty(0), hi=np.empty(0), count=np.empty(0)).n_total == 0.0
-
-
-# --- reversals ------------------------------------------------------------------------
-
-def test_reversals_by_hand():
-    """Hand calc: 0, 1, 1, 2, 1, 1, 0, 3 rises to 2 (the plateau at 1 and the point 1 are
-    on a monotone run), falls to 0, rises to 3: reversals 0, 2, 0, 3."""
-    np.testing.assert_array_equal(reversals(np.array([0.0, 1, 1, 2, 1, 1, 0, 3])), [0.0, 2.0, 0.0, 3.0])
-
-
-def test_reversals_of_two_samples_keeps_both_ends():
-    """Closed form: a single rise 0 -> 1 has its two ends as reversals (first and last
-    points count as reversals, as in `rainflow.reversals` for longer series)."""
-    np.testing.assert_array_equal(reversals(np.array([0.0, 1.0])), [0.0, 1.0])
-
-
-@pytest.mark.parametrize("signal, expected", [([], []), ([4.0], [4.0])])
-def test_reversals_of_short_signals(signal, expected):
-    np.testing.assert_array_equal(reversals(np.array(signal)), expected)
-
-
-@settings(max_examples=300)
-@given(float_histories)
-def test_reversals_equal_the_rainflow_package(history):
-    """Reference: rainflow.reversals (ASTM E1049-85) on histories of 3+ samples."""
-    assume(not package_misses_a_turn(history))
-    expected = [value for _, value in rainflow.reversals(history)]
-    np.testing.assert_array_equal(reversals(np.array(history)), expected)
-
 
 # --- rainflow_cycles --------------------------------------------------------------------
 
-@settings(max_examples=300)
+@settings(max_examples=300, deadline=None)  # no timing in tests: the machine is shared
 @given(float_histories)
 def test_range_histogram_equals_rainflow_count_cycles(history):
     """Reference: rainflow.count_cycles (ASTM E1049-85 §5.4.4), exact: same arithmetic.
@@ -170,7 +53,7 @@ def test_range_histogram_equals_rainflow_count_cycles(history):
     assert range_histogram(cycles) == rainflow.count_cycles(history)
 
 
-@settings(max_examples=200)
+@settings(max_examples=200, deadline=None)  # no timing in tests: the machine is shared
 @given(float_histories)
 def test_extremes_are_samples_and_span_the_range(history):
     """lo and hi are values of the signal itself (no rounding), hi - lo is the range
@@ -209,6 +92,7 @@ def test_rainflow_rejects_bad_signals(bad, says):
 
 
 @pytest.mark.parametrize("residue", RESIDUE_MODES)
+@settings(deadline=None)  # no timing in tests: the machine is shared
 @given(integer_histories, st.lists(st.integers(min_value=1, max_value=4), min_size=60, max_size=60))
 def test_repeated_samples_change_no_cycle(residue, history, repeats):
     """Invariant (ASTM E1049-85 counts reversals, not samples): holding a sample for
@@ -220,6 +104,7 @@ def test_repeated_samples_change_no_cycle(residue, history, repeats):
 
 
 @pytest.mark.parametrize("residue", RESIDUE_MODES)
+@settings(deadline=None)  # no timing in tests: the machine is shared
 @given(integer_histories, st.lists(st.integers(min_value=1, max_value=7), min_size=60, max_size=60))
 def test_points_inside_monotone_runs_change_no_cycle(residue, history, eighths):
     """Invariant of reversal extraction: a point inserted strictly between two
@@ -237,6 +122,7 @@ def test_points_inside_monotone_runs_change_no_cycle(residue, history, eighths):
 
 
 @pytest.mark.parametrize("residue", RESIDUE_MODES)
+@settings(deadline=None)  # no timing in tests: the machine is shared
 @given(integer_histories, st.integers(min_value=-50, max_value=50).filter(lambda k: k != 0))
 def test_cycles_of_a_scaled_signal_are_scaled(residue, history, factor):
     """Linearity: counting k·x gives the cycles of x with extremes times k; for k < 0
@@ -312,7 +198,7 @@ def test_repeat_with_ranges_equal_only_after_rounding():
     assert as_dict(cycles) == {(-1e6, 1e6): 1.0, (-1e6, near): 1.0}
 
 
-@settings(max_examples=300)
+@settings(max_examples=300, deadline=None)  # no timing in tests: the machine is shared
 @given(st.one_of(tied_histories, integer_histories.filter(lambda h: len(h) >= 3 and min(h) != max(h))))
 def test_repeat_counts_full_cycles_half_the_reversals_of_the_closed_loop(history):
     """Every cycle is full, and the total is (reversals of the closed loop - 1)/2.
@@ -335,7 +221,7 @@ def test_repeat_counts_full_cycles_half_the_reversals_of_the_closed_loop(history
     assert set(cycles.lo.tolist()) | set(cycles.hi.tolist()) <= set(history)  # samples, exact
 
 
-@settings(max_examples=300)
+@settings(max_examples=300, deadline=None)  # no timing in tests: the machine is shared
 @given(st.one_of(tied_histories, integer_histories.filter(lambda h: len(h) >= 2 and min(h) != max(h))))
 def test_each_further_block_adds_exactly_the_repeat_counts(history):
     """Reference: `rainflow` counting (ASTM E1049-85, residue as half cycles) of the
@@ -349,7 +235,7 @@ def test_each_further_block_adds_exactly_the_repeat_counts(history):
         assert subtract(more, fewer) == repeat
 
 
-@settings(max_examples=300)
+@settings(max_examples=300, deadline=None)  # no timing in tests: the machine is shared
 @given(
     st.one_of(tied_histories, integer_histories.filter(lambda h: len(h) >= 2 and min(h) != max(h))),
     st.integers(min_value=1, max_value=6),
@@ -375,7 +261,7 @@ def test_k_blocks_differ_from_k_repeat_blocks_by_one_blocks_half_cycles(history,
     assert shortfall <= sum(one_block_halves.values()) + 0.5
 
 
-@settings(max_examples=300)
+@settings(max_examples=300, deadline=None)  # no timing in tests: the machine is shared
 @given(
     st.one_of(tied_histories, integer_histories.filter(lambda h: len(h) >= 1)),
     st.booleans(),
@@ -398,7 +284,7 @@ def test_repeat_of_a_history_from_and_to_its_largest_peak_pairs_the_halves(histo
     assert range_histogram(cycles) == rainflow.count_cycles(closed)
 
 
-@settings(max_examples=300)
+@settings(max_examples=300, deadline=None)  # no timing in tests: the machine is shared
 @given(tied_histories, st.integers(min_value=0, max_value=29))
 def test_repeat_does_not_depend_on_where_the_block_is_cut(history, shift):
     """Invariant of a repeated duty: cutting the endless signal into blocks at another
@@ -420,98 +306,7 @@ def test_unpaired_half_cycles_are_an_internal_fault():
         _paired_halves(Cycles(lo=np.array([0.0]), hi=np.array([1.0]), count=np.array([0.5])))
 
 
-# --- merge_identical ---------------------------------------------------------
-
-@settings(max_examples=200)
-@given(integer_histories, st.sampled_from([None, -2, -1, 0]))
-def test_merge_keeps_total_and_sums_each_pair(history, decimals):
-    """Merged cycles: one entry per distinct (lo, hi), sorted by lo then hi, each with
-    the sum of the counts of that pair (reference: a plain dict), total kept.
-    Counts are multiples of 0.5: sums are exact."""
-    cycles = rainflow_cycles(np.array(history, dtype=float))
-    merged = merge_identical(cycles, decimals)
-    assert merged.n_total == cycles.n_total
-    pairs = list(zip(merged.lo.tolist(), merged.hi.tolist()))
-    assert pairs == sorted(set(pairs))  # distinct and sorted
-    rounded = cycles if decimals is None else Cycles(
-        lo=np.round(cycles.lo, decimals), hi=np.round(cycles.hi, decimals), count=cycles.count
-    )
-    assert as_dict(merged) == as_dict(rounded)
-
-
-def test_merge_by_hand():
-    """Hand calc: (0, 2) appears with 0.5 and 1.0 -> 1.5; (-1, 2) alone; with decimals=0
-    the pair (0.2, 1.9) rounds to (0, 2) and joins it -> 2.5 (numpy.round: 0.2 -> 0, 1.9 -> 2)."""
-    cycles = Cycles(
-        lo=np.array([0.0, -1.0, 0.0, 0.2]), hi=np.array([2.0, 2.0, 2.0, 1.9]), count=np.array([0.5, 1.0, 1.0, 1.0])
-    )
-    assert as_dict(merge_identical(cycles)) == {(-1.0, 2.0): 1.0, (0.0, 2.0): 1.5, (0.2, 1.9): 1.0}
-    merged = merge_identical(cycles, decimals=0)
-    np.testing.assert_array_equal(merged.lo, [-1.0, 0.0])
-    np.testing.assert_array_equal(merged.hi, [2.0, 2.0])
-    np.testing.assert_array_equal(merged.count, [1.0, 2.5])
-
-
-@settings(max_examples=200)
-@given(st.lists(st.tuples(st.sampled_from([-1.0, -0.0, 0.0, 0.5, 2.0]), st.sampled_from([-0.0, 0.0, 1.0, 2.0, 3.0]),
-                          st.sampled_from([0.5, 1.0, 2.0])), min_size=1, max_size=30))
-def test_merging_a_merged_set_changes_nothing(rows):
-    """Merging twice is merging once (a merged set, sorted, distinct and without -0.0, is returned as it is);
-    -0.0 and +0.0 are one value (reference: the plain dict of as_dict, which has 0.0 == -0.0)."""
-    rows = [(min(a, b), max(a, b), n) for a, b, n in rows]
-    cycles = Cycles(lo=np.array([r[0] for r in rows]), hi=np.array([r[1] for r in rows]), count=np.array([r[2] for r in rows]))
-    once = merge_identical(cycles)
-    twice = merge_identical(once)
-    assert as_dict(once) == as_dict(cycles)
-    for a, b in ((once.lo, twice.lo), (once.hi, twice.hi), (once.count, twice.count)):
-        np.testing.assert_array_equal(a, b)
-    assert not np.signbit(once.lo[once.lo == 0]).any() and not np.signbit(once.hi[once.hi == 0]).any()
-
-
-def test_merge_of_no_cycles_is_empty():
-    empty = rainflow_cycles(np.array([1.0, 1.0]))
-    assert merge_identical(empty).lo.size == 0
-
-
-# --- the vectorised count against the reference package, and chunked counting ------------
-
-from flexcycle.spectra.chunked import OPEN, close_count, count_chunk, rainflow_chunks  # noqa: E402
-
-# Histories the four-point formulation must get right: few distinct values (ties X == Y,
-# plateaus), wide-range floats (ranges that round alike), short and monotone ones.
-plateau_histories = st.lists(st.integers(min_value=-3, max_value=3), min_size=3, max_size=200)
-wide_floats = st.lists(
-    st.one_of(st.floats(min_value=-1e6, max_value=1e6, allow_nan=False, allow_infinity=False),
-              st.sampled_from([0.0, 1e-11, -1e-11, 1e6, -1e6, 0.5, 1e6 - 1e-10])),
-    min_size=3, max_size=120,
-)
-# Floats for chunked counting: binary fractions and rounding-prone values, but no differences so small
-# (below about 1e-154) that the product of two of them underflows to zero: there the reference's
-# reversal test (d1 * d2 < 0) fails to see a turn, and which turn it misses depends on the neighbours.
-chunk_floats = st.lists(
-    st.one_of(st.integers(min_value=-10**7, max_value=10**7).map(lambda k: k / 1024.0),
-              st.sampled_from([0.0, 1e-11, -1e-11, 1e6, -1e6, 0.1, 1e6 - 1e-10])),
-    min_size=2, max_size=120,
-)
-monotone_histories = st.lists(st.floats(min_value=-1e3, max_value=1e3, allow_nan=False), min_size=3, max_size=40).map(sorted)
-
-
-def package_cycles(history: list[float]) -> list[tuple[float, float, float]]:
-    """Reference: `rainflow.extract_cycles`, each cycle as (min, max, count) read from the history, sorted:
-    a multiset, since the order of the counted cycles carries no meaning."""
-    out = []
-    for _, _, n, i, j in rainflow.extract_cycles(history):
-        a, b = history[i], history[j]
-        out.append((float(min(a, b)), float(max(a, b)), float(n)))
-    return sorted(out)
-
-
-def multiset(cycles: Cycles) -> list[tuple[float, float, float]]:
-    """The counted cycles as sorted (min, max, count) rows."""
-    return sorted(zip(cycles.lo.tolist(), cycles.hi.tolist(), cycles.count.tolist()))
-
-
-@settings(max_examples=500)
+@settings(max_examples=500, deadline=None)  # no timing in tests: the machine is shared
 @given(st.one_of(plateau_histories, wide_floats, monotone_histories, integer_histories.filter(lambda h: len(h) >= 3)))
 @example([1000000.0, -48577.11248010292, 1000000.0, -48577.0, 999999.9999999999])  # ranges tie only after rounding
 def test_cycles_equal_the_rainflow_package_as_a_multiset(history):
@@ -522,14 +317,6 @@ def test_cycles_equal_the_rainflow_package_as_a_multiset(history):
     assert multiset(rainflow_cycles(np.array(history, dtype=float))) == package_cycles(history)
 
 
-@settings(max_examples=300)
-@given(st.one_of(plateau_histories, wide_floats))
-def test_reversals_equal_the_package_on_plateaus_and_wide_floats(history):
-    """Reference: `rainflow.reversals` on histories with long plateaus and wide-range floats."""
-    assume(not package_misses_a_turn(history))
-    np.testing.assert_array_equal(reversals(np.array(history, dtype=float)), package_reversals(history))
-
-
 def test_cycles_equal_the_package_on_a_long_random_walk():
     """Reference: `rainflow.extract_cycles` on a seeded 20 000-sample random walk rounded to
     integers (many ties and plateaus, deep nesting of cycles): identical multiset of cycles."""
@@ -537,51 +324,8 @@ def test_cycles_equal_the_package_on_a_long_random_walk():
     assert multiset(rainflow_cycles(walk)) == package_cycles(walk.tolist())
 
 
-def chunked(signal: np.ndarray, cuts: list[int]) -> list[np.ndarray]:
-    """The signal cut at the given sample positions (sorted, duplicates give empty chunks)."""
-    return np.split(signal, sorted(c % (signal.size + 1) for c in cuts))
-
-
 @pytest.mark.parametrize("residue", RESIDUE_MODES)
-@settings(max_examples=300)
-@given(st.one_of(plateau_histories, integer_histories.filter(lambda h: len(h) >= 2), chunk_floats),
-       st.lists(st.integers(min_value=0, max_value=400), max_size=6))
-def test_chunked_count_equals_the_whole_history_count(residue, history, cuts):
-    """Counting chunk by chunk with the residue carried gives the cycles of counting the
-    whole history at once (`rainflow_cycles`, itself checked against the package), merged:
-    the same (lo, hi) pairs with the same counts, for any cuts, empty chunks included.
-    Exact: counts are multiples of 0.5, extremes are samples."""
-    signal = np.array(history, dtype=float)
-    whole = merge_identical(rainflow_cycles(signal, residue))
-    streamed = rainflow_chunks(chunked(signal, cuts), residue)
-    assert as_dict(streamed) == as_dict(whole)
-    assert streamed.n_total == whole.n_total
-
-
-def test_chunk_state_carries_samples_and_ends_with_the_last_sample():
-    """The open count holds the residue's reversals, ending with the last sample read.
-    Hand calc: 0, 2, 1 then 3, 2.5: after the first chunk the residue is 0, 2, 1 (no
-    cycle closes); 3 closes 2..1 (Y = 1 <= X = 2, Y0 = 2 > Y): full cycle (1, 2); the
-    residue is 0, 3, 2.5 and 5 samples were read."""
-    first = count_chunk(OPEN, np.array([0.0, 2.0, 1.0]))
-    assert first.full.lo.size == 0
-    np.testing.assert_array_equal(first.open.residue, [0.0, 2.0, 1.0])
-    second = count_chunk(first.open, np.array([3.0, 2.5]))
-    assert as_dict(second.full) == {(1.0, 2.0): 1.0}
-    np.testing.assert_array_equal(second.open.residue, [0.0, 3.0, 2.5])
-    assert second.open.samples == 5
-    assert as_dict(close_count(second.open)) == {(0.0, 3.0): 0.5, (2.5, 3.0): 0.5}
-
-
-def test_rainflow_chunks_reports_progress_in_samples():
-    """The callback receives the samples counted so far after every chunk; the library prints nothing."""
-    seen = []
-    rainflow_chunks([np.zeros(3), np.ones(4), np.zeros(2)], on_chunk=seen.append)
-    assert seen == [3, 7, 9]
-
-
-@pytest.mark.parametrize("residue", RESIDUE_MODES)
-@settings(max_examples=200)
+@settings(max_examples=200, deadline=None)  # no timing in tests: the machine is shared
 @given(st.one_of(plateau_histories, chunk_floats, integer_histories.filter(lambda h: len(h) >= 2)),
        st.integers(min_value=3, max_value=20))
 def test_the_signal_chunk_changes_no_cycle(residue, history, chunk):
@@ -604,19 +348,3 @@ def test_cycles_across_chunks_of_a_long_walk(monkeypatch):
     monkeypatch.setattr(rainflow_module, "SIGNAL_CHUNK", 4096)
     walk = np.round(np.cumsum(np.random.default_rng(9).normal(size=50_000)) * 2)
     assert multiset(rainflow_cycles(walk)) == package_cycles(walk.tolist())
-
-
-def test_underflowing_turns_are_found_by_hand():
-    """Found by hypothesis: 0, 1, 0, 5e-248, 0, 1. The steps 5e-248 and -5e-248 have a product that underflows
-    to 0, so the `rainflow` package's test d1·d2 < 0 misses the turn at 5e-248 (checked here); testing the
-    signs finds it. By hand, ASTM E1049-85 §5.4.4 on the reversals 0, 1, 0, 5e-248, 0, 1: 0, 1, 0: Y = 1
-    contains S, X = 1 >= Y: half cycle 0..1, drop 0; 1, 0, 5e-248: X < Y; 0: X = Y = 5e-248, Y without S:
-    full cycle 0..5e-248; 1, 0, 1: half cycle 0..1, drop 1; residue 0, 1: half cycle 0..1. The same whole
-    and in chunks."""
-    history = [0.0, 1.0, 0.0, 5e-248, 0.0, 1.0]
-    assert package_misses_a_turn(history)
-    assert package_reversals(history) != history
-    np.testing.assert_array_equal(reversals(np.array(history)), history)
-    expected = {(0.0, 1.0): 1.5, (0.0, 5e-248): 1.0}
-    assert as_dict(rainflow_cycles(np.array(history))) == expected
-    assert as_dict(rainflow_chunks([np.array(history[:3]), np.array(history[3:])])) == expected

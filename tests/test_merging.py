@@ -1,0 +1,66 @@
+"""Tests of flexcycle.spectra.merging: identical cycles summed (a plain dict as the independent check)."""
+from __future__ import annotations
+
+import numpy as np
+from hypothesis import given, settings
+from hypothesis import strategies as st
+from rainflow_oracle import (
+    as_dict,
+    integer_histories,
+)
+
+from flexcycle.spectra.cycles import Cycles
+from flexcycle.spectra.merging import merge_identical
+from flexcycle.spectra.rainflow import rainflow_cycles
+
+# --- merge_identical ---------------------------------------------------------
+
+@settings(max_examples=200, deadline=None)  # no timing in tests: the machine is shared
+@given(integer_histories, st.sampled_from([None, -2, -1, 0]))
+def test_merge_keeps_total_and_sums_each_pair(history, decimals):
+    """Merged cycles: one entry per distinct (lo, hi), sorted by lo then hi, each with
+    the sum of the counts of that pair (reference: a plain dict), total kept.
+    Counts are multiples of 0.5: sums are exact."""
+    cycles = rainflow_cycles(np.array(history, dtype=float))
+    merged = merge_identical(cycles, decimals)
+    assert merged.n_total == cycles.n_total
+    pairs = list(zip(merged.lo.tolist(), merged.hi.tolist()))
+    assert pairs == sorted(set(pairs))  # distinct and sorted
+    rounded = cycles if decimals is None else Cycles(
+        lo=np.round(cycles.lo, decimals), hi=np.round(cycles.hi, decimals), count=cycles.count
+    )
+    assert as_dict(merged) == as_dict(rounded)
+
+
+def test_merge_by_hand():
+    """Hand calc: (0, 2) appears with 0.5 and 1.0 -> 1.5; (-1, 2) alone; with decimals=0
+    the pair (0.2, 1.9) rounds to (0, 2) and joins it -> 2.5 (numpy.round: 0.2 -> 0, 1.9 -> 2)."""
+    cycles = Cycles(
+        lo=np.array([0.0, -1.0, 0.0, 0.2]), hi=np.array([2.0, 2.0, 2.0, 1.9]), count=np.array([0.5, 1.0, 1.0, 1.0])
+    )
+    assert as_dict(merge_identical(cycles)) == {(-1.0, 2.0): 1.0, (0.0, 2.0): 1.5, (0.2, 1.9): 1.0}
+    merged = merge_identical(cycles, decimals=0)
+    np.testing.assert_array_equal(merged.lo, [-1.0, 0.0])
+    np.testing.assert_array_equal(merged.hi, [2.0, 2.0])
+    np.testing.assert_array_equal(merged.count, [1.0, 2.5])
+
+
+@settings(max_examples=200, deadline=None)  # no timing in tests: the machine is shared
+@given(st.lists(st.tuples(st.sampled_from([-1.0, -0.0, 0.0, 0.5, 2.0]), st.sampled_from([-0.0, 0.0, 1.0, 2.0, 3.0]),
+                          st.sampled_from([0.5, 1.0, 2.0])), min_size=1, max_size=30))
+def test_merging_a_merged_set_changes_nothing(rows):
+    """Merging twice is merging once (a merged set, sorted, distinct and without -0.0, is returned as it is);
+    -0.0 and +0.0 are one value (reference: the plain dict of as_dict, which has 0.0 == -0.0)."""
+    rows = [(min(a, b), max(a, b), n) for a, b, n in rows]
+    cycles = Cycles(lo=np.array([r[0] for r in rows]), hi=np.array([r[1] for r in rows]), count=np.array([r[2] for r in rows]))
+    once = merge_identical(cycles)
+    twice = merge_identical(once)
+    assert as_dict(once) == as_dict(cycles)
+    for a, b in ((once.lo, twice.lo), (once.hi, twice.hi), (once.count, twice.count)):
+        np.testing.assert_array_equal(a, b)
+    assert not np.signbit(once.lo[once.lo == 0]).any() and not np.signbit(once.hi[once.hi == 0]).any()
+
+
+def test_merge_of_no_cycles_is_empty():
+    empty = rainflow_cycles(np.array([1.0, 1.0]))
+    assert merge_identical(empty).lo.size == 0
