@@ -387,6 +387,9 @@ def load_design(path: Path, progress: Callable[[int, int], None] | None = None) 
 def read_document(path: Path) -> dict:
     """The parsed TOML of a design file; a missing file, invalid TOML (with its line) or non-UTF-8 text is an
     InputError."""
+    if path.is_dir():
+        raise InputError(f"{path}: is a directory, not a design file; give the design's TOML file, "
+                         f"e.g. {path / 'design.toml'}")
     if not path.is_file():
         raise InputError(f"{path}: no such design file")
     try:

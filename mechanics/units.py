@@ -8,6 +8,7 @@ percent sign (``"2.1 %"``).
 """
 from __future__ import annotations
 
+import difflib
 import math
 import re
 import tokenize
@@ -29,6 +30,16 @@ def _registry() -> pint.UnitRegistry:
 UREG = _registry()
 UREG.define("percent = 0.01 = %")  # strain given in percent, e.g. "2.1 %"
 UREG.define("Msi = 1e6 * psi")  # million psi, the unit composite moduli are quoted in (common practice)
+
+# Units whose trade meaning differs from pint's: pint's "mil" is the angular mil (a dimensionless angle); in
+# inch-pound drawings and ply tables a mil is a thousandth of an inch (25.4 µm; pint's "thou"), common practice.
+_TRADE_UNITS = re.compile(r"\bmils?\b")
+_TRADE_UNIT_NAME = "thou"
+
+
+def _trade_units(text: str) -> str:
+    """Unit text with the trade's meanings (``"5 mil"`` → ``"5 thou"``, a thousandth of an inch)."""
+    return _TRADE_UNITS.sub(_TRADE_UNIT_NAME, text)
 
 # Everything pint's parser may raise on text that is no quantity (its tokenizer and evaluator let
 # tokenize, assertion and division errors through): all of it is a wrong input, never an internal fault.
@@ -63,7 +74,7 @@ _NUMBER_THEN_UNIT = re.compile(r"^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?(?P<un
 _EXPONENT = re.compile(r"(\*\*|\^)\s*[-+]?\d+(\.\d+)?")
 
 
-def _quantity(value: object, where: str) -> pint.Quantity:
+def _quantity(value: object, where: str, kind: str = "") -> pint.Quantity:
     if isinstance(value, bool):
         raise InputError(f"{where}: expected a quantity, got {value!r}")
     if isinstance(value, (int, float)):
@@ -77,12 +88,37 @@ def _quantity(value: object, where: str) -> pint.Quantity:
     match = _NUMBER_THEN_UNIT.match(value)
     if match is None or re.search(r"\d", _EXPONENT.sub("", match.group("unit"))):
         raise InputError(f"{where}: cannot read {value!r}: write one finite number and its unit, e.g. \"0.8 mm\"")
-    text = value.strip().replace("^", "**")
+    text = _trade_units(value.strip().replace("^", "**"))
     try:
         return UREG.Quantity(text)
     except PARSE_ERRORS as exc:
-        raise InputError(f"{where}: cannot read {value!r} as a quantity ({exc}); write one number and a known "
-                         f"unit, e.g. \"0.8 mm\", \"45 N\" or \"38.6 GPa\"") from None
+        raise InputError(f"{where}: cannot read {value!r} as a quantity ({exc}); {_case_hint(value, kind)}write one "
+                         f"number and a known unit, e.g. \"0.8 mm\", \"45 N\" or \"38.6 GPa\"") from None
+
+
+# The units a design file most often uses for each kind, for a suggestion when a unit is misspelt or in the
+# wrong letter case (pint reads "80 MM" as 80 megamolar and "3 KN" as 3 kelvin·newton).
+COMMON_UNITS = {
+    "length": ("mm", "cm", "m", "um", "in", "ft", "mil"),
+    "force": ("N", "kN", "mN", "lbf", "kip"),
+    "stress": ("Pa", "kPa", "MPa", "GPa", "psi", "ksi", "Msi"),
+    "density": ("kg/m^3", "g/cm^3", "lb/in^3", "lb/ft^3"),
+    "energy": ("J", "mJ", "kJ", "in*lbf", "ft*lbf"),
+    "stiffness": ("N/m", "N/mm", "kN/m", "lbf/in"),
+}
+
+
+def _case_hint(value: object, kind: str) -> str:
+    """``"did you mean 'mm'? "`` when the unit matches one of the kind's common units but for letter case, or
+    is close to one (difflib); else ``""``."""
+    match = _NUMBER_THEN_UNIT.match(value) if isinstance(value, str) else None
+    if match is None or kind not in COMMON_UNITS:
+        return ""
+    unit = match.group("unit").strip().replace(" ", "")
+    common = COMMON_UNITS[kind]
+    same = [c for c in common if c.lower() == unit.lower() and c != unit]
+    close = same or difflib.get_close_matches(unit, [c for c in common if c != unit], n=1, cutoff=0.6)
+    return f"did you mean {close[0]!r}? " if close else ""
 
 
 def parse_quantity(value: object, kind: str, where: str) -> float:
@@ -100,7 +136,7 @@ def parse_quantity(value: object, kind: str, where: str) -> float:
     float — the value in SI units (m, N, Pa, kg/m³, J, N/m, or a bare strain ratio)
     """
     dims, si_unit = KINDS[kind]
-    q = _quantity(value, where)
+    q = _quantity(value, where, kind)
     if kind == "strain":
         if not q.dimensionless:
             raise InputError(f"{where}: a strain is a ratio, got {value!r}; write e.g. {EXAMPLES[kind]}")
@@ -110,15 +146,15 @@ def parse_quantity(value: object, kind: str, where: str) -> float:
             raise InputError(
                 f"{where}: {value!r} has no unit; a {kind} needs one, e.g. {EXAMPLES[kind]}"
             )
-        if q.dimensionless:  # an angle or ratio unit; pint reads "mil" as the angular mil
+        if q.dimensionless:  # an angle or ratio unit
             raise InputError(
                 f"{where}: {value!r} is not a {kind} (pint reads {q.units:~} as dimensionless, an angle or a "
-                f"ratio); write e.g. {EXAMPLES[kind]}"
+                f"ratio); {_case_hint(value, kind)}write e.g. {EXAMPLES[kind]}"
             )
         if q.dimensionality != UREG.Quantity(1, si_unit).dimensionality:
             raise InputError(
                 f"{where}: {value!r} is not a {kind} ({q.units:~} measures {_dimension_of(q)}); "
-                f"write a {kind} with its unit, e.g. {EXAMPLES[kind]}"
+                f"{_case_hint(value, kind)}write a {kind} with its unit, e.g. {EXAMPLES[kind]}"
             )
         number = float(q.to(si_unit).magnitude)
     if not math.isfinite(number):
@@ -146,7 +182,7 @@ def _dimension_of(q: pint.Quantity) -> str:
 def dimension_name(unit: str) -> str:
     """What a unit measures, in words (``"N"`` → ``"force"``, ``"kg"`` → ``"mass"``); ``"unknown"`` if unreadable."""
     try:
-        return _dimension_of(UREG.Quantity(1.0, unit.strip().replace("^", "**")))
+        return _dimension_of(UREG.Quantity(1.0, _trade_units(unit.strip().replace("^", "**"))))
     except PARSE_ERRORS:
         return "unknown dimension"
 
@@ -154,11 +190,11 @@ def dimension_name(unit: str) -> str:
 def unit_factor(unit: str, where: str) -> float:
     """SI value of one ``unit`` (``"mm"`` → 0.001, ``"lbf"`` → 4.448…); for scaling a data column."""
     try:
-        q = UREG.Quantity(1.0, unit.strip().replace("^", "**"))
+        q = UREG.Quantity(1.0, _trade_units(unit.strip().replace("^", "**")))
     except PARSE_ERRORS as exc:
         raise InputError(f"{where}: unknown unit {unit!r} ({exc}); write a unit such as mm, in, N or lbf") from None
     factor = float(q.to_base_units().magnitude) if not q.dimensionless else float(q.to("").magnitude)
-    twice = UREG.Quantity(2.0, unit.strip().replace("^", "**"))
+    twice = UREG.Quantity(2.0, _trade_units(unit.strip().replace("^", "**")))
     if not math.isclose(float(twice.to_base_units().magnitude), 2.0 * factor, rel_tol=1e-12):
         raise InputError(f"{where}: {unit!r} is an offset unit (like a temperature scale); a data column needs a "
                          "unit that scales, e.g. mm or N")

@@ -22,7 +22,7 @@ import numpy as np
 import pandas as pd
 import pytest
 import rainflow
-from cli_runner import flexcycle
+from cli_runner import flexcycle, run_cli
 from designs import user_glass
 
 from flexcycle.cli import app as cli_module
@@ -756,3 +756,15 @@ def test_progress_bar_only_for_long_files_on_a_terminal(monkeypatch):
     with cli_module._progress() as progress:
         progress(10, 100)  # short file: still no bar
         assert progress.__self__.bar is None
+
+
+def test_compare_help_shows_the_duty_table_name():
+    """Rich markup would eat "[duty]" from the option's help; it must be printed as written."""
+    ran = run_cli(["compare", "--help"])
+    assert ran.code == 0
+    assert "[duty]" in " ".join(ran.out.split())
+
+
+def test_run_on_a_directory_says_it_is_one(tmp_path):
+    ran = run_cli(["run", str(tmp_path), "--out", str(tmp_path / "out")])
+    assert ran.code == 2 and "is a directory" in ran.err

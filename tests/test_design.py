@@ -456,3 +456,9 @@ def test_duty_profile_messages_name_the_key(tmp_path, duty, says):
     with pytest.raises(InputError) as info:
         load_design(path)
     assert "d.toml [duty]" in str(info.value) and says in str(info.value)
+
+
+def test_a_directory_given_as_the_design_says_so(tmp_path):
+    """A folder is no design file: the message says it is a directory (not "no such design file")."""
+    with pytest.raises(InputError, match="is a directory, not a design file"):
+        load_design(tmp_path)

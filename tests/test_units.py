@@ -113,10 +113,10 @@ def test_wrong_dimension_rejected(text, kind):
     assert EXAMPLES[kind] in message
 
 
-@pytest.mark.parametrize("text", ["5 mil", "5 rad", "10 deg"])
+@pytest.mark.parametrize("text", ["5 rad", "10 deg"])
 def test_dimensionless_unit_is_not_called_unit_free(text):
-    """pint reads 'mil' as the angular mil (a dimensionless angle), not a thousandth of an inch: for a
-    length, the message must not claim the value has no unit; it names the unit and says it is no length."""
+    """An angle for a length: the message must not claim the value has no unit; it names the unit and says
+    it is no length."""
     with pytest.raises(InputError) as info:
         parse_quantity(text, "length", WHERE)
     message = str(info.value)
@@ -235,3 +235,23 @@ def test_offset_units_cannot_scale_a_column():
     """degC has an offset (0 °C = 273.15 K): a column in it cannot be turned to SI by one factor."""
     with pytest.raises(InputError, match="offset unit"):
         unit_factor("degC", WHERE)
+
+
+@pytest.mark.parametrize(("text", "metres"), [("5 mil", 5 * 25.4e-6), ("12 mils", 12 * 25.4e-6), ("5 thou", 5 * 25.4e-6)])
+def test_mil_is_a_thousandth_of_an_inch(text, metres):
+    """In inch-pound ply tables a mil is 0.001 in = 25.4 µm (the inch is 25.4 mm exactly, by the 1959
+    international yard and pound agreement); pint's own "mil" is an angle, so flexcycle reads it as "thou"."""
+    assert parse_quantity(text, "length", WHERE) == pytest.approx(metres, rel=1e-12)  # exact definitions
+
+
+def test_mil_in_a_column_unit():
+    assert unit_factor("mil", WHERE) == pytest.approx(25.4e-6, rel=1e-12)  # exact definition
+
+
+@pytest.mark.parametrize(("text", "kind", "hint"), [("80 MM", "length", "'mm'"), ("3 KN", "force", "'kN'"),
+                                                     ("200 gpa", "stress", "'GPa'")])
+def test_wrong_letter_case_gets_a_suggestion(text, kind, hint):
+    """pint reads "MM" as megamolar and "KN" as kelvin-newton: the message suggests the unit of the right kind."""
+    with pytest.raises(InputError) as info:
+        parse_quantity(text, kind, WHERE)
+    assert f"did you mean {hint}?" in str(info.value)

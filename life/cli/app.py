@@ -63,7 +63,7 @@ def run(
 def compare(
     designs: list[Path] = typer.Argument(..., help="two or more design files (TOML)"),
     out: Path = typer.Option(Path("flexcycle-compare"), "--out", "-o", help="folder for comparison.csv and comparison.html"),
-    duty: Path | None = typer.Option(None, "--duty", help="TOML file with one [duty] table: run every design with it"),
+    duty: Path | None = typer.Option(None, "--duty", help="TOML file with one \\[duty] table: run every design with it"),
 ) -> None:
     """Run several candidate designs and set their figures side by side."""
     from flexcycle.cli import terminal
