@@ -375,6 +375,7 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     if factor < 1.0:
         raise InputError(f"{name} [fatigue] stress_factor: a partial factor is >= 1, got {factor:g}")
     used = {p.material.name: p.material for p in plies}
+    notes += [note for material in used.values() for note in material.notes]
     return Design(title, path, beam, duty, rule, miner, factor, used, dict(doc), tuple(notes))
 
 

@@ -110,6 +110,8 @@ class Material:
         S1 and limit are amplitudes [-] on a strain basis or [Pa] on a stress basis, knee in
         cycles [-], absent entries None; only the tables given are present
     sources : mapping — numeric key -> where its value comes from
+    notes : tuple[str, ...] — what reading the material did that its user should know (e.g. a library
+        curve rescaled to overridden static values)
     """
 
     name: str
@@ -133,6 +135,7 @@ class Material:
     eps1c: float
     fatigue: Mapping[str, tuple[Mapping[str, object], ...]]
     sources: Mapping[str, str]
+    notes: tuple[str, ...] = ()
 
     @property
     def nu21(self) -> float:
@@ -445,6 +448,9 @@ def _build(
     if "eps1c" not in values:
         values["eps1c"], sources["eps1c"] = values["Xc"] / values["E1"], DEFAULT_SOURCES["eps1c"]
 
+    notes: list[str] = []
+    if base is not None:
+        notes = _rescale_inherited_curves(base, values, table, fatigue, name)
     for table_name in FATIGUE_TABLES:
         if table_name in table:
             fatigue[table_name] = _parse_fatigue_table(table[table_name], where, table_name, default_source)
@@ -458,7 +464,69 @@ def _build(
         S13=values.get("S13"),
         fatigue=MappingProxyType({t: fatigue[t] for t in FATIGUE_TABLES if t in fatigue}),
         sources=MappingProxyType({k: sources[k] for k in NUMERIC_KEYS if k in sources}),
+        notes=tuple(notes),
     )
+
+
+# The static value each fatigue table's curves start from, per basis: (strength key, modulus key). A library
+# curve is built on it (S1 = Xt/E1 on a strain basis, S1 = S12 on a stress basis, ...: common practice, the
+# curve starts at the static value); the ultimate strain eps1t, when given, replaces Xt/E1.
+CURVE_REFERENCE = {
+    "fatigue": ("Xt", "E1"),
+    "transverse_fatigue": ("Yt", "E2"),
+    "shear_fatigue": ("S12", "G12"),
+    "interlaminar_fatigue": ("S13", "G13"),
+}
+
+
+def _reference(values: Mapping[str, float], table_name: str, basis: str) -> float | None:
+    """The static value a curve of ``table_name`` starts from, in its basis [Pa or -]; None if unknown."""
+    strength, modulus = CURVE_REFERENCE[table_name]
+    if values.get(strength) is None:
+        return None
+    if basis == "stress":
+        return values[strength]
+    if table_name == "fatigue" and values.get("eps1t") is not None:
+        return values["eps1t"]
+    return values[strength] / values[modulus]
+
+
+def _rescale_inherited_curves(base: Material, values: Mapping[str, float], table: Mapping,
+                              fatigue: dict[str, tuple[Mapping[str, object], ...]], name: str) -> list[str]:
+    """Rescale the base material's curves that the override leaves in place to its new static values.
+
+    A library curve is drawn from the material's static value (S1 = Xt/E1 for a strain-basis fibre curve,
+    S1 = S12 for a stress-basis shear curve: common practice). Overriding E1 (or Xt, eps1t, ...) without a new
+    curve would leave the curve derived from the old value — it could start below the new static strain and
+    shorten the life many-fold without a word. The curve's amplitudes (S1, limit) are scaled by the ratio of
+    the new static value to the old, which keeps S1 at the same fraction of it; a note says so.
+    """
+    notes = []
+    old_values = {key: getattr(base, key) for key in NUMERIC_KEYS}
+    for table_name, curves in list(fatigue.items()):
+        if table_name in table:
+            continue  # the override gives its own curve
+        basis = str(curves[0]["basis"])
+        before, after = _reference(old_values, table_name, basis), _reference(values, table_name, basis)
+        if before is None or after is None or math.isclose(before, after, rel_tol=1e-12):
+            continue
+        ratio = after / before
+        fatigue[table_name] = tuple(
+            MappingProxyType({**c, "S1": c["S1"] * ratio,
+                              "limit": None if c["limit"] is None else c["limit"] * ratio,
+                              "source": f"{c['source']} — rescaled by {ratio:.4g} to the overridden static value"})
+            for c in curves
+        )
+        strength, modulus = CURVE_REFERENCE[table_name]
+        changed = [key for key in (strength, modulus, "eps1t") if key in table] or [
+            key for key in NUMERIC_KEYS if key in table]
+        shown = [f"{_amplitude(c['S1'], basis)} → {_amplitude(c['S1'] * ratio, basis)}" for c in curves]
+        notes.append(
+            f"{name}: {', '.join(changed)} overridden, so the library's {basis}-basis {TABLE_LABELS[table_name]} "
+            f"fatigue curve is rescaled to the new static value (S1 {', '.join(shown)}); give "
+            f"[material.{name}.{table_name}] to set the curve yourself"
+        )
+    return notes
 
 
 def material_from_table(name: str, table: Mapping, where: str, base: Material | None = None) -> Material:

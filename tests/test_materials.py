@@ -210,7 +210,11 @@ def test_override_of_one_key_keeps_the_rest():
             assert m.sources.get(key) == base.sources.get(key), key
     # eps1t was a default (Xt/E1) and follows the new Xt: 1100/38600
     assert m.eps1t == pytest.approx(1100e6 / 38.6e9, rel=1e-12)
-    assert m.fatigue == base.fatigue and m.description == base.description
+    assert m.description == base.description
+    # the strain-basis fibre curve starts at the static strain (S1 = Xt/E1): it follows the new Xt
+    assert m.fatigue["fatigue"][0]["S1"] == pytest.approx(base.fatigue["fatigue"][0]["S1"] * 1100 / 1062, rel=1e-12)
+    for table in ("shear_fatigue", "interlaminar_fatigue"):
+        assert m.fatigue[table] == base.fatigue[table]
 
 
 def test_override_of_a_fatigue_table_replaces_the_whole_table():
@@ -421,3 +425,29 @@ def test_describe_shows_values_with_units_and_sources():
     assert "105 MPa" in foam and "core" in foam
     maple = describe(library()["sugar-maple"])
     assert "R = -1" in maple and "R = 0.1" in maple and "b = 0.0963" in maple
+
+
+def test_overriding_e1_rescales_the_library_strain_curve_with_a_note():
+    """The library's E-glass/epoxy fibre curve starts at the static strain, S1 = Xt/E1 = 1062/38600 = 2.75 %
+    (Burton et al., Wind Energy Handbook, p. 387: common practice). With E1 overridden to 30 GPa the static
+    strain is 1062/30000 = 3.54 %: the inherited curve is scaled by 38.6/30, S1 = 2.75 % × 1.28667 = 3.5383 %,
+    and a note says so; without it the curve would start below the static strain."""
+    material = resolve_materials({"e-glass-epoxy": {"E1": "30 GPa"}}, "d.toml")["e-glass-epoxy"]
+    (curve,) = material.fatigue["fatigue"]
+    assert curve["S1"] == pytest.approx(0.0275 * 38.6 / 30, rel=1e-12)  # exact scaling
+    assert material.eps1t == pytest.approx(1062 / 30000, rel=1e-12)
+    assert any("E1 overridden" in note and "rescaled" in note for note in material.notes)
+    # stress-basis curves that do not depend on E1 stay as they are
+    (shear,) = material.fatigue["shear_fatigue"]
+    assert shear["S1"] == pytest.approx(72e6, rel=1e-12)
+
+
+def test_an_override_with_its_own_curve_keeps_it():
+    table = {"E1": "30 GPa", "fatigue": {"form": "power", "R": -1, "S1": "2 %", "m": 10}}
+    material = resolve_materials({"e-glass-epoxy": table}, "d.toml")["e-glass-epoxy"]
+    assert material.fatigue["fatigue"][0]["S1"] == pytest.approx(0.02, rel=1e-12)
+    assert not any("fibre direction" in note for note in material.notes)
+
+
+def test_the_library_itself_has_no_notes():
+    assert all(not material.notes for material in library().values())
