@@ -32,11 +32,12 @@ from flexcycle.spectra.streaming import Envelope, count_history, refuse_constant
 
 BUNDLED_PREFIX = "bundled:"  # profile = "bundled:NAME" reads a demo profile shipped with flexcycle
 
-TOP_KEYS = {"title", "beam", "ply", "duty", "fatigue", "material"}
+TOP_KEYS = {"title", "beam", "ply", "duty", "fatigue", "material", "report"}
 BEAM_KEYS = {"support", "span", "width", "load_spacing", "section", "stations"}
 PLY_KEYS = {"material", "angle", "thickness", "count", "ends_at"}
 DUTY_KEYS = {"drive", "profile", "column", "unit", "cycles", "blocks_per_day", "residue"}
-FATIGUE_KEYS = {"mean_stress", "miner_limit", "stress_factor"}
+FATIGUE_KEYS = {"mean_stress", "miner_limit", "stress_factor", "required_life"}
+REPORT_KEYS = {"units"}
 CYCLE_KEYS = {"min", "max", "count"}
 
 # Lengths the model handles, 1 µm to 1 km: past them the floating-point laminate and beam sums (h³, L³) lose
@@ -92,6 +93,10 @@ class Design:
     materials : dict[str, Material] — the materials the stack uses
     document : dict — the parsed TOML as read (for writing modified designs)
     notes : tuple[str, ...] — what the loader did that the user should know (reported as warnings)
+    required_life_blocks : float | None — the life the part must reach, in blocks of the duty ([fatigue]
+        required_life); None: no requirement
+    required_life_text : str | None — the requirement as written (``"5 years"``, ``"20000"``)
+    units : str | None — the display units the file asks for ([report] units: "si" or "us"); None: not given
     """
 
     title: str
@@ -104,6 +109,9 @@ class Design:
     materials: dict[str, Material]
     document: dict = field(repr=False)
     notes: tuple[str, ...] = ()
+    required_life_blocks: float | None = None
+    required_life_text: str | None = None
+    units: str | None = None
 
 
 def _unknown(table: Mapping, allowed: set, where: str) -> None:
@@ -376,7 +384,45 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
         raise InputError(f"{name} [fatigue] stress_factor: a partial factor is >= 1, got {factor:g}")
     used = {p.material.name: p.material for p in plies}
     notes += [note for material in used.values() for note in material.notes]
-    return Design(title, path, beam, duty, rule, miner, factor, used, dict(doc), tuple(notes))
+    required = None
+    if "required_life" in fat:
+        required = _required_life(fat["required_life"], duty, f"{name} [fatigue] required_life")
+    report = _table(doc, "report", name, required=False)
+    _unknown(report, REPORT_KEYS, f"{name} [report]")
+    units = None if "units" not in report else _choice(report["units"], DISPLAY_SYSTEMS, f"{name} [report] units")
+    return Design(title, path, beam, duty, rule, miner, factor, used, dict(doc), tuple(notes),
+                  required, None if required is None else str(fat["required_life"]), units)
+
+
+DISPLAY_SYSTEMS = ("si", "us")  # [report] units: SI or inch-pound display (flexcycle.display.SYSTEMS)
+_COUNT_OF = re.compile(r"^\s*(?P<number>[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?)\s*(?P<what>blocks?|cycles?)\s*$")
+
+
+def _required_life(value: Any, duty: Duty, where: str) -> float:
+    """The required life in blocks of the duty [-].
+
+    A bare number is blocks; ``"2e6 cycles"`` is divided by the cycles per block; a time (``"5 years"``,
+    ``"90 days"``; pint's year is the Julian year of 365.25 days) is multiplied by blocks_per_day.
+    """
+    if isinstance(value, (int, float)) and not isinstance(value, bool):
+        return _number(value, where)
+    if not isinstance(value, str):
+        raise InputError(f"{where}: blocks of the duty as a number (e.g. 20000), cycles (\"2e6 cycles\") or a "
+                         f"time (\"5 years\"), got {value!r}")
+    count = _COUNT_OF.match(value)
+    if count is not None:
+        number = _number(float(count.group("number")), where)
+        return number if count.group("what").startswith("block") else number / float(duty.cycles.n_total)
+    try:
+        seconds = parse_quantity(value, "time", where)
+    except mechanics_errors.InputError as exc:
+        raise InputError(f"{exc}; or give blocks of the duty as a bare number, or \"2e6 cycles\"") from None
+    if not seconds > 0:
+        raise InputError(f"{where}: a required life must be > 0, got {value!r}")
+    if not duty.blocks_per_day:
+        raise InputError(f"{where}: {value!r} is a time; [duty] blocks_per_day is needed to turn it into blocks "
+                         "of the duty (or give the requirement in blocks, a bare number)")
+    return seconds / 86_400.0 * duty.blocks_per_day
 
 
 def load_design(path: Path, progress: Callable[[int, int], None] | None = None) -> Design:

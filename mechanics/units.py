@@ -55,6 +55,7 @@ KINDS = {
     "density": ("[mass] / [length] ** 3", "kg/m**3"),
     "energy": ("[energy]", "J"),
     "stiffness": ("[force] / [length]", "N/m"),
+    "time": ("[time]", "s"),
     "strain": ("", ""),
 }
 EXAMPLES = {
@@ -64,6 +65,7 @@ EXAMPLES = {
     "density": '"1800 kg/m^3"',
     "energy": '"1.5 J"',
     "stiffness": '"25 N/mm" or "140 lbf/in"',
+    "time": '"5 years" or "90 days"',
     "strain": '0.021 or "2.1 %"',
 }
 
