@@ -147,6 +147,24 @@ class Display:
             return shown
         return f"{shown} ({Display('si').value(value, kind, digits, signed)})"
 
+    def header(self, label: str, kind: str) -> str:
+        """A column header with the unit: ``"mass [g]"``; inch-pound with the SI unit of the figure beside,
+        ``"mass [lb] (g)"``."""
+        unit = self.unit(kind)
+        text = f"{label} [{unit}]" if unit else label
+        if self.us and kind not in SAME:
+            text += f" ({self.si_unit(kind)})"
+        return text
+
+    def pair(self, value: float | None, kind: str, digits: int = 4) -> str:
+        """A table cell under ``header``: the number, and in inch-pound the SI number beside it."""
+        if value is None:
+            return "–"
+        text = self.number(value, kind, digits)
+        if self.us and kind not in SAME:
+            text += f" ({SI.number(value, kind, digits)})"
+        return text
+
     def drive(self, value: float, drive: str, digits: int = 4) -> str:
         """A duty's drive value: a deflection (length) or a force, with its unit (and SI beside)."""
         return self.both(value, "deflection" if drive == "deflection" else "force", digits)
@@ -158,3 +176,14 @@ SI = Display("si")
 def display_for(units: str | None, design_units: str | None = None) -> Display:
     """The display of a command: ``--units`` when given, else the design file's ``[report] units``, else SI."""
     return Display(units or design_units or "si")
+
+
+def from_where(support: str) -> str:
+    """Where positions x are measured from, in words: the clamp ("the root") or, for the symmetric three- and
+    four-point beams, their mid-span."""
+    return "from mid-span" if support in ("three-point", "four-point") else "from the root"
+
+
+def per_day(blocks_per_day: float) -> str:
+    """``"4 blocks per day"``, ``"1 block per day"``."""
+    return f"{format_number(blocks_per_day)} block{'' if blocks_per_day == 1 else 's'} per day"

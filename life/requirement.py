@@ -68,3 +68,26 @@ def _is_blocks(text: str) -> bool:
     """True when the requirement was written in blocks (a bare number or "N blocks")."""
     stripped = text.strip().rstrip("s")
     return stripped.endswith("block") or stripped.replace(".", "", 1).replace("e", "", 1).replace("+", "").isdigit()
+
+
+def verdict_of(result) -> Verdict | None:
+    """The verdict of a ``flexcycle.estimate.LifeResult`` against its design's required life; None without one.
+
+    The life judged is the one the result reports as its life in blocks (``life_blocks``): with a survival
+    probability in the design, that is the life at that survival.
+    """
+    required = getattr(result.design, "required_life_blocks", None)
+    if required is None:
+        return None
+    survival = getattr(result.design, "survival", None)
+    basis = "the estimated life" if survival is None else f"the life at {survival:.0%} survival"
+    return judge(result.life_blocks, result.life_unbounded, required, basis)
+
+
+def verdict_text(result) -> str | None:
+    """The verdict line of a result (``verdict_line``), or None when its design gives no required life."""
+    verdict = verdict_of(result)
+    if verdict is None:
+        return None
+    design = result.design
+    return verdict_line(verdict, design.duty.blocks_per_day, design.required_life_text)

@@ -17,8 +17,17 @@ from cli_runner import flexcycle
 from designs import user_glass
 
 from flexcycle.design import load_design
+from flexcycle.display import Display
 from flexcycle.estimate import CAUTION, estimate
-from flexcycle.explore.compare import COLUMNS, comparison_html, comparison_table
+from flexcycle.explore.compare import (
+    COLUMNS,
+    bar_figure,
+    comparison_html,
+    comparison_table,
+    display_rows,
+    ranking,
+    same_duty,
+)
 
 # DESIGN.md, outputs contract: comparison.csv has at least these columns
 CONTRACT = ["title", "life_blocks", "life_cycles", "mass_kg", "stiffness_n_per_m", "peak_energy_j",
@@ -159,18 +168,64 @@ def test_comparison_html_is_self_contained_with_titles_warnings_and_caution(resu
         for w in r.warnings:
             assert html.escape(w) in page
     assert "thin <4 plies>" not in page  # the title is escaped, not markup
-    assert page.count("<tr>") == 1 + len(rs)  # header and one row per design
+    assert page.count("<tr>") == 2 * (1 + len(rs))  # two tables: header and one row per design each
     assert page.count("<svg") == 2  # bar charts; overlaid force–deflection and strain envelopes
     assert "Duty: each design with its own duty." in page
 
 
-def test_page_ranks_by_life(results):
-    """Rows of the page ordered by life in blocks: unbounded (safe) first, then thick, then thin (the hand
-    calculation below: a quarter of the stress lives far longer)."""
-    rs = [results["thin"], results["thick"], results["safe"]]
+def test_page_ranks_by_life_under_a_common_duty(results):
+    """thin and thick carry the same duty (1000 cycles 0 → 20 N): ranked by life, thick first (a quarter of the
+    stress lives far longer; the hand calculation above)."""
+    rs = [results["thin"], results["thick"]]
     page = comparison_html(comparison_table(rs), rs)
-    rows = re.findall(r"<tr><td>(\d+)</td><td>(\d+)</td><td>([^<]*)</td>", page)
-    assert [(rank, design) for rank, design, _ in rows] == [("1", "3"), ("2", "2"), ("3", "1")]
+    rows = re.findall(r"<tr><td>([^<]*)</td><td>([^<]*)</td>", page)
+    assert [design for design, _ in rows[:2]] == ["1. #2", "2. #1"]
+    assert "Ranked by life in blocks of the common duty" in page
+
+
+def test_designs_with_different_duties_are_not_ranked_by_life(results):
+    """safe carries 0 → 2 N, the others 0 → 20 N: a block of one duty is not a block of the other, so the page
+    keeps the order given and says why (its unbounded life would otherwise put it first)."""
+    rs = [results["thin"], results["thick"], results["safe"]]
+    table = comparison_table(rs)
+    assert not same_duty(rs)
+    rank = ranking(table, rs)
+    assert rank.order == [0, 1, 2] and not rank.ranked
+    page = comparison_html(table, rs)
+    rows = re.findall(r"<tr><td>([^<]*)</td><td>([^<]*)</td>", page)
+    assert [design for design, _ in rows[:3]] == ["#1", "#2", "#3"]
+    assert "Not ranked: the designs carry different duties" in page
+
+
+def test_bar_charts_follow_the_table_order_and_units(results):
+    """The bars are drawn in the order of the table (ranked: #2 before #1) and in its units (N/mm, g)."""
+    rs = [results["thin"], results["thick"]]
+    svg = bar_figure(comparison_table(rs), rs)
+    assert svg.index(">#2<") < svg.index(">#1<") if ">#2<" in svg else svg.index("#2") < svg.index("#1")
+    assert "stiffness [N/mm]" in svg and "mass [g]" in svg
+    us = bar_figure(comparison_table(rs), rs, Display("us"))
+    assert "stiffness [lbf/in]" in us and "mass [lb]" in us
+
+
+def test_headers_carry_units_not_key_names(results):
+    rs = [results["thin"], results["thick"]]
+    page = comparison_html(comparison_table(rs), rs)
+    assert "n per m" not in page and "stiffness_n_per_m" not in page
+    assert "stiffness [N/mm]" in page and "mass [g]" in page and "peak energy [J]" in page
+    us = comparison_html(comparison_table(rs), rs, display=Display("us"))
+    assert "stiffness [lbf/in] (N/mm)" in us and "mass [lb] (g)" in us
+    # the thin beam's mass, 200 × 20 × 2 mm of 1900 kg/m³ = 15.2 g = 0.03351 lb (1 lb = 453.59237 g)
+    assert "0.03351 (15.2)" in us
+
+
+def test_stiffness_in_the_table_is_that_of_the_chart(results):
+    """Table and chart both in N/mm: the thin beam's stiffness in the table is k/1000 of summary's N/m."""
+    rs = [results["thin"], results["thick"]]
+    shown = display_rows(comparison_table(rs), rs)
+    header, rows = shown["figures"]
+    column = header.index("stiffness [N/mm]")
+    thin = next(row for row in rows if row[0].endswith("#1"))
+    assert float(thin[column]) == pytest.approx(results["thin"].summary()["stiffness_n_per_m"] / 1e3, rel=1e-3)
 
 
 @pytest.mark.parametrize("common", [False, True])
@@ -239,6 +294,10 @@ def test_cli_compare_writes_csv_and_html(files, results, tmp_path, monkeypatch, 
         assert row["critical_mode"] == s["critical"]["mode"]
     assert "caution" in stdout
     assert "thin <4 plies>" in stdout and "thick, 8 plies" in stdout
+    assert "static reserve" in stdout
+    for i, name in enumerate(["thin", "thick"], start=1):
+        for w in results[name].warnings:
+            assert f"#{i} {w}" in " ".join(stdout.split()) or f"#{i} {w[:40]}" in " ".join(stdout.split())
 
 
 def test_cli_compare_unbounded_is_an_empty_cell(files, tmp_path, monkeypatch, capsys):

@@ -18,6 +18,7 @@ import pytest
 from flexcycle.cli import app as cli
 from flexcycle.cli.terminal import cycle_text, summary_text
 from flexcycle.design import parse_design
+from flexcycle.display import Display
 from flexcycle.estimate import CAUTION, estimate
 from flexcycle.spectra.merging import merge_identical
 from flexcycle.spectra.rainflow import rainflow_cycles
@@ -83,7 +84,7 @@ def test_summary_figures_by_hand(finite):
     rows = table_rows_of(text)
     assert rows["critical mode"] == "fibre-compression"
     assert rows["critical ply"] == "ply 10 (hand-glass, 0°), top face"
-    assert rows["critical place"].startswith("x = 0.0 mm from the root")
+    assert rows["critical place"].startswith("x = 0 mm from the root")
     C = 0.2**3 / (3 * 40e9 * 0.02 * 0.005**3 / 12) + 0.2 / (5 / 6 * 4e9 * 0.02 * 0.005)
     # rel 1e-3: stiffness, mass and energy print to 4 significant digits
     assert number_before(r"N/mm", text) == pytest.approx(1e-3 / C, rel=1e-3)
@@ -265,3 +266,42 @@ def test_sizing_text_is_a_before_after_table(tmp_path):
     assert "thickness for the life: the thinnest design" in text
     for quantity, before, after in sizing_rows(answer):
         assert re.search(rf"{re.escape(quantity)}\s+{re.escape(before)}\s+{re.escape(after)}", text), quantity
+
+
+def test_one_block_per_day_is_singular():
+    text = summary_text(estimate(hand_design("50 N", blocks_per_day=1)))
+    assert "at 1 block per day" in text and "1 blocks" not in text
+
+
+def test_three_point_places_are_measured_from_mid_span():
+    """A three-point beam's stations run from mid-span (x = 0) to a support: never "from the root"."""
+    doc = parse_design({**hand_design("50 N").document,
+                        "beam": {"support": "three-point", "span": "200 mm", "width": "20 mm", "stations": 6}},
+                       "hand.toml", Path("."))
+    text = summary_text(estimate(doc))
+    rows = table_rows_of(text)
+    assert "from mid-span" in rows["critical place"] and "from the root" not in text
+
+
+def test_inch_pound_summary_with_si_beside():
+    """--units us: 200 mm = 7.874 in; mass 38 g = 0.08378 lb (1 lb = 453.59237 g, exact); the stiffness
+    k = 3.11915 N/mm = 17.81 lbf/in (1 lbf/in = 0.175126835 N/mm, exact definitions)."""
+    text = summary_text(estimate(hand_design("50 N")), display=Display("us"))
+    rows = table_rows_of(text)
+    assert "span 7.874 in (200 mm)" in text
+    assert rows["mass"] == "0.08378 lb (38 g)"
+    assert rows["stiffness"].startswith("17.81 lbf/in (3.119 N/mm)")
+    assert "in·lbf" in rows["peak energy"]
+
+
+def test_verdict_line_at_the_top():
+    """required_life = 1e7 blocks against a life of 12^10/1000 = 6.1917e7 blocks: met, margin 6.19."""
+    design = hand_design("50 N")
+    doc = dict(design.document, fatigue={"required_life": 1e7})
+    result = estimate(parse_design(doc, "hand.toml", Path(".")))
+    text = summary_text(result)
+    first = text.splitlines()[0]
+    assert first.startswith("MEETS the required life of 1e7") or first.startswith("MEETS the required life of 1.000e+07")
+    assert "margin 6.19" in first
+    short = estimate(parse_design(dict(design.document, fatigue={"required_life": 1e8}), "hand.toml", Path(".")))
+    assert summary_text(short).splitlines()[0].startswith("FALLS SHORT of the required life")

@@ -37,25 +37,42 @@ def example_design() -> Path:
     return Path(str(resources.files("flexcycle") / "examples" / EXAMPLE))
 
 
+UNITS_HELP = "units shown: si or us (in, lbf, ksi, in·lbf, lb, with SI beside); the files stay SI"
+
+
+def _check_units(units: str | None) -> None:
+    """Reject an unknown --units before any work is done."""
+    from flexcycle.display import SYSTEMS
+
+    if units is not None and units not in SYSTEMS:
+        close = difflib.get_close_matches(units, SYSTEMS, n=1)
+        hint = f"did you mean {close[0]!r}? " if close else ""
+        raise LifeInputError(f"--units: {hint}must be one of {', '.join(SYSTEMS)}, got {units!r}")
+
+
 @app.command()
 def run(
     design: Path | None = typer.Argument(None, help="design file (TOML); without it, the bundled example"),
     out: Path = typer.Option(Path("flexcycle-out"), "--out", "-o", help="folder for summary.json, cycles.csv, locations.csv, stations.csv, report.html"),
+    units: str | None = typer.Option(None, "--units", help=UNITS_HELP),
 ) -> None:
     """Estimate the fatigue life, stiffness, mass and stored energy of a design."""
     from flexcycle.cli import terminal
     from flexcycle.design import load_design
+    from flexcycle.display import display_for
     from flexcycle.estimate import estimate
 
+    _check_units(units)
     path = design if design is not None else example_design()
     with _progress() as progress:
         loaded = load_design(path, progress=progress)
     result = estimate(loaded)
     from flexcycle.outputs import render, write_files
 
+    display = display_for(units, loaded.units)
     files = render(result)
     written = write_files(files, out)
-    typer.echo(terminal.summary_text(result, example=design is None))
+    typer.echo(terminal.summary_text(result, example=design is None, display=display))
     typer.echo(f"\nwrote {', '.join(p.name for p in written)} to {out}")
 
 
@@ -64,23 +81,27 @@ def compare(
     designs: list[Path] = typer.Argument(..., help="two or more design files (TOML)"),
     out: Path = typer.Option(Path("flexcycle-compare"), "--out", "-o", help="folder for comparison.csv and comparison.html"),
     duty: Path | None = typer.Option(None, "--duty", help="TOML file with one \\[duty] table: run every design with it"),
+    units: str | None = typer.Option(None, "--units", help=UNITS_HELP),
 ) -> None:
     """Run several candidate designs and set their figures side by side."""
     from flexcycle.cli import terminal
     from flexcycle.design import load_design
+    from flexcycle.display import display_for
     from flexcycle.estimate import estimate
     from flexcycle.explore.compare import comparison_html, comparison_table, duty_note, with_common_duty
     from flexcycle.outputs import write_files
 
+    _check_units(units)
     if len(designs) < 2:
         raise LifeInputError("compare: give two or more design files to set side by side")
     loaded = [load_design(path) if duty is None else with_common_duty(path, duty) for path in designs]
     results = [estimate(design) for design in loaded]
     table = comparison_table(results)
     note = duty_note(duty)
+    display = display_for(units, loaded[0].units)
     write_files({"comparison.csv": table.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
-                 "comparison.html": comparison_html(table, results, note)}, out)
-    typer.echo(terminal.comparison_text(table, note))
+                 "comparison.html": comparison_html(table, results, note, display)}, out)
+    typer.echo(terminal.comparison_text(table, note, results, display))
     typer.echo(f"\nwrote comparison.csv, comparison.html to {out}\ncaution: {CAUTION}")
 
 

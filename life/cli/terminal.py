@@ -2,18 +2,21 @@
 from __future__ import annotations
 
 import io
-from collections.abc import Mapping
+from collections.abc import Mapping, Sequence
 from typing import TYPE_CHECKING
 
 import numpy as np
 import pandas as pd
 from rich import box
 from rich.console import Console
+from rich.markup import escape
 from rich.table import Table
 
 from flexcycle.design import Design
+from flexcycle.display import SI, Display, display_for, format_number, from_where, per_day
 from flexcycle.estimate import CAUTION, LifeResult
 from flexcycle.mechanics.materials import Material
+from flexcycle.requirement import verdict_of, verdict_text
 from flexcycle.spectra.cycles import Cycles
 
 if TYPE_CHECKING:  # flexcycle.sizing loads scipy.optimize: only when a sizing answer is printed
@@ -21,11 +24,12 @@ if TYPE_CHECKING:  # flexcycle.sizing loads scipy.optimize: only when a sizing a
 
 
 WIDTH = 100  # fixed console width: the same layout on a terminal, in a pipe and in tests
+COMPARISON_WIDTH = 130  # the comparison's two tables: every column whole, inch-pound with SI beside
 
 
-def _render(*renderables) -> str:
-    """Rich renderables as plain text at WIDTH columns (no colour codes, whether or not stdout is a TTY)."""
-    console = Console(file=io.StringIO(), width=WIDTH, color_system=None, force_terminal=False,
+def _render(*renderables, width: int = WIDTH) -> str:
+    """Rich renderables as plain text at ``width`` columns (no colour codes, whether or not stdout is a TTY)."""
+    console = Console(file=io.StringIO(), width=width, color_system=None, force_terminal=False,
                       highlight=False, emoji=False)
     for r in renderables:
         console.print(r)
@@ -40,42 +44,62 @@ def _life(value: float | None, unit: str) -> str:
     return f"{value:.3g} {unit}"
 
 
-def summary_table(result: LifeResult) -> Table:
-    """The run's figures as a two-column table (quantity, value with its unit)."""
+def summary_table(result: LifeResult, display: Display = SI) -> Table:
+    """The run's figures as a two-column table (quantity, value with its unit; inch-pound with SI beside when
+    ``display`` is inch-pound)."""
     d, c, s = result.design, result.critical, result.summary()
     ply = d.beam.plies[c.ply - 1]
+    where = from_where(d.beam.support)
     t = Table(box=box.SIMPLE_HEAD, show_edge=False, pad_edge=False)
     t.add_column("quantity", no_wrap=True)
     t.add_column("value")
+    verdict = verdict_of(result)
+    if verdict is not None:
+        t.add_row("required life", f"{format_number(verdict.required_life_blocks)} blocks"
+                  + (f" ({d.required_life_text})" if d.required_life_text else "")
+                  + (", met" if verdict.meets_requirement else ", NOT met")
+                  + ("" if verdict.life_margin is None else f", margin {format_number(verdict.life_margin, 3)}"))
     t.add_row("life, cycles", _life(result.life_cycles, "cycles"))
     t.add_row("life, blocks", _life(result.life_blocks, "blocks of the duty"))
     if d.duty.blocks_per_day:
-        t.add_row("life, days", _life(result.life_days, "days") + f" at {d.duty.blocks_per_day:g} blocks per day")
+        t.add_row("life, days", _life(result.life_days, "days") + f" at {per_day(d.duty.blocks_per_day)}")
     t.add_row("damage", f"{result.damage_per_block:.3g} per block (Miner limit {d.miner_limit:g})")
     t.add_row("rule", f"mean stress {d.mean_stress}, stress factor {d.stress_factor:g}")
     t.add_row("critical mode", c.mode)
     t.add_row("critical ply", f"ply {c.ply} ({ply.material.name}, {ply.angle:g}°), {c.face} face")
-    t.add_row("critical place", f"x = {c.x_m * 1e3:.1f} mm from the root, z = {c.z_m * 1e3:+.2f} mm")
-    t.add_row("stiffness", f"{s['stiffness_n_per_m'] / 1e3:.4g} N/mm at the load point")
-    t.add_row("mass", f"{s['mass_kg'] * 1e3:.4g} g")
+    t.add_row("critical place", f"x = {display.both(c.x_m, 'position')} {where}, "
+                                f"z = {display.both(c.z_m, 'position', signed=True)}")
+    t.add_row("stiffness", f"{display.both(s['stiffness_n_per_m'], 'stiffness')} at the load point")
+    t.add_row("mass", display.both(s["mass_kg"], "mass"))
     t.add_row("peak strain", f"{s['peak_strain'] * 100:.3g} % along the fibres")
-    t.add_row("peak energy", f"{s['peak_energy_j']:.4g} J at peak drive")
-    t.add_row("cycle energy", f"{s['cycle_energy_j']:.4g} J in the largest cycle")
-    t.add_row("specific energy", f"{s['specific_energy_j_per_kg']:.4g} J/kg, storage efficiency {s['energy_efficiency']:.3f}")
-    t.add_row("static reserve", f"{s['static_reserve']:.3g} ({result.static.criterion}) at x = "
-                                f"{result.static.x_m * 1e3:.0f} mm, ply {result.static.ply}")
+    t.add_row("peak energy", f"{display.both(s['peak_energy_j'], 'energy')} at peak drive")
+    t.add_row("cycle energy", f"{display.both(s['cycle_energy_j'], 'energy')} in the largest cycle")
+    t.add_row("specific energy", f"{display.both(s['specific_energy_j_per_kg'], 'specific_energy')}, "
+                                 f"storage efficiency {s['energy_efficiency']:.3f}")
+    reserve = "not checked" if s["static_reserve"] is None else f"{s['static_reserve']:.3g}"
+    t.add_row("static reserve", f"{reserve} ({result.static.criterion}) at x = "
+                                f"{display.both(result.static.x_m, 'position')} {where}, ply {result.static.ply}")
     return t
 
 
-def summary_text(result: LifeResult, example: bool = False) -> str:
-    """The run summary: a header, the table of figures, the warnings, and the caution as the last line."""
+def summary_text(result: LifeResult, example: bool = False, display: Display | None = None) -> str:
+    """The run summary: the verdict against the required life (when the design gives one), a header, the
+    table of figures, the warnings, and the caution as the last line.
+
+    display : the units to show; None: the design file's [report] units, else SI
+    """
     d = result.design
-    lines = [f"flexcycle — {d.title}" + ("  [bundled example, invented demo data]" if example else "")]
-    lines.append(f"  part  {d.beam.support}, span {d.beam.span * 1e3:.0f} mm, {len(d.beam.plies)} plies, "
+    display = display or display_for(None, d.units)
+    lines = []
+    verdict = verdict_text(result)
+    if verdict is not None:
+        lines.append(verdict)
+    lines.append(f"flexcycle — {d.title}" + ("  [bundled example, invented demo data]" if example else ""))
+    lines.append(f"  part  {d.beam.support}, span {display.both(d.beam.span, 'length')}, {len(d.beam.plies)} plies, "
                  f"section {d.beam.section}")
     lines.append(f"  duty  {d.duty.source}; {d.duty.cycles.n_total:g} cycles per block, {d.duty.drive} at the load point")
     lines.append("")
-    lines.append(_render(summary_table(result)))
+    lines.append(_render(summary_table(result, display)))
     if result.warnings:
         lines.append("")
         lines.append("warnings:")
@@ -126,19 +150,47 @@ def materials_text(lib: Mapping[str, Material]) -> str:
     return "\n".join(lines)
 
 
-def comparison_text(table: pd.DataFrame, duty: str = "each design with its own duty") -> str:
-    """The comparison as a table, one row per design in the order given, and the duty it used."""
+def comparison_text(table: pd.DataFrame, duty: str = "each design with its own duty",
+                    results: Sequence[LifeResult] | None = None, display: Display = SI) -> str:
+    """The comparison: the duty, whether and why the designs are ranked, the two tables of
+    ``flexcycle.explore.compare.display_rows`` (life, verdict, static reserve, critical place, warnings; mass,
+    stiffness, energy), then each design's warnings. Without ``results`` (the table alone) one short table."""
+    if results is None:
+        return _comparison_table_only(table, duty)
+    from flexcycle.explore.compare import display_rows
+
+    shown = display_rows(table, results, display)
+    parts = [f"duty: {duty}", shown["note"], ""]
+    parts += [f"  #{i} {r.design.title}" for i, r in enumerate(results, start=1)]
+    for key in ("life", "figures"):
+        header, rows = shown[key]
+        keep = [k for k, name in enumerate(header) if name != "title"]  # the titles are listed above
+        t = Table(box=box.SIMPLE_HEAD, show_edge=False, pad_edge=False)
+        for k in keep:  # a header wraps at its spaces; a number or a mode is never broken
+            name = escape(header[k]).replace(" \\[", "\n\\[").replace(" (", "\n(")  # units on their own lines
+            t.add_column(name, min_width=max(len(str(row[k])) for row in rows), overflow="fold")
+        for row in rows:
+            t.add_row(*(escape(str(row[k])) for k in keep))
+        parts += ["", _render(t, width=COMPARISON_WIDTH)]
+    warned = [(i, r) for i, r in enumerate(results, start=1) if r.warnings]
+    if warned:
+        parts += ["", "warnings:"]
+        for i, r in warned:
+            parts.extend(f"  #{i} {w}" for w in r.warnings)
+    return "\n".join(parts)
+
+
+def _comparison_table_only(table: pd.DataFrame, duty: str) -> str:
     def fmt(v, scale=1.0):
         return "unbounded" if v is None or v != v else f"{v * scale:.4g}"
 
     t = Table(box=box.SIMPLE_HEAD, show_edge=False, pad_edge=False)
     for name, justify in [("design", "left"), ("life blocks", "right"), ("life cycles", "right"), ("mass g", "right"),
-                          ("k N/mm", "right"), ("U peak J", "right"), ("J/kg", "right"), ("critical", "left")]:
-        # numbers and the mode are never broken; the title wraps at its spaces
+                          ("k N/mm", "right"), ("reserve", "right"), ("critical", "left")]:
         t.add_column(name, justify=justify, overflow="fold", no_wrap=name != "design", ratio=1 if name == "design" else None)
     for r in table.astype(object).where(table.notna(), None).itertuples(index=False):
         t.add_row(r.title, fmt(r.life_blocks), fmt(r.life_cycles), fmt(r.mass_kg, 1e3), fmt(r.stiffness_n_per_m, 1e-3),
-                  fmt(r.peak_energy_j), fmt(r.specific_energy_j_per_kg), str(r.critical_mode))
+                  fmt(r.static_reserve), str(r.critical_mode))
     return f"duty: {duty}\n" + _render(t)
 
 
