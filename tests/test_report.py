@@ -108,7 +108,7 @@ def test_critical_by_hand(wide):
     """The hand result of wide_cantilever(): ply 4 at the root, fibre-compression, shown in the report."""
     result, page = wide
     assert (result.critical.ply, result.critical.mode, result.critical.x_m) == (4, "fibre-compression", 0.0)
-    assert "fibre-compression, ply 4 (report-glass, 0°), top face, x = 0.0 mm" in page
+    assert "fibre-compression, ply 4 (report-glass, 0°), top face, x = 0 mm from the root" in page
 
 
 FIGURES = {  # figure number: what its axes say (issue 4, figures a–f, plus the layup drawing)

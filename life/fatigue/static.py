@@ -12,6 +12,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from flexcycle.design import Design
+from flexcycle.display import SI, from_where
 from flexcycle.fatigue.damage import FACES
 from flexcycle.mechanics.beam import BeamResponse
 from flexcycle.mechanics.strength import (
@@ -130,6 +131,7 @@ def static_check(design: Design, response: BeamResponse, force_per_drive: float)
     if check.reserve < 1.0:
         notes.append(
             f"static strength exceeded: reserve {check.reserve:.2f} ({check.criterion}, {check.place.mode}) at "
-            f"x = {check.x_m * 1e3:.0f} mm, ply {check.ply}, at the duty extreme {check.drive:g} (SI): life is zero"
+            f"x = {check.x_m * 1e3:.0f} mm {from_where(design.beam.support)}, ply {check.ply}, at the duty extreme "
+            f"{SI.drive(check.drive, design.duty.drive)}: life is zero"
         )
     return check, notes

@@ -17,6 +17,7 @@ from matplotlib.colors import LogNorm
 from matplotlib.figure import Figure
 from matplotlib.patches import Rectangle
 
+from flexcycle.display import SI, Display, from_where
 from flexcycle.estimate import LifeResult
 from flexcycle.fatigue.damage import FACES, FIRST_LOAD_FAILURE, cycle_lives
 from flexcycle.fatigue.meanstress import (
@@ -29,7 +30,6 @@ from flexcycle.fatigue.meanstress import (
 from flexcycle.report.data import (
     critical_index,
     cycles_of_table,
-    drive_unit,
     drop_positions,
     force_deflection,
     peak_force,
@@ -39,51 +39,74 @@ from flexcycle.report.style import CRITICAL_COLOUR, DROP_COLOUR, PALETTE, STYLE,
 from flexcycle.spectra.streaming import minmax_envelope
 
 
-def _mark_drops(ax, result: LifeResult, label: bool = True) -> None:
-    """Dashed vertical lines at the ply drops (x in mm); the first labelled "ply drop" when ``label``."""
+def _mark_drops(ax, result: LifeResult, label: bool = True, display: Display = SI) -> None:
+    """Dashed vertical lines at the ply drops (x in the display's length unit); the first labelled "ply drop"
+    when ``label``."""
     for k, x in enumerate(drop_positions(result)):
-        ax.axvline(x * 1e3, color=DROP_COLOUR, lw=0.9, ls=(0, (4, 3)), label="ply drop" if (label and k == 0) else None)
+        ax.axvline(x * display.scale("position"), color=DROP_COLOUR, lw=0.9, ls=(0, (4, 3)), label="ply drop" if (label and k == 0) else None)
 
 
-def figure_layup(result: LifeResult) -> Figure:
-    """Side view of the stack along the span (each ply to its drop) and the planform (width taper)."""
+LAYUP_SIZE = (7.5, 4.6)  # inch; the stack's axes take about 80 % of the width and 2.1 inch of the height
+
+
+def layup_exaggeration(result: LifeResult) -> float:
+    """How many times the layup figure stretches the thickness against the length (1: drawn to scale) [-]."""
     beam = result.design.beam
-    L = beam.length * 1e3
+    height = float(np.max(result.response.thickness))
+    axes_width, axes_height = 0.8 * LAYUP_SIZE[0], 2.1  # inch, as laid out by figure_layup
+    return (axes_height / height) / (axes_width / beam.length)
+
+
+def figure_layup(result: LifeResult, display: Display = SI) -> Figure:
+    """Side view of the stack along the span (each ply to its drop, the plies above a drop closing over it)
+    and the planform (width taper)."""
+    beam, resp = result.design.beam, result.response
+    scale = display.scale("position")
+    unit = display.unit("position")
+    L = beam.length * scale
     materials = list(dict.fromkeys(p.material.name for p in beam.plies))
     colour = {name: PALETTE[i % len(PALETTE)] for i, name in enumerate(materials)}
     with matplotlib.rc_context(STYLE):
-        fig, (a1, a2) = figure_with_axes((7.5, 4.6), 2, 1, sharex=True, gridspec_kw={"height_ratios": [3, 1.4]})
-        z = 0.0
-        for _k, p in enumerate(beam.plies, start=1):
-            end = L if p.ends_at is None else p.ends_at * 1e3
-            shade = 0.95 if p.angle % 180 == 0 else 0.55
-            a1.add_patch(Rectangle((0, z), end, p.thickness * 1e3, facecolor=colour[p.material.name], alpha=shade,
-                                   edgecolor="white", lw=0.6))
-            if p.ends_at is not None:
-                a1.plot([end, end], [z, z + p.thickness * 1e3], color="k", lw=1.2)
-            z += p.thickness * 1e3
+        fig, (a1, a2) = figure_with_axes(LAYUP_SIZE, 2, 1, sharex=True, gridspec_kw={"height_ratios": [3, 1.4]})
+        top = 0.0
+        for seg in np.unique(resp.segment):  # each stretch between drops: its plies stacked without gaps
+            rows = np.flatnonzero(resp.segment == seg)
+            x0, x1 = resp.x[rows].min() * scale, resp.x[rows].max() * scale
+            k = rows[0]
+            present = np.flatnonzero(resp.present[k])
+            base = resp.z[k, present[0], 0]
+            for j in present:
+                p = beam.plies[j]
+                z0, z1 = (resp.z[k, j] - base) * scale
+                shade = 0.95 if p.angle % 180 == 0 else 0.55
+                a1.add_patch(Rectangle((x0, z0), x1 - x0, z1 - z0, facecolor=colour[p.material.name], alpha=shade,
+                                       edgecolor="white", lw=0.6))
+                top = max(top, z1)
+        for x in drop_positions(result):
+            a1.axvline(x * scale, color="k", lw=1.0)
         a1.set_xlim(-0.02 * L, 1.02 * L)
-        a1.set_ylim(-0.05 * z, 1.05 * z)
-        a1.set_ylabel("height from the tension face [mm]")
-        a1.set_title("stack along the span (thickness exaggerated); pale = off-axis ply")
+        a1.set_ylim(-0.05 * top, 1.05 * top)
+        a1.set_ylabel(f"height from the tension face [{unit}]")
+        factor = layup_exaggeration(result)
+        how = f"thickness exaggerated ×{factor:.3g}" if factor > 1.5 else "drawn to scale"
+        a1.set_title(f"stack along the span ({how}); pale = off-axis ply")
         for name in materials:
             a1.add_patch(Rectangle((0, 0), 0, 0, facecolor=colour[name], label=name))
         a1.text(0.99, 0.02, "tension face under positive drive ↓", transform=a1.transAxes, ha="right", va="bottom",
                 fontsize=7.5, color="#555")
         a1.legend(loc="lower right", bbox_to_anchor=(1.0, 1.06), ncol=min(3, len(materials)))
-        _mark_drops(a1, result, label=False)
-        x = np.linspace(0, L, 50)
-        half = beam.width(x / 1e3) * 1e3 / 2
-        a2.fill_between(x, -half, half, color=PALETTE[2], alpha=0.35, lw=0)
-        a2.plot(x, half, color=PALETTE[2]), a2.plot(x, -half, color=PALETTE[2])
-        a2.set_ylabel("width [mm]")
-        a2.set_xlabel("distance from the root x [mm]")
+        x = np.linspace(0, beam.length, 50)
+        half = beam.width(x) * scale / 2
+        a2.fill_between(x * scale, -half, half, color=PALETTE[2], alpha=0.35, lw=0)
+        a2.plot(x * scale, half, color=PALETTE[2]), a2.plot(x * scale, -half, color=PALETTE[2])
+        a2.set_ylabel(f"width [{unit}]")
+        a2.set_xlabel(f"distance {from_where(beam.support)} x [{unit}]")
         a2.set_title("planform", fontsize=9)
-        _mark_drops(a2, result, label=False)
+        _mark_drops(a2, result, label=False, display=display)
         return arrange(fig, top=0.6, hspace=0.35)
 
 
-def figure_force_deflection(result: LifeResult) -> Figure:
+def figure_force_deflection(result: LifeResult, display: Display = SI) -> Figure:
     """(a) Force against load-point deflection over the duty's range, the energy at the peak drive shaded."""
     fd = force_deflection(result)
     lo, hi = result.design.duty.extremes
@@ -91,26 +114,28 @@ def figure_force_deflection(result: LifeResult) -> Figure:
     peak = peak_force(result)
     with matplotlib.rc_context(STYLE):
         fig, ax = figure_with_axes((6.2, 3.6))
-        ax.plot(fd.deflection * 1e3, fd.force, color=PALETTE[0], label=f"k = {result.response.stiffness / 1e3:.4g} N/mm")
+        length, force = display.scale("deflection"), display.scale("force")
+        ax.plot(fd.deflection * length, fd.force * force, color=PALETTE[0],
+                label=f"k = {display.both(result.response.stiffness, 'stiffness')}")
         f_fill = np.linspace(0.0, peak, 50)
-        ax.fill_between(f_fill * C * 1e3, 0, f_fill, color=PALETTE[3], alpha=0.35,
-                        label=f"stored at the peak drive: U = {result.storage.energy:.4g} J")
+        ax.fill_between(f_fill * C * length, 0, f_fill * force, color=PALETTE[3], alpha=0.35,
+                        label=f"stored at the peak drive: U = {display.both(result.storage.energy, 'energy')}")
         for d in sorted({lo, hi}):
-            ax.plot(d * fpd * C * 1e3, d * fpd, "o", color=PALETTE[1], ms=5)
+            ax.plot(d * fpd * C * length, d * fpd * force, "o", color=PALETTE[1], ms=5)
         ax.plot([], [], "o", color=PALETTE[1], ms=5, label="duty extremes")
         ax.axhline(0, color="#999", lw=0.6), ax.axvline(0, color="#999", lw=0.6)
-        ax.set_xlabel("load-point deflection δ [mm]")
-        ax.set_ylabel("load-point force F [N]")
+        ax.set_xlabel(f"load-point deflection δ [{display.unit('deflection')}]")
+        ax.set_ylabel(f"load-point force F [{display.unit('force')}]")
         ax.set_title("force–deflection over the duty (linear theory)")
-        ax.legend(loc="upper left")
-        return arrange(fig)
+        ax.legend(loc="upper left", bbox_to_anchor=(1.01, 1.0))
+        return arrange(fig, right=2.4)
 
 
-def figure_strain_envelope(result: LifeResult) -> Figure:
+def figure_strain_envelope(result: LifeResult, display: Display = SI) -> Figure:
     """(b) Fibre strain ε1 along the span at both outer faces, over the whole duty; drops and critical marked."""
     env = span_envelope(result)
     c = result.critical
-    x = env.x * 1e3
+    x = env.x * display.scale("position")
     with matplotlib.rc_context(STYLE):
         fig, ax = figure_with_axes((7.5, 3.6))
         ax.fill_between(x, env.bottom[:, 0] * 100, env.bottom[:, 1] * 100, color=PALETTE[0], alpha=0.35, lw=0)
@@ -120,54 +145,69 @@ def figure_strain_envelope(result: LifeResult) -> Figure:
         ax.plot(x, env.top[:, 0] * 100, color=PALETTE[2], lw=1.2, ls="--", label="top face")
         ax.plot(x, env.top[:, 1] * 100, color=PALETTE[2], lw=1.2, ls="--")
         ax.axhline(0, color="#999", lw=0.6)
-        _mark_drops(ax, result)
-        ax.axvline(c.x_m * 1e3, color=CRITICAL_COLOUR, lw=1.4, label=f"critical: {c.mode}, ply {c.ply}, {c.face} face")
-        ax.set_xlabel("distance from the root x [mm]")
+        _mark_drops(ax, result, display=display)
+        ax.axvline(c.x_m * display.scale("position"), color=CRITICAL_COLOUR, lw=1.4,
+                   label=f"critical: {c.mode},\nply {c.ply}, {c.face} face")
+        ax.set_xlabel(f"distance {from_where(result.design.beam.support)} x [{display.unit('position')}]")
         ax.set_ylabel("fibre strain ε1 [%]")
         ax.set_title("fibre-strain envelope along the span over the duty (band: min to max)")
-        ax.legend(loc="best")
-        return arrange(fig)
+        ax.legend(loc="upper left", bbox_to_anchor=(1.01, 1.0))  # beside the axes: never over a curve
+        return arrange(fig, right=2.0)
 
 
-def figure_through_thickness(result: LifeResult) -> Figure:
-    """(c) Ply-axis strain and stress through the thickness at the critical station, at the peak drive."""
+def figure_through_thickness(result: LifeResult, display: Display = SI) -> Figure:
+    """(c) Ply-axis strain and stress through the thickness at the critical station, at the peak drive, with
+    the transverse shear τxz (interlaminar, or a core's shear) beside the in-plane stresses."""
     resp, c = result.response, result.critical
     peak = peak_force(result)
     k = c.station
     present = np.flatnonzero(resp.present[k])
     with matplotlib.rc_context(STYLE):
         fig, (a1, a2) = figure_with_axes((7.5, 4.0), 1, 2, sharey=True)
-        z = resp.z[k, present] * 1e3  # (ply, face): each ply a straight segment between its faces
-        for ax, field, factor in ((a1, resp.strain_12, peak * 100), (a2, resp.stress_12, peak / 1e6)):
+        zs = display.scale("position")
+        stress = display.scale("stress")
+        z = resp.z[k, present] * zs  # (ply, face): each ply a straight segment between its faces
+        for ax, field, factor in ((a1, resp.strain_12, peak * 100), (a2, resp.stress_12, peak * stress)):
             for comp, colour, width in ((0, PALETTE[0], 1.6), (1, PALETTE[3], 1.6), (2, PALETTE[4], 1.0)):
                 values = field[k, present, :, comp] * factor
                 ax.add_collection(LineCollection(np.stack([values, z], axis=-1), colors=colour, linewidths=width))
             ax.autoscale_view()
+        # τxz through each ply: bottom face, interior peak (the neutral axis when inside), top face
+        tau_z = np.stack([resp.z[k, present, 0], resp.z_tau_peak[k, present], resp.z[k, present, 1]], axis=1) * zs
+        tau = np.stack([resp.tau_xz[k, present, 0], resp.tau_xz_peak[k, present], resp.tau_xz[k, present, 1]],
+                       axis=1) * peak * stress
+        order = np.argsort(tau_z, axis=1)
+        tau_z, tau = np.take_along_axis(tau_z, order, 1), np.take_along_axis(tau, order, 1)
+        a2.add_collection(LineCollection(np.stack([tau, tau_z], axis=-1), colors=PALETTE[5], linewidths=1.3,
+                                         linestyles="--"))
+        a2.autoscale_view()
         for ax in (a1, a2):
             left, right = ax.get_xlim()
             ax.hlines(np.unique(z.ravel()), left, right, colors="#c9c3b5", lw=0.5, zorder=1)
             ax.set_xlim(left, right)
             if c.station == k:
-                lo_z, hi_z = resp.z[k, c.ply - 1] * 1e3
+                lo_z, hi_z = resp.z[k, c.ply - 1] * zs
                 ax.axhspan(lo_z, hi_z, color=CRITICAL_COLOUR, alpha=0.12)
             ax.axvline(0, color="#999", lw=0.6)
             ax.grid(axis="y", visible=False)
         a1.plot([], [], color=PALETTE[0], label="ε1 / σ1 (fibre)")
         a1.plot([], [], color=PALETTE[3], label="ε2 / σ2 (transverse)")
         a1.plot([], [], color=PALETTE[4], lw=1.0, label="γ12 / τ12 (shear)")
+        a1.plot([], [], color=PALETTE[5], lw=1.3, ls="--", label="τxz (interlaminar or core shear)")
         a1.fill_between([], [], color=CRITICAL_COLOUR, alpha=0.12, label=f"critical ply {c.ply}")
-        a1.legend(loc="best")
+        fig.legend(*a1.get_legend_handles_labels(), loc="upper left", bbox_to_anchor=(0.80, 0.88))
         a1.set_xlabel("ply-axis strain [%]")
-        a1.set_ylabel("z from the mid-plane [mm] (thin lines: ply boundaries)")
-        a2.set_xlabel("ply-axis stress [MPa]")
-        a1.set_title(f"at x = {c.x_m * 1e3:.1f} mm, peak drive force {peak:.4g} N")
-        return arrange(fig, wspace=0.08)
+        a1.set_ylabel(f"z from the mid-plane [{display.unit('position')}] (thin lines: ply boundaries)")
+        a2.set_xlabel(f"ply-axis stress [{display.unit('stress')}] (dashed: τxz)")
+        a1.set_title(f"at x = {display.value(c.x_m, 'position')} {from_where(result.design.beam.support)}, "
+                     f"peak drive force {display.value(peak, 'force')}")
+        return arrange(fig, wspace=0.08, right=1.7)
 
 
-def figure_duty(result: LifeResult, cycles: pd.DataFrame) -> Figure:
+def figure_duty(result: LifeResult, cycles: pd.DataFrame, display: Display = SI) -> Figure:
     """(d) The drive history (min/max envelope of at most 2000 bins) and the rainflow matrix (range × mean)."""
     duty = result.design.duty
-    unit, scale = drive_unit(duty.drive)
+    unit, scale = drive_display(duty.drive, display)
     rng = (cycles["max"] - cycles["min"]).to_numpy() * scale
     mean = 0.5 * (cycles["max"] + cycles["min"]).to_numpy() * scale
     count = cycles["count"].to_numpy(float)
@@ -212,7 +252,7 @@ def _equivalent_amplitude(model, sa: np.ndarray, sm: np.ndarray) -> np.ndarray:
     return sa
 
 
-def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame) -> Figure:
+def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame, display: Display = SI) -> Figure:
     """(e) The critical location's fatigue curve (or constant-life diagram) with the duty's cycles there."""
     locs, d = result.locations, result.design
     k = critical_index(result)
@@ -226,7 +266,7 @@ def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame) -> Figure:
             return arrange(fig)
         model = locs.models[m]
         strain = model.curves[0].basis == "strain"
-        ys, yunit = (100.0, "%") if strain else (1e-6, "MPa")
+        ys, yunit = (100.0, "%") if strain else (display.scale("stress"), display.unit("stress"))
         cyc = cycles_of_table(cycles)
         s = locs.response[k] * result.force_per_drive * d.stress_factor
         a, b = s * cyc.lo, s * cyc.hi
@@ -234,7 +274,8 @@ def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame) -> Figure:
         sa, sm = 0.5 * (hi - lo), 0.5 * (hi + lo)
         N = cycle_lives(locs, k, cyc, result.force_per_drive, d.stress_factor)
         live = sa > 0
-        where = f"{locs.mode[k]}, ply {locs.ply[k] + 1}, {FACES[locs.face[k]]} face, x = {result.response.x[locs.station[k]] * 1e3:.1f} mm"
+        where = (f"{locs.mode[k]}, ply {locs.ply[k] + 1}, {FACES[locs.face[k]]} face, "
+                 f"x = {display.value(result.response.x[locs.station[k]], 'position')}")
         if model.rule == "cld":
             order = sorted(model.curves, key=lambda cv: mean_ratio(cv.R))
             for i, life in enumerate([1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9]):
@@ -248,8 +289,8 @@ def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame) -> Figure:
             ax.set_xlabel(f"mean [{yunit}]")
             ax.set_ylabel(f"amplitude [{yunit}]")
             ax.set_title(f"constant-life diagram at the critical location ({where})")
-            ax.legend(loc="upper right", ncol=2)
-            return arrange(fig, right=0.4)
+            ax.legend(loc="upper left", bbox_to_anchor=(1.25, 1.0))
+            return arrange(fig, right=1.9)
         curve = model.curves[0]
         seq = _equivalent_amplitude(model, sa, sm)
         finite = np.isfinite(N) & (N > 0) & live
@@ -257,10 +298,12 @@ def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame) -> Figure:
         grid = np.logspace(0, np.log10(n_max), 200)
         ax.plot(grid, curve.amplitude(grid) * ys, color=PALETTE[0], lw=2,
                 label=f"{curve.form} curve at R = {curve.R:g}" + (f", limit {curve.limit * ys:.3g} {yunit}" if curve.limit else ""))
-        order = np.argsort(-seq)
-        cum = np.cumsum(cyc.count[order])
-        ax.step(cum, seq[order] * ys, where="post", color=PALETTE[3], lw=1.3,
-                label="duty: cycles per block at or above the amplitude")
+        order = np.argsort(-seq[live])
+        cum = np.cumsum(cyc.count[live][order])
+        levels = seq[live][order] * ys
+        if levels.size:  # from N = 0.5: a constant-amplitude duty (one level) is a visible line, not a lone point
+            ax.step(np.r_[0.5, cum], np.r_[levels, levels[-1:]], where="post", color=PALETTE[3], lw=1.3,
+                    label="duty: cycles per block at or\nabove the amplitude")
         if finite.any():
             dmg = cyc.count[finite] / N[finite]
             ax.scatter(N[finite], seq[finite] * ys, s=10 + 60 * dmg / dmg.max(), color=PALETTE[1], alpha=0.8, zorder=3,
@@ -279,34 +322,35 @@ def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame) -> Figure:
         ax.set_xlabel("cycles N (to failure for the curve; cumulative count for the duty)")
         ax.set_ylabel(f"amplitude at R = {curve.R:g} [{yunit}]")
         ax.set_title(f"fatigue curve at the critical location ({where})", fontsize=9)
-        ax.legend(loc="upper right")
-        return arrange(fig)
+        ax.legend(loc="upper left", bbox_to_anchor=(1.01, 1.0), fontsize=7.5)  # beside the axes: never over a curve
+        return arrange(fig, right=2.3)
 
 
-def figure_damage(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame) -> Figure:
+def figure_damage(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame, display: Display = SI) -> Figure:
     """(f) Damage per block along the span (largest per mode at each station) and by drive range at the critical location."""
     d = result.design
-    unit, scale = drive_unit(d.duty.drive)
+    unit, scale = drive_display(d.duty.drive, display)
+    xs = display.scale("position")
     with matplotlib.rc_context(STYLE):
         fig, (a1, a2) = figure_with_axes((7.5, 5.8), 2, 1)
         drawn = False
         for mode, group in locations.groupby("mode"):
             per = group.groupby("x_m")["damage_per_block"].max()
             if (per > 0).any():
-                a1.semilogy(per.index * 1e3, per.where(per > 0), marker=".", ms=4, label=mode)
+                a1.semilogy(per.index * xs, per.where(per > 0), marker=".", ms=4, label=mode)
                 drawn = True
         if drawn:
             top = max(float(locations["damage_per_block"].max()), d.miner_limit)
             a1.set_ylim(top * 1e-9, top * 5)  # nine decades: smaller damage is round-off of a zero component
         else:
             a1.text(0.5, 0.5, "no location takes fatigue damage", ha="center", va="center", transform=a1.transAxes)
-        _mark_drops(a1, result)
-        a1.axvline(result.critical.x_m * 1e3, color=CRITICAL_COLOUR, lw=1.2, label="critical station")
+        _mark_drops(a1, result, display=display)
+        a1.axvline(result.critical.x_m * xs, color=CRITICAL_COLOUR, lw=1.2, label="critical station")
         a1.axhline(d.miner_limit, color="#555", lw=0.8, ls=":", label=f"Miner limit {d.miner_limit:g}")
-        a1.set_xlabel("distance from the root x [mm]")
+        a1.set_xlabel(f"distance {from_where(d.beam.support)} x [{display.unit('position')}]")
         a1.set_ylabel("damage per block")
         a1.set_title("damage along the span (largest of each mode)")
-        a1.legend(loc="best", ncol=2)
+        a1.legend(loc="upper left", bbox_to_anchor=(1.01, 1.0))  # beside the axes: never over a curve
         cyc = cycles_of_table(cycles)
         k = critical_index(result)
         N = cycle_lives(result.locations, k, cyc, result.force_per_drive, d.stress_factor)
@@ -328,18 +372,24 @@ def figure_damage(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFr
         a3.set_ylabel("cycles per block (line)", color=PALETTE[2])
         a3.grid(False)
         a2.set_title("damage by cycle range at the critical location")
-        return arrange(fig, right=0.7, hspace=0.45)
+        return arrange(fig, right=1.9, hspace=0.45)
 
 
-# The report's figures in their order, each drawn from (result, cycles, locations).
-FIGURE_MAKERS: dict[str, Callable[[LifeResult, pd.DataFrame, pd.DataFrame], Figure]] = {
-    "layup": lambda result, cycles, locations: figure_layup(result),
-    "duty": lambda result, cycles, locations: figure_duty(result, cycles),
-    "force-deflection": lambda result, cycles, locations: figure_force_deflection(result),
-    "strain-envelope": lambda result, cycles, locations: figure_strain_envelope(result),
-    "through-thickness": lambda result, cycles, locations: figure_through_thickness(result),
-    "fatigue-curve": lambda result, cycles, locations: figure_fatigue_curve(result, cycles),
-    "damage": lambda result, cycles, locations: figure_damage(result, cycles, locations),
+def drive_display(drive: str, display: Display) -> tuple[str, float]:
+    """The unit and the scale of a drive (deflection or force) in the display's units."""
+    kind = "deflection" if drive == "deflection" else "force"
+    return display.unit(kind), display.scale(kind)
+
+
+# The report's figures in their order, each drawn from (result, cycles, locations) in the display's units.
+FIGURE_MAKERS: dict[str, Callable[..., Figure]] = {
+    "layup": lambda result, cycles, locations, display=SI: figure_layup(result, display),
+    "duty": lambda result, cycles, locations, display=SI: figure_duty(result, cycles, display),
+    "force-deflection": lambda result, cycles, locations, display=SI: figure_force_deflection(result, display),
+    "strain-envelope": lambda result, cycles, locations, display=SI: figure_strain_envelope(result, display),
+    "through-thickness": lambda result, cycles, locations, display=SI: figure_through_thickness(result, display),
+    "fatigue-curve": lambda result, cycles, locations, display=SI: figure_fatigue_curve(result, cycles, display),
+    "damage": lambda result, cycles, locations, display=SI: figure_damage(result, cycles, locations, display),
 }
 FIGURES = tuple(FIGURE_MAKERS)
 

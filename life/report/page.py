@@ -12,6 +12,7 @@ from datetime import UTC, datetime
 
 import pandas as pd
 
+from flexcycle.display import SI, Display
 from flexcycle.estimate import LifeResult
 from flexcycle.report.figures import FIGURE_MAKERS, FIGURES
 from flexcycle.report.sections import (
@@ -31,13 +32,14 @@ from flexcycle.report.texts import CSS
 
 
 def figure_svgs(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame,
-                names: Sequence[str] = FIGURES) -> dict[str, str]:
+                names: Sequence[str] = FIGURES, display: Display = SI) -> dict[str, str]:
     """The report's figures ``names`` (of FIGURES) as inline SVG, by name; cycles and locations as for report_html."""
-    return {name: to_svg(FIGURE_MAKERS[name](result, cycles, locations), name) for name in names}
+    return {name: to_svg(FIGURE_MAKERS[name](result, cycles, locations, display), name) for name in names}
 
 
 def report_html(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, locations: pd.DataFrame,
-                sizing: Sequence[tuple[str, str, str]] | None = None, svg: Mapping[str, str] | None = None) -> str:
+                sizing: Sequence[tuple[str, str, str]] | None = None, svg: Mapping[str, str] | None = None,
+                display: Display = SI) -> str:
     """Render the design-review report.
 
     cycles : pd.DataFrame — the counted cycles as in cycles.csv (min, max, count, energy_j; SI)
@@ -45,15 +47,16 @@ def report_html(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, locat
     locations : pd.DataFrame — the locations table as in locations.csv
     sizing : optional rows (quantity, before, after), strings, shown right after the results
     svg : the figures already drawn (`figure_svgs`), by name; None draws them here
+    display : the units every figure is shown in (inch-pound with SI beside, or SI); the files stay SI
     """
     if svg is None:
-        svg = figure_svgs(result, cycles, locations)
+        svg = figure_svgs(result, cycles, locations, display=display)
     stamp = datetime.now(UTC).strftime("%Y-%m-%d %H:%M UTC")
     body = "\n".join([
-        section_identification(result, stamp),
-        section_inputs(result, cycles, cycle_note, svg),
-        section_method(result),
-        section_results(result, cycles, locations, svg),
+        section_identification(result, stamp, display),
+        section_inputs(result, cycles, cycle_note, svg, display),
+        section_method(result, display),
+        section_results(result, cycles, locations, svg, display),
         section_sizing(sizing),
         section_warnings(result),
         section_cautions(result),

@@ -15,9 +15,12 @@ import numpy as np
 import pandas as pd
 
 from flexcycle.caution import CAUTION
+from flexcycle.display import SI, Display, format_number, from_where, per_day
 from flexcycle.estimate import LifeResult
-from flexcycle.report.data import drive_unit, drop_positions
+from flexcycle.report.data import drop_positions
+from flexcycle.report.figures import drive_display, layup_exaggeration
 from flexcycle.report.texts import CAUTIONS, LIMITS, METHODS, RULE_NAMES
+from flexcycle.requirement import verdict_of, verdict_text
 
 # ---------------------------------------------------------------------------------------------
 # Small helpers
@@ -80,12 +83,12 @@ def tool_version() -> str:
         return "unknown (not installed)"
 
 
-def stack_rows(plies) -> list[tuple]:
+def stack_rows(plies, display: Display = SI) -> list[tuple]:
     """One row per run of identical consecutive plies: numbers (count), material, angle, thickness, drop."""
     runs: list[list] = []  # [first, last, cells]
     for k, p in enumerate(plies, start=1):
-        cells = (p.material.name, f"{p.angle:g}", f"{p.thickness * 1e3:.3f}",
-                 "—" if p.ends_at is None else f"{p.ends_at * 1e3:g}")
+        cells = (p.material.name, f"{p.angle:g}", display.pair(p.thickness, "thickness"),
+                 "—" if p.ends_at is None else display.pair(p.ends_at, "position"))
         if runs and runs[-1][2] == cells:
             runs[-1][1] = k
         else:
@@ -96,7 +99,7 @@ def stack_rows(plies) -> list[tuple]:
 # ---------------------------------------------------------------------------------------------
 # Sections
 
-def section_identification(result: LifeResult, stamp: str) -> str:
+def section_identification(result: LifeResult, stamp: str, display: Display = SI) -> str:
     d = result.design
     profile = d.duty.profile_path
     rows = [
@@ -110,103 +113,118 @@ def section_identification(result: LifeResult, stamp: str) -> str:
     ]
     c, s = result.critical, result.summary()
     ply = d.beam.plies[c.ply - 1]
+    reserve = "not checked" if s["static_reserve"] is None else f"{s['static_reserve']:.3g}"
     glance = (f"Life {life_text(s['life_cycles'], 'cycles')} = {life_text(s['life_blocks'], 'blocks of the duty')}"
               + (f" = {life_text(s['life_days'], 'days')}" if d.duty.blocks_per_day else "")
               + f"; first failure: {c.mode}, ply {c.ply} ({ply.material.name}, {ply.angle:g}°), {c.face} face, "
-              f"x = {c.x_m * 1e3:.1f} mm; static reserve {s['static_reserve']:.3g}; "
+              f"x = {display.both(c.x_m, 'position')} {from_where(d.beam.support)}; static reserve {reserve}; "
               f"{len(result.warnings)} warning{'s' if len(result.warnings) != 1 else ''}.")
+    verdict, line = verdict_of(result), verdict_text(result)
+    verdict_html = "" if verdict is None else (
+        f'<div class="verdict {"meets" if verdict.meets_requirement else "short"}"><b>Verdict.</b> '
+        f"{escape_html(line)}</div>\n")
     return f"""<section id="identification">
 <h1>Design review: {escape_html(d.title)}</h1>
-<p class="sub">Fatigue-life and stored-energy estimate of a flexing composite beam, written by flexcycle.</p>
-<div class="glance"><b>Answer at a glance.</b> {escape_html(glance)}</div>
+<p class="sub">Fatigue-life and stored-energy estimate of a flexing composite beam, written by flexcycle.
+{"Inch-pound units, with SI in parentheses; the data files stay SI." if display.us else ""}</p>
+{verdict_html}<div class="glance"><b>Answer at a glance.</b> {escape_html(glance)}</div>
 <h2>1. Identification</h2>
 {table_html(rows, cls="kv")}
 </section>"""
 
 
-def _material_value(key: str, value) -> str:
+def _material_value(key: str, value, display: Display = SI) -> str:
     if value is None:
         return "—"
     if key == "density":
-        return f"{value:g} kg/m³"
+        return display.both(value, "density")
     if key == "thickness":
-        return f"{value * 1e3:g} mm"
+        return display.both(value, "thickness")
     if key in ("nu12",):
         return f"{value:g}"
     if key.startswith("eps"):
         return f"{value * 100:.3g} %"
     if key.startswith(("E", "G")):
-        return f"{value / 1e9:.4g} GPa"
-    return f"{value / 1e6:.4g} MPa"
+        return display.both(value, "modulus")
+    return display.both(value, "stress")
 
 
-def _materials(result: LifeResult) -> str:
+def _materials(result: LifeResult, display: Display = SI) -> str:
     out = []
     for m in result.design.materials.values():
-        rows = [(key, _material_value(key, getattr(m, key, None)), src) for key, src in m.sources.items()]
+        rows = [(key, _material_value(key, getattr(m, key, None), display), src) for key, src in m.sources.items()]
         out.append(f"<h4>{escape_html(m.name)} <span class=\"kind\">({escape_html(m.kind)})</span></h4><p>{escape_html(m.description)}</p>")
         out.append(table_html(rows, header=("value", "", "source"), cls="small"))
     return "\n".join(out)
 
 
-def section_inputs(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, svg: Mapping[str, str]) -> str:
+def section_inputs(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, svg: Mapping[str, str],
+                   display: Display = SI) -> str:
     d = result.design
     beam, duty = d.beam, d.duty
-    unit, scale = drive_unit(duty.drive)
-    width = (f"{beam.width_root * 1e3:g} mm" if beam.width_root == beam.width_tip
-             else f"{beam.width_root * 1e3:g} mm at the root → {beam.width_tip * 1e3:g} mm")
-    part = [("support", beam.support), ("span", f"{beam.span * 1e3:g} mm"), ("width", width),
-            ("section model", beam.section), ("laminate thickness at the root", f"{sum(p.thickness for p in beam.plies) * 1e3:.3f} mm"),
+    unit, scale = drive_display(duty.drive, display)
+    root = "mid-span" if beam.support in ("three-point", "four-point") else "the root"
+    width = (display.both(beam.width_root, "length") if beam.width_root == beam.width_tip
+             else f"{display.both(beam.width_root, 'length')} at {root} → {display.both(beam.width_tip, 'length')}")
+    part = [("support", beam.support), ("span", display.both(beam.span, "length")), ("width", width),
+            ("section model", beam.section),
+            (f"laminate thickness at {root}", display.both(sum(p.thickness for p in beam.plies), "length")),
             ("plies", str(len(beam.plies))), ("stations", str(result.response.x.size))]
     if beam.load_spacing:
-        part.append(("load spacing", f"{beam.load_spacing * 1e3:g} mm"))
+        part.append(("load spacing", display.both(beam.load_spacing, "length")))
     drops = drop_positions(result)
-    part.append(("ply drops", ", ".join(f"{x * 1e3:g} mm" for x in drops) if drops else "none"))
+    part.append(("ply drops", ", ".join(display.both(x, "position") for x in drops) + f" {from_where(beam.support)}"
+                 if drops else "none"))
     lo, hi = duty.extremes
     duty_rows = [
         ("drive", f"{duty.drive} at the load point"),
         ("source", duty.source),
         ("cycles per block", f"{duty.cycles.n_total:g}"),
-        ("drive range", f"{lo * scale:.4g} … {hi * scale:.4g} {unit}"),
+        ("drive range", f"{display.drive(lo, duty.drive)} … {display.drive(hi, duty.drive)}"),
         ("blocks per day", f"{duty.blocks_per_day:g}" if duty.blocks_per_day else "not given (no life in days)"),
         ("residue", duty.residue if duty.signal is not None else "— (block table)"),
         ("cycles.csv", cycle_note),
     ]
     top = cycles.assign(range=cycles["max"] - cycles["min"]).sort_values("range", ascending=False).head(10)
     cyc_rows = [(f"{r['min'] * scale:.4g}", f"{r['max'] * scale:.4g}", f"{r['range'] * scale:.4g}", f"{r['count']:g}",
-                 f"{r['energy_j']:.4g}") for _, r in top.iterrows()]
+                 display.pair(r["energy_j"], "energy")) for _, r in top.iterrows()]
+    factor = layup_exaggeration(result)
+    how = f"thickness is exaggerated ×{factor:.3g}" if factor > 1.5 else "thickness and length are drawn to scale"
     return f"""<section id="inputs">
 <h2>2. Inputs</h2>
 <h3>Beam and support</h3>
 {table_html(part, cls="kv")}
 <h3>Ply stack (from the tension face under positive drive)</h3>
-{table_html(stack_rows(beam.plies), header=("plies (count)", "material", "angle [°]", "thickness [mm]", "ends at [mm]"))}
-{figure_html(svg["layup"], "1", "The layup drawn along the span: each ply runs from the root to its drop (black end line); "
-         "thickness is exaggerated. Below, the planform: the width along the span.")}
+{table_html(stack_rows(beam.plies, display), header=("plies (count)", "material", "angle [°]",
+                                                    display.header("thickness", "thickness"),
+                                                    display.header(f"ends at ({from_where(beam.support)})", "position")))}
+{figure_html(svg["layup"], "1", f"The layup drawn along the span: each ply runs from {root} to its drop (black line), "
+         f"the plies above closing over it; {how}. Below, the planform: the width along the span.")}
 <h3>Materials and the source of every value</h3>
-{_materials(result)}
+{_materials(result, display)}
 <h3>Duty</h3>
 {table_html(duty_rows, cls="kv")}
 {figure_html(svg["duty"], "2", "The duty: one block of the drive history (decimated to a min/max envelope when long) "
          "and its rainflow matrix, cycles per block by range and mean (ASTM E1049-85 counting).")}
 <h4>Largest counted cycles</h4>
-{table_html(cyc_rows, header=(f"min [{unit}]", f"max [{unit}]", f"range [{unit}]", "count", "energy [J]"), cls="small")}
+{table_html(cyc_rows, header=(f"min [{unit}]", f"max [{unit}]", f"range [{unit}]", "count",
+                              display.header("energy", "energy")), cls="small")}
 </section>"""
 
 
-def _curve_text(curve) -> str:
+def _curve_text(curve, display: Display = SI) -> str:
     slope = f"m = {curve.m:g}" if curve.form == "power" else f"b = {curve.b:g} per decade"
     basis = "strain" if curve.basis == "strain" else "stress"
-    s1 = f"{curve.S1 * 100:.3g} %" if basis == "strain" else f"{curve.S1 / 1e6:.4g} MPa"
+    s1 = f"{curve.S1 * 100:.3g} %" if basis == "strain" else display.both(curve.S1, "stress")
     extra = ""
     if curve.limit is not None:
-        extra += ", limit " + (f"{curve.limit * 100:.3g} %" if basis == "strain" else f"{curve.limit / 1e6:.4g} MPa")
+        extra += ", limit " + (f"{curve.limit * 100:.3g} %" if basis == "strain" else display.both(curve.limit, "stress"))
     if curve.knee is not None:
         extra += f", knee {curve.knee:.3g} cycles"
     return f"{curve.form}, {basis} basis, R = {curve.R:g}, S1 = {s1}, {slope}{extra}; source: {curve.source}"
 
 
-def section_method(result: LifeResult) -> str:
+def section_method(result: LifeResult, display: Display = SI) -> str:
     d = result.design
     locs = result.locations
     curves = []
@@ -220,7 +238,7 @@ def section_method(result: LifeResult) -> str:
         seen.add(key)
         model = locs.models[m]
         for cv in model.curves:
-            curves.append((key[0], key[1], model.rule, _curve_text(cv)))
+            curves.append((key[0], key[1], model.rule, _curve_text(cv, display)))
     choices = [
         ("theory", "linear elastic, small deflection (ASTM D790 / D6272 consistent); every local stress is the drive "
                    "times a response per unit force, so the drive is counted once"),
@@ -244,40 +262,65 @@ def section_method(result: LifeResult) -> str:
 </section>"""
 
 
-def section_results(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame, svg: Mapping[str, str]) -> str:
+def _location_cells(locations: pd.DataFrame) -> tuple[list[tuple], str]:
+    """Amplitude and mean of the most damaged locations in MPa (stress-basis curves) or % (strain-basis),
+    and the unit for the header: one unit when the rows share it, else each cell carries its own."""
+    units = {"stress": ("MPa", 1e-6), "strain": ("%", 100.0), "none": ("MPa", 1e-6)}
+    shared = set(locations["basis"]) if "basis" in locations else {"stress"}
+    one = len({units[b][0] for b in shared}) == 1
+    cells = []
+    for _, r in locations.iterrows():
+        unit, scale = units.get(r.get("basis", "stress"), ("MPa", 1e-6))
+        tail = "" if one else f" {unit}"
+        cells.append((f"{r.amplitude * scale:.4g}{tail}", f"{r['mean'] * scale:.4g}{tail}"))
+    header = units[next(iter(shared))][0] if one and shared else "MPa or %"
+    return cells, header
+
+
+def section_results(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame, svg: Mapping[str, str],
+                    display: Display = SI) -> str:
     d, s, c = result.design, result.summary(), result.critical
     ply = d.beam.plies[c.ply - 1]
+    where = from_where(d.beam.support)
     life = [
         ("life in cycles", life_text(s["life_cycles"], "cycles")),
         ("life in blocks of the duty", life_text(s["life_blocks"], "blocks")),
-        ("life in days", life_text(s["life_days"], "days") + f" at {d.duty.blocks_per_day:g} blocks per day"
+        ("life in days", life_text(s["life_days"], "days") + f" at {per_day(d.duty.blocks_per_day)}"
          if d.duty.blocks_per_day else "— (no blocks_per_day given)"),
         ("damage per block", f"{s['damage_per_block']:.3g} (Miner limit {d.miner_limit:g})"),
         ("critical", f"{c.mode}, ply {c.ply} ({ply.material.name}, {ply.angle:g}°), {c.face} face, "
-                     f"x = {c.x_m * 1e3:.1f} mm, z = {c.z_m * 1e3:+.2f} mm"),
+                     f"x = {display.both(c.x_m, 'position')} {where}, z = {display.both(c.z_m, 'position', signed=True)}"),
     ]
+    verdict = verdict_of(result)
+    if verdict is not None:
+        life.insert(0, ("required life", f"{format_number(verdict.required_life_blocks)} blocks"
+                        + (f" ({d.required_life_text})" if d.required_life_text else "")
+                        + (": met" if verdict.meets_requirement else ": NOT met")
+                        + ("" if verdict.life_margin is None else
+                           f", margin {format_number(verdict.life_margin, 3)} (life / required)")))
     static = [(name, "not checked" if v is None or not np.isfinite(v) else f"{v:.3g}",
                "governs" if name == result.static.criterion else "") for name, v in result.static.by_criterion.items()]
     st = result.static
     figures = [
-        ("stiffness at the load point", quantity(s["stiffness_n_per_m"], "N/mm", scale=1e-3)),
-        ("mass", quantity(s["mass_kg"], "g", scale=1e3)),
+        ("stiffness at the load point", display.both(s["stiffness_n_per_m"], "stiffness")),
+        ("mass", display.both(s["mass_kg"], "mass")),
         ("peak fibre strain |ε1|", quantity(s["peak_strain"], "%", scale=100, digits=3)),
-        ("energy at the peak drive", quantity(s["peak_energy_j"], "J")),
-        ("energy in the largest cycle", quantity(s["cycle_energy_j"], "J")),
-        ("specific energy", quantity(s["specific_energy_j_per_kg"], "J/kg")),
+        ("energy at the peak drive", display.both(s["peak_energy_j"], "energy")),
+        ("energy in the largest cycle", display.both(s["cycle_energy_j"], "energy")),
+        ("specific energy", display.both(s["specific_energy_j_per_kg"], "specific_energy")),
         ("energy-storage efficiency", f"{s['energy_efficiency']:.3f}"),
     ]
     worst = locations.sort_values("damage_per_block", ascending=False).head(10)
-    loc_rows = [(f"{r.x_m * 1e3:.1f}", r.ply, r.material, r.face, r["mode"], f"{r.amplitude:.4g}", f"{r['mean']:.4g}",
-                 f"{r.damage_per_block:.3g}") for _, r in worst.iterrows()]
+    cells, local_unit = _location_cells(worst)
+    loc_rows = [(display.pair(r.x_m, "position"), r.ply, r.material, r.face, r["mode"], amplitude, mean,
+                 f"{r.damage_per_block:.3g}") for (_, r), (amplitude, mean) in zip(worst.iterrows(), cells)]
     return f"""<section id="results">
 <h2>4. Results</h2>
 <h3>Life and the critical place</h3>
 {table_html(life, cls="kv")}
 <h3>Static reserves (first-ply failure at the worst duty extreme)</h3>
-<p>Smallest reserve {st.reserve:.3g} by {escape_html(st.criterion)} at x = {st.x_m * 1e3:.1f} mm, ply {st.ply}
-({escape_html(st.place.mode)}), at the drive extreme {st.drive:g} (SI).</p>
+<p>Smallest reserve {st.reserve:.3g} by {escape_html(st.criterion)} at x = {escape_html(display.both(st.x_m, "position"))}
+{where}, ply {st.ply} ({escape_html(st.place.mode)}), at the drive extreme {escape_html(display.drive(st.drive, d.duty.drive))}.</p>
 {table_html(static, header=("criterion", "reserve factor", ""), cls="small")}
 <h3>Stiffness, mass and energy</h3>
 {table_html(figures, cls="kv")}
@@ -292,8 +335,10 @@ def section_results(result: LifeResult, cycles: pd.DataFrame, locations: pd.Data
 {figure_html(svg["damage"], "7", "Miner damage per block along the span, and the share of the critical "
          "location's damage by drive range of the cycles.")}
 <h3>Most damaged locations</h3>
-<p>Amplitude and mean of the largest cycle, in the basis of the location's curve (Pa or strain).</p>
-{table_html(loc_rows, header=("x [mm]", "ply", "material", "face", "mode", "amplitude", "mean", "damage/block"), cls="small")}
+<p>Amplitude and mean of the largest cycle, in the basis of the location's curve: MPa for a stress-basis
+curve, % for a strain-basis one (locations.csv keeps them in Pa or as a ratio).</p>
+{table_html(loc_rows, header=(display.header(f"x ({where})", "position"), "ply", "material", "face", "mode",
+                              f"amplitude [{local_unit}]", f"mean [{local_unit}]", "damage/block"), cls="small")}
 </section>"""
 
 
@@ -312,11 +357,11 @@ def section_warnings(result: LifeResult) -> str:
     return f'<section id="warnings"><h2>5. Warnings</h2><ul class="warn">{warn}</ul></section>'
 
 
-def section_cautions(result: LifeResult) -> str:
+def section_cautions(result: LifeResult, display: Display = SI) -> str:
     items = "".join(f"<li>{escape_html(x)}</li>" for x in CAUTIONS)
     return f"""<section id="cautions"><h2>6. Cautions</h2>
 <div class="caution"><p><b>Caution.</b> {escape_html(CAUTION)}</p><ul>{items}</ul>
-<p>Peak stored energy of this part: {result.storage.energy:.4g} J.</p></div></section>"""
+<p>Peak stored energy of this part: {escape_html(display.both(result.storage.energy, "energy"))}.</p></div></section>"""
 
 
 def section_signoff() -> str:

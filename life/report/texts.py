@@ -60,6 +60,8 @@ td, th { border: 1px solid var(--rule); padding: 3px 8px; text-align: left; vert
 th { background: #f1eee6 } table.kv td:first-child { color: var(--muted); white-space: nowrap }
 table.small { font-size: 0.85em } td { overflow-wrap: break-word }
 .glance { background: #e8f2f1; border-left: 5px solid var(--accent); padding: 0.6em 1em; margin: 1em 0 }
+.verdict { padding: 0.6em 1em; margin: 1em 0; font-size: 1.05em } .verdict.meets { background: #e6f2e0; border-left: 5px solid #4c8a2e }
+.verdict.short { background: #fbe7e2; border-left: 5px solid #b5482f }
 .caution { background: var(--warm); border-left: 5px solid #c8861d; padding: 0.3em 1em }
 .warn li { color: #7a3300 } .checks { list-style: none; padding-left: 0.5em }
 figure { margin: 1.2em 0; break-inside: avoid; page-break-inside: avoid }
