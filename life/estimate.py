@@ -28,6 +28,7 @@ from flexcycle.fatigue.meanstress import model_warnings
 from flexcycle.fatigue.static import Critical, StaticCheck, static_check
 from flexcycle.mechanics.beam import BeamResponse, core_warnings, range_warnings, respond
 from flexcycle.mechanics.energy import StorageFigures, cycle_energy, force_per_drive, storage_figures
+from flexcycle.requirement import verdict_of
 
 IMPLAUSIBLE_STRAIN = 0.2  # a fibre strain no structural composite or wood reaches (common practice): an input slip
 
@@ -86,7 +87,18 @@ class LifeResult:
             "stress_factor": d.stress_factor,
             "warnings": list(self.warnings),
             "caution": CAUTION,
+            **self._requirement(),
         }
+
+    def _requirement(self) -> dict:
+        """required_life_blocks, meets_requirement, life_margin (null when unbounded) — only when the design
+        gives [fatigue] required_life."""
+        verdict = verdict_of(self)
+        if verdict is None:
+            return {}
+        keys = verdict.summary()
+        keys["life_margin"] = _finite(keys["life_margin"])
+        return keys
 
 
 def _finite(value: float | None) -> float | None:

@@ -16,6 +16,7 @@ from typing import TYPE_CHECKING
 import numpy as np
 import pandas as pd
 
+from flexcycle.display import SI, Display
 from flexcycle.errors import InputError
 from flexcycle.estimate import LifeResult
 from flexcycle.fatigue.damage import FACES
@@ -132,10 +133,13 @@ def station_table(result: LifeResult) -> pd.DataFrame:
     )
 
 
-def render(result: LifeResult, sizing: Sequence[tuple[str, str, str]] | None = None) -> dict[str, str]:
+def render(result: LifeResult, sizing: Sequence[tuple[str, str, str]] | None = None,
+           display: Display = SI) -> dict[str, str]:
     """All output files as text, keyed by file name.
 
     sizing : optional rows (quantity, before, after) of a sizing run, shown in the report after the results
+    display : the units the report shows (SI, or inch-pound with SI beside); summary.json and the CSV files
+        stay SI
     """
     cycles, note = cycle_table(result)
     summary = result.summary()
@@ -148,8 +152,8 @@ def render(result: LifeResult, sizing: Sequence[tuple[str, str, str]] | None = N
         "locations.csv": locations.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
         "stations.csv": station_table(result).to_csv(index=False, float_format="%.9g", lineterminator="\n"),
     }
-    svg = figure_svgs(result, cycles, locations, FIGURES)
-    files["report.html"] = report_html(result, cycles, note, locations, sizing, svg=svg)
+    svg = figure_svgs(result, cycles, locations, FIGURES, display)
+    files["report.html"] = report_html(result, cycles, note, locations, sizing, svg=svg, display=display)
     return {name: files[name] for name in ("summary.json", "cycles.csv", "locations.csv", "stations.csv", "report.html")}
 
 

@@ -768,3 +768,57 @@ def test_compare_help_shows_the_duty_table_name():
 def test_run_on_a_directory_says_it_is_one(tmp_path):
     ran = run_cli(["run", str(tmp_path), "--out", str(tmp_path / "out")])
     assert ran.code == 2 and "is a directory" in ran.err
+
+
+def test_units_us_on_run_shows_inch_pound_and_keeps_the_files_si(tmp_path):
+    """--units us: the terminal and the report show inches and pounds (SI beside); summary.json stays SI and
+    equals the run without it."""
+    si, us = tmp_path / "si", tmp_path / "us"
+    plain = run_cli(["run", "--out", si])
+    ran = run_cli(["run", "--out", us, "--units", "us"])
+    assert ran.code == 0 and plain.code == 0, ran.err
+    assert "lbf/in (" in ran.out and " lb (" in ran.out and "span 11.81 in (300 mm)" in ran.out
+    assert "lbf/in" in (us / "report.html").read_text(encoding="utf-8")
+    assert json.loads((us / "summary.json").read_text()) == json.loads((si / "summary.json").read_text())
+    assert (us / "stations.csv").read_text() == (si / "stations.csv").read_text()
+
+
+def test_units_from_the_design_file_and_a_wrong_units_option(tmp_path):
+    text = cantilever('drive = "force"\ncycles = [ { min = "0 N", max = "20 N", count = 1000 } ]') + '\n[report]\nunits = "us"\n'
+    path = tmp_path / "d.toml"
+    path.write_text(text, encoding="utf-8")
+    ran = run_cli(["run", path, "--out", tmp_path / "o"])
+    assert ran.code == 0, ran.err
+    assert "7.874 in (200 mm)" in ran.out
+    wrong = run_cli(["run", path, "--out", tmp_path / "o2", "--units", "imperial"])
+    assert wrong.code == 2 and "--units" in wrong.err
+
+
+def test_required_life_in_summary_json(tmp_path):
+    """required_life = 5 years at 4 blocks a day = 7305 blocks; the verdict keys in summary.json and the
+    verdict line first in the terminal."""
+    text = EXAMPLE_TEXT().replace('miner_limit = 1.0', 'miner_limit = 1.0\nrequired_life = "5 years"')
+    path = tmp_path / "spring.toml"
+    path.write_text(text, encoding="utf-8")
+    ran = run_cli(["run", path, "--out", tmp_path / "o"])
+    assert ran.code == 0, ran.err
+    s = json.loads((tmp_path / "o" / "summary.json").read_text())
+    assert s["required_life_blocks"] == pytest.approx(5 * 365.25 * 4, rel=1e-12)  # Julian year, exact
+    assert s["life_margin"] == pytest.approx(s["life_blocks"] / s["required_life_blocks"], rel=1e-12)
+    assert s["meets_requirement"] == (s["life_blocks"] >= s["required_life_blocks"])
+    assert ran.out.splitlines()[0].startswith(("MEETS", "FALLS SHORT"))
+
+
+def EXAMPLE_TEXT() -> str:  # noqa: N802 — the bundled example's text, with its bundled profile
+    return cli_module.example_design().read_text(encoding="utf-8")
+
+
+def test_size_in_inch_pound_keeps_sizing_json_si(tmp_path):
+    """--units us: the sizing table in the terminal shows lbf/in and lb with SI beside; sizing.json stays SI."""
+    out = tmp_path / "out"
+    ran = run_cli(["size", size_design(tmp_path), "--life", "1e7", "--rate", "5 N/mm", "--out", out, "--units", "us"])
+    assert ran.code == 0, ran.err
+    assert "28.55 lbf/in (5 N/mm)" in ran.out  # 5 N/mm = 5000/175.126835 lbf/in (exact definitions)
+    assert " lb (" in ran.out
+    doc = strict_json((out / "sizing.json").read_text(encoding="utf-8"))
+    assert "N/mm" in json.dumps(doc["table"]) and "lbf" not in json.dumps(doc["table"])

@@ -70,7 +70,7 @@ def run(
     from flexcycle.outputs import render, write_files
 
     display = display_for(units, loaded.units)
-    files = render(result)
+    files = render(result, display=display)
     written = write_files(files, out)
     typer.echo(terminal.summary_text(result, example=design is None, display=display))
     typer.echo(f"\nwrote {', '.join(p.name for p in written)} to {out}")
@@ -113,22 +113,28 @@ def size(
     rate: str | None = typer.Option(None, "--rate", help='spring rate with its unit, e.g. "30 N/mm" (deflection drive): the width for it, after the thickness for the life'),
     taper: bool = typer.Option(False, "--taper", help="propose a width taper (sized.toml) and ply drops (sized-drops.toml) that even the strain"),
     out: Path = typer.Option(Path("flexcycle-size"), "--out", "-o", help="folder for sized.toml, sizing.json, report.html"),
+    units: str | None = typer.Option(None, "--units", help=UNITS_HELP),
 ) -> None:
     """Size a design for a target life: the thickness (or width), the width for a spring rate, a taper."""
     from flexcycle.cli import terminal
     from flexcycle.design import load_design
+    from flexcycle.display import display_for
     from flexcycle.outputs import render, sizing_json, write_files
     from flexcycle.sizing import parse_rate, plan, sizing_rows
 
+    _check_units(units)
     k = None if rate is None else parse_rate(rate)
-    answer = plan(load_design(design), life, vary, k, taper)
+    loaded = load_design(design)
+    display = display_for(units, loaded.units)
+    answer = plan(loaded, life, vary, k, taper)
     files = {"sized.toml": answer.sized.text}
     if answer.drops is not None:
         files["sized-drops.toml"] = answer.drops.text
     files["sizing.json"] = sizing_json(answer)
-    files["report.html"] = render(answer.sized.result, sizing=sizing_rows(answer))["report.html"]
+    files["report.html"] = render(answer.sized.result, sizing=sizing_rows(answer, display),
+                                  display=display)["report.html"]
     written = write_files(files, out)
-    typer.echo(terminal.sizing_text(answer))
+    typer.echo(terminal.sizing_text(answer, display))
     typer.echo(f"\nwrote {', '.join(p.name for p in written)} to {out}\ncaution: {CAUTION}")
 
 

@@ -194,8 +194,9 @@ def _comparison_table_only(table: pd.DataFrame, duty: str) -> str:
     return f"duty: {duty}\n" + _render(t)
 
 
-def sizing_text(answer: SizingAnswer) -> str:
-    """The sizing answer: the steps, then a before/after table, then the sizing warnings."""
+def sizing_text(answer: SizingAnswer, display: Display = SI) -> str:
+    """The sizing answer: the steps, then a before/after table (in the display's units), then the sizing
+    warnings."""
     from flexcycle.sizing import sizing_rows
 
     lines = [f"sizing for a life of {answer.target_blocks:g} blocks of the duty"]
@@ -203,7 +204,7 @@ def sizing_text(answer: SizingAnswer) -> str:
     if answer.drops is not None:
         lines.append("  alternative (sized-drops.toml):")
         lines += [f"    {st.what}: {st.note}" for st in answer.drops.steps]
-    rows = sizing_rows(answer)
+    rows = sizing_rows(answer, display)
     w = max(len(q) for q, _, _ in rows)
     wb = max(len("before"), *(len(b) for _, b, _ in rows))
     lines.append("")

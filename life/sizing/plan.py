@@ -8,6 +8,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from flexcycle.design import Design
+from flexcycle.display import SI, Display
 from flexcycle.errors import InputError
 from flexcycle.estimate import LifeResult, estimate
 from flexcycle.sizing.plies import PlyStack, drop_stack, restack, size_plies
@@ -182,42 +183,43 @@ def figure_text(value: float | None, digits: int = 4, unit_factor: float = 1.0, 
     return f"{value * unit_factor:.{digits}g}{(' ' + unit) if unit else ''}"
 
 
-def _figures_of(r: LifeResult) -> dict[str, str]:
+def _figures_of(r: LifeResult, display: Display = SI) -> dict[str, str]:
     s = r.summary()
     b = r.design.beam
-    width = (f"{b.width_root * 1e3:.4g} mm" if b.width_root == b.width_tip
-             else f"{b.width_root * 1e3:.4g} → {b.width_tip * 1e3:.4g} mm")
+    width = (display.both(b.width_root, "length") if b.width_root == b.width_tip
+             else f"{display.both(b.width_root, 'length')} → {display.both(b.width_tip, 'length')}")
     return {
         "life [blocks]": figure_text(s["life_blocks"]),
-        "thickness at the root": f"{float(r.response.thickness[0]) * 1e3:.4g} mm",
+        f"thickness at {'mid-span' if b.support in ('three-point', 'four-point') else 'the root'}":
+            display.both(float(r.response.thickness[0]), "length"),
         "width": width,
-        "mass": figure_text(s["mass_kg"], 4, 1e3, "g"),
-        "stiffness": figure_text(s["stiffness_n_per_m"], 4, 1e-3, "N/mm"),
-        "energy at peak drive": figure_text(s["peak_energy_j"], 4, 1, "J"),
-        "energy in the largest cycle": figure_text(s["cycle_energy_j"], 4, 1, "J"),
-        "specific energy": figure_text(s["specific_energy_j_per_kg"], 4, 1, "J/kg"),
+        "mass": display.both(s["mass_kg"], "mass"),
+        "stiffness": display.both(s["stiffness_n_per_m"], "stiffness"),
+        "energy at peak drive": display.both(s["peak_energy_j"], "energy"),
+        "energy in the largest cycle": display.both(s["cycle_energy_j"], "energy"),
+        "specific energy": display.both(s["specific_energy_j_per_kg"], "specific_energy"),
         "storage efficiency": f"{s['energy_efficiency']:.3f}",
         "peak fibre strain": figure_text(s["peak_strain"], 3, 100, "%"),
         "static reserve": figure_text(s["static_reserve"], 3),
     }
 
 
-def sizing_rows(answer: SizingAnswer) -> list[tuple[str, str, str]]:
+def sizing_rows(answer: SizingAnswer, display: Display = SI) -> list[tuple[str, str, str]]:
     """The sizing table: (quantity, before, after) for sized.toml, then the factors, then the ply-drop
-    alternative's figures (before = the design as given)."""
-    before, after = _figures_of(answer.before), _figures_of(answer.sized.result)
+    alternative's figures (before = the design as given); figures in the display's units (SI by default)."""
+    before, after = _figures_of(answer.before, display), _figures_of(answer.sized.result, display)
     rows = [(q, before[q], after[q]) for q in before]
     for step in answer.sized.steps:
         if step.factor is not None:
             rows.append((f"factor: {step.what}", "1", f"{step.factor:.5g}"))
     if answer.rate is not None:
-        rows.append(("spring rate asked", "", f"{answer.rate / 1e3:.4g} N/mm"))
+        rows.append(("spring rate asked", "", display.both(answer.rate, "stiffness")))
     rows.append(("width / thickness at the root", "", f"{answer.width_to_thickness:.3g}"))
     if answer.drops is not None:
-        alt = _figures_of(answer.drops.result)
+        alt = _figures_of(answer.drops.result, display)
         rows.append(("ply-drop alternative: inner plies at the root", str(len(answer.before.design.beam.plies) - 2),
                      str(len(answer.drops.result.design.beam.plies) - 2)))
         rows += [(f"ply-drop alternative: {q}", before[q], alt[q])
-                 for q in ("life [blocks]", "thickness at the root", "mass", "stiffness", "storage efficiency",
-                           "width")]
+                 for q in ("life [blocks]", next(q for q in before if q.startswith("thickness at")), "mass",
+                           "stiffness", "storage efficiency", "width")]
     return rows
