@@ -322,3 +322,14 @@ def test_cli_compare_wrong_design_exits_2_and_writes_nothing(files, tmp_path, mo
     assert code == 2
     assert "wrong.toml" in err and "span" in err and "Traceback" not in err
     assert not (out / "comparison.csv").exists()
+
+
+def test_page_tables_fit_a_page_width(results):
+    """The page holds two tables of at most ten columns (the one wide table of seventeen was cut off on a
+    1200 px screen) and keeps the page within 70 em."""
+    rs = [results["thin"], results["thick"], results["safe"]]
+    page = comparison_html(comparison_table(rs), rs)
+    heads = re.findall(r"<table><tr>(.*?)</tr>", page)
+    assert len(heads) == 2
+    assert all(head.count("<th>") <= 10 for head in heads)
+    assert "max-width: 70em" in page and "overflow-x" not in page
