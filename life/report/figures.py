@@ -163,7 +163,7 @@ def figure_through_thickness(result: LifeResult, display: Display = SI) -> Figur
     k = c.station
     present = np.flatnonzero(resp.present[k])
     with matplotlib.rc_context(STYLE):
-        fig, (a1, a2) = figure_with_axes((7.5, 4.0), 1, 2, sharey=True)
+        fig, (a1, a2) = figure_with_axes((7.5, 4.6), 1, 2, sharey=True)
         zs = display.scale("position")
         stress = display.scale("stress")
         z = resp.z[k, present] * zs  # (ply, face): each ply a straight segment between its faces
@@ -195,13 +195,13 @@ def figure_through_thickness(result: LifeResult, display: Display = SI) -> Figur
         a1.plot([], [], color=PALETTE[4], lw=1.0, label="γ12 / τ12 (shear)")
         a1.plot([], [], color=PALETTE[5], lw=1.3, ls="--", label="τxz (interlaminar or core shear)")
         a1.fill_between([], [], color=CRITICAL_COLOUR, alpha=0.12, label=f"critical ply {c.ply}")
-        fig.legend(*a1.get_legend_handles_labels(), loc="upper left", bbox_to_anchor=(0.80, 0.88))
+        fig.legend(*a1.get_legend_handles_labels(), loc="lower center", ncol=3, bbox_to_anchor=(0.5, 0.0))
         a1.set_xlabel("ply-axis strain [%]")
         a1.set_ylabel(f"z from the mid-plane [{display.unit('position')}] (thin lines: ply boundaries)")
         a2.set_xlabel(f"ply-axis stress [{display.unit('stress')}] (dashed: τxz)")
         a1.set_title(f"at x = {display.value(c.x_m, 'position')} {from_where(result.design.beam.support)}, "
                      f"peak drive force {display.value(peak, 'force')}")
-        return arrange(fig, wspace=0.08, right=1.7)
+        return arrange(fig, wspace=0.08, bottom=1.25)
 
 
 def figure_duty(result: LifeResult, cycles: pd.DataFrame, display: Display = SI) -> Figure:
@@ -307,15 +307,15 @@ def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame, display: Disp
         if finite.any():
             dmg = cyc.count[finite] / N[finite]
             ax.scatter(N[finite], seq[finite] * ys, s=10 + 60 * dmg / dmg.max(), color=PALETTE[1], alpha=0.8, zorder=3,
-                       label="each counted cycle at its life (size: damage)", rasterized=finite.sum() > 500)
+                       label="each counted cycle at its\nlife (size: damage)", rasterized=finite.sum() > 500)
         safe = live & np.isinf(N)
         if safe.any():
             ax.scatter(np.full(safe.sum(), n_max), seq[safe] * ys, marker="|", color="#777", s=30,
-                       label="cycles below the fatigue limit (no damage)", rasterized=safe.sum() > 500)
+                       label="cycles below the fatigue\nlimit (no damage)", rasterized=safe.sum() > 500)
         broken = live & (N <= 0)
         if broken.any():
             ax.scatter(np.full(broken.sum(), FIRST_LOAD_FAILURE), seq[broken] * ys, marker="x", color=CRITICAL_COLOUR,
-                       label="cycles past the static strength")
+                       label="cycles past the static\nstrength")
         ax.set_xscale("log")
         ax.set_xlim(0.4, n_max * 1.5)
         ax.set_ylim(bottom=0)

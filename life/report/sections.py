@@ -329,7 +329,8 @@ def section_results(result: LifeResult, cycles: pd.DataFrame, locations: pd.Data
 {figure_html(svg["strain-envelope"], "4", "Fibre strain along the span at the two outer faces, from the smallest to the largest "
          "drive of the duty; dashed grey lines are ply drops, the red line is the critical station.")}
 {figure_html(svg["through-thickness"], "5", "Ply-axis strains and stresses through the thickness at the critical station at the "
-         "peak drive; thin lines are ply boundaries, the shaded band is the critical ply.")}
+         "peak drive; thin lines are ply boundaries, the shaded band is the critical ply; the dashed line is the transverse "
+         "shear τxz (interlaminar, or a sandwich core's shear).")}
 {figure_html(svg["fatigue-curve"], "6", "The fatigue curve (or constant-life diagram) of the critical location with the "
          "duty's cycles there, each moved to the curve's R by the mean-stress rule.")}
 {figure_html(svg["damage"], "7", "Miner damage per block along the span, and the share of the critical "
