@@ -28,6 +28,104 @@ from .cycles import Cycles
 from .errors import InputError
 
 COMMENT = "#"  # a line whose first character is this is a comment (common practice for CSV headers)
+DELIMITERS = {",": "comma", ";": "semicolon", "\t": "tab"}  # the column delimiters logger exports use (common practice)
+SAMPLE_LINES = 20  # data lines read after the header to tell the delimiter and the decimal mark
+_DECIMAL_COMMA = re.compile(r"^\s*[-+]?\d*,\d+([eE][-+]?\d+)?\s*$")  # a number written with a decimal comma
+
+
+@dataclass(frozen=True)
+class Dialect:
+    """How a CSV file writes its table.
+
+    sep : str — the column delimiter: ``","``, ``";"`` or ``"\\t"``
+    decimal : str — the decimal mark: ``"."``, or ``","`` (only with ``sep = ";"``)
+    """
+
+    sep: str = ","
+    decimal: str = "."
+
+    @property
+    def name(self) -> str:
+        """The delimiter in words, for messages (``"semicolon"``)."""
+        return DELIMITERS[self.sep]
+
+
+def _fields(line: str, sep: str) -> list[str]:
+    return [cell.strip() for cell in next(csv.reader([line], delimiter=sep))]
+
+
+def detect_dialect(lines: Sequence[str], where: str) -> Dialect:
+    """The delimiter and decimal mark of a CSV table from its header line and the first data lines.
+
+    Parameters
+    ----------
+    lines : Sequence[str] — the header line, then up to SAMPLE_LINES data lines (comments and blank lines
+        already left out)
+    where : str — what the file is, e.g. ``"ride.toml [duty] profile: ride.csv"``; the message starts with it
+
+    Returns
+    -------
+    Dialect — the delimiter that splits the header into more than one name (a file of one column: comma);
+    when more than one does, the one that splits every sampled data line into as many fields as the header.
+    A decimal comma is taken only with a semicolon delimiter (common practice in logger exports of locales
+    that write 1,5: a comma cannot be both the delimiter and the decimal mark, and a tab-separated file with
+    decimal commas is refused rather than guessed).
+
+    Raises
+    ------
+    InputError — the delimiter cannot be told (the message names the delimiters tried and what each gave);
+        decimal commas in a file not separated by semicolons.
+    """
+    if not lines:
+        return Dialect()
+    header, data = lines[0], list(lines[1:])
+    splits = {sep: len(_fields(header, sep)) for sep in DELIMITERS}
+    candidates = [sep for sep, count in splits.items() if count > 1]
+    if len(candidates) > 1:
+        fitting = [sep for sep in candidates if all(len(_fields(line, sep)) == splits[sep] for line in data)]
+        if len(fitting) != 1:
+            tried = ", ".join(f"{DELIMITERS[sep]} ({splits[sep]} names)" for sep in candidates)
+            raise InputError(f"{where}: cannot tell the column delimiter: the header line splits at more than one "
+                             f"of them ({tried}) and the data lines do not settle it; separate the columns by one "
+                             "delimiter only: comma, semicolon or tab")
+        candidates = fitting
+    if not candidates:  # one column, or a header that no delimiter splits while the data lines are split
+        if any(_DECIMAL_COMMA.match(line) for line in data):
+            raise InputError(f"{where}: numbers written with a decimal comma in a file of one column; a decimal "
+                             "comma is accepted only with semicolons between the columns: write the numbers with "
+                             "a decimal point")
+        split_data = [sep for sep in DELIMITERS if any(len(_fields(line, sep)) > 1 for line in data)]
+        if split_data:
+            named = " or ".join(DELIMITERS[sep] for sep in split_data)
+            raise InputError(f"{where}: cannot tell the column delimiter: the data lines are split by {named}, "
+                             f"but the header line {header.strip()!r} is not; name every column in the header, "
+                             "separated as the data are (comma, semicolon or tab)")
+        candidates = [","]
+    sep = candidates[0]
+    cells = [cell for line in data for cell in _fields(line, sep)]
+    decimal_comma = any(_DECIMAL_COMMA.match(cell) for cell in cells)
+    if decimal_comma and sep != ";":
+        raise InputError(f"{where}: numbers written with a decimal comma in a file separated by "
+                         f"{DELIMITERS[sep]}; a decimal comma is accepted only with semicolons between the "
+                         "columns: write the numbers with a decimal point, or separate the columns by semicolons")
+    return Dialect(sep, "," if decimal_comma else ".")
+
+
+def file_dialect(path: Path, where: str) -> Dialect:
+    """`detect_dialect` on the first lines of a file; a file that cannot be read gives the default dialect
+    (its reader then says what is wrong with it)."""
+    lines: list[str] = []
+    try:
+        with open(path, encoding="utf-8-sig") as fh:
+            for line in fh:
+                if line.startswith(COMMENT) or not line.strip():
+                    continue
+                lines.append(line.rstrip("\r\n"))
+                if len(lines) > SAMPLE_LINES:
+                    break
+    except (OSError, UnicodeDecodeError):
+        return Dialect()
+    return detect_dialect(lines, where)
 
 
 @dataclass(frozen=True, eq=False)  # eq=False: `==` on arrays has no single truth value
@@ -70,7 +168,7 @@ def refuse_headerless(path: Path, where: str) -> None:
                 if line.startswith(COMMENT) or not line.strip():
                     continue
                 try:
-                    [float(cell) for cell in line.split(",")]
+                    [float(cell.replace(dialect.decimal, ".")) for cell in _fields(line.rstrip("\r\n"), dialect.sep)]
                 except ValueError:
                     return  # a header of names
                 raise InputError(f"{where}, line {number}: {line.strip()!r} is data, not a header; the first line "
@@ -104,7 +202,8 @@ def read_time_history(path: Path, column: str, scale: float, where: str) -> Time
 
     Notes
     -----
-    One record per line (no quoted line breaks). Other columns are not checked.
+    One record per line (no quoted line breaks). Other columns are not checked. The column delimiter
+    (comma, semicolon or tab) and the decimal mark are found by `detect_dialect`.
     """
     path = Path(path)
     if not math.isfinite(scale) or scale == 0.0:
@@ -121,13 +220,14 @@ def read_time_history(path: Path, column: str, scale: float, where: str) -> Time
     data, line_of = _data_lines(text)  # line_of[0] is the header, line_of[k] the k-th sample
     if not line_of:
         raise InputError(f"{where}: profile file '{path}' has no header line; the first line that is not a comment must name the columns")
-    header = [name.strip() for name in next(csv.reader([data.split("\n", 1)[0]]))]
+    dialect = detect_dialect(data.split("\n", SAMPLE_LINES + 1)[: SAMPLE_LINES + 1], f"{where}: profile file '{path}'")
+    header = _fields(data.split("\n", 1)[0], dialect.sep)
     twice = sorted({name for name in header if header.count(name) > 1})
     if twice:  # pandas would rename the second one silently ("d" → "d.1")
         raise InputError(f"{where}: profile file '{path}', line {line_of[0]}: column name "
                          f"{', '.join(repr(n) for n in twice)} appears more than once; give every column its own name")
     try:
-        table = pd.read_csv(io.StringIO(data), dtype=str, na_filter=False, skipinitialspace=True)
+        table = pd.read_csv(io.StringIO(data), sep=dialect.sep, dtype=str, na_filter=False, skipinitialspace=True)
     except pd.errors.ParserError as exc:
         found = re.search(r"line (\d+)", str(exc))
         line = f", line {line_of[int(found.group(1)) - 1]}" if found else ""
@@ -139,6 +239,8 @@ def read_time_history(path: Path, column: str, scale: float, where: str) -> Time
         listed = ", ".join(f"'{name}'" for name in names)
         raise InputError(f"{where}: profile file '{path}' has no column '{column}'; the columns there are {listed}")
     cells = table.iloc[:, names.index(column)].str.strip()
+    if dialect.decimal != ".":
+        cells = cells.str.replace(dialect.decimal, ".", regex=False)
 
     values = pd.to_numeric(cells, errors="coerce").to_numpy(dtype=float)
     bad = np.flatnonzero(~np.isfinite(values))
@@ -153,6 +255,9 @@ def read_time_history(path: Path, column: str, scale: float, where: str) -> Time
                 problem = f"is '{cell}', not finite; every sample must be a finite number"
             except ValueError:
                 problem = f"is '{cell}', not a number"
+                if "," in cell and dialect.sep != ";":
+                    problem += (f" (the file is separated by {dialect.name}; a decimal comma is accepted only "
+                                "with semicolons between the columns)")
         raise InputError(f"{where}: profile file '{path}', line {line}: column '{column}' {problem}")
     if values.size < 2:
         raise InputError(f"{where}: profile file '{path}': column '{column}' has {values.size} sample(s); "

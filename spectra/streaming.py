@@ -34,7 +34,7 @@ from .chunked import OPEN, close_count, count_chunk, hold
 from .cycles import Cycles
 from .errors import InputError
 from .merging import merge_parts
-from .profiles import COMMENT, read_time_history
+from .profiles import COMMENT, file_dialect, read_time_history
 from .rainflow import rainflow_cycles
 
 CHUNK_SAMPLES = 1 << 20  # samples per chunk read: 8 MB of floats, a few times that in parser buffers
@@ -93,7 +93,7 @@ def _refuse(path: Path, column: str, scale: float, where: str) -> None:
     raise InputError(f"{where}: profile file '{path}' could not be read as a CSV table of numbers")
 
 
-def _header(path: Path) -> tuple[int, list[str]] | None:
+def _header(path: Path, sep: str = ",") -> tuple[int, list[str]] | None:
     """Bytes up to the end of the header line, and the header's names; None if there is none or it is not text."""
     try:
         with open(path, "rb") as fh:
@@ -103,7 +103,7 @@ def _header(path: Path) -> tuple[int, list[str]] | None:
                 offset += len(raw)
                 if line.startswith(COMMENT) or not line.strip():
                     continue
-                return offset, [name.strip() for name in next(csv.reader([line.rstrip("\r\n")]))]
+                return offset, [name.strip() for name in next(csv.reader([line.rstrip("\r\n")], delimiter=sep))]
     except (OSError, UnicodeDecodeError):
         return None
     return None
@@ -168,14 +168,17 @@ def history_chunks(
     column as float64 (its "high" precision converter:
     the same doubles as Python's float() for decimal numbers of up to 17 significant digits,
     checked in the tests). Lines starting with ``#`` and blank lines are skipped, as by
-    `read_time_history`.
+    `read_time_history`. The delimiter (comma, semicolon or tab) and the decimal mark are those
+    `flexcycle.spectra.profiles.detect_dialect` finds in the first lines; pandas is told them (its C parser
+    then stays as fast as for commas).
     """
     import pandas as pd  # here: the command line starts without pandas (lean start)
 
     path = Path(path)
     if not math.isfinite(scale) or scale == 0.0:
         raise InputError(f"{where}: scale to SI must be a finite non-zero number, got {scale}")
-    head = _header(path)
+    dialect = file_dialect(path, f"{where}: profile file '{path}'")  # comma, semicolon or tab; decimal mark
+    head = _header(path, dialect.sep)
     if head is None:
         _refuse(path, column, scale, where)
     offset, names = head
@@ -190,7 +193,8 @@ def history_chunks(
         fh = _Hashing(raw, digest)
         try:
             reader = pd.read_csv(
-                io.BufferedReader(fh, buffer_size=1 << 20), header=None, names=names, dtype={column: np.float64}, engine="c",  # all columns: a ragged row is refused
+                io.BufferedReader(fh, buffer_size=1 << 20), header=None, names=names, dtype={column: np.float64}, engine="c",
+                sep=dialect.sep, decimal=dialect.decimal,  # all columns: a ragged row is refused
                 comment=COMMENT if _has_comment(raw, offset, size) else None, skip_blank_lines=True,
                 chunksize=chunk_samples, encoding="utf-8",
             )
