@@ -18,9 +18,19 @@ import numpy as np
 
 from flexcycle.errors import InputError
 from flexcycle.fatigue.meanstress import RULES
+from flexcycle.measured import (
+    PSD_KEYS,
+    SpectralDuty,
+    force_cycles,
+    force_envelope,
+    gauge_map,
+    gauge_of,
+    psd_duty,
+)
 from flexcycle.mechanics import errors as mechanics_errors
 from flexcycle.mechanics.beam import DEFAULT_STATIONS, SUPPORTS, Beam, Ply, segments, validate
 from flexcycle.mechanics.energy import DRIVES
+from flexcycle.mechanics.gauge import Gauge, GaugeMap
 from flexcycle.mechanics.laminate import SECTIONS
 from flexcycle.mechanics.materials import Material, resolve_materials
 from flexcycle.mechanics.units import dimension_name, parse_quantity, unit_factor
@@ -35,7 +45,7 @@ BUNDLED_PREFIX = "bundled:"  # profile = "bundled:NAME" reads a demo profile shi
 TOP_KEYS = {"title", "beam", "ply", "duty", "fatigue", "material", "report"}
 BEAM_KEYS = {"support", "span", "width", "load_spacing", "section", "stations"}
 PLY_KEYS = {"material", "angle", "thickness", "count", "ends_at"}
-DUTY_KEYS = {"drive", "profile", "column", "unit", "cycles", "blocks_per_day", "residue"}
+DUTY_KEYS = {"drive", "profile", "column", "unit", "cycles", "blocks_per_day", "residue", "sample_rate", "gauge"} | PSD_KEYS
 FATIGUE_KEYS = {"mean_stress", "miner_limit", "stress_factor", "required_life"}
 REPORT_KEYS = {"units"}
 CYCLE_KEYS = {"min", "max", "count"}
@@ -62,6 +72,15 @@ class Duty:
     trace : Envelope | None — a time history's min/max per bin of samples, for plots (also when ``signal`` is
         None) [N or m]
     profile_sha256 : str | None — SHA-256 of the time-history file's bytes as read (hex); None for a block table
+    spectral : SpectralDuty | None — for a PSD duty: the spectrum and its range distribution, in the drive as
+        measured (strain for a gauge) [SI]
+    sample_rate : float | None — the time history's sampling rate, when given [Hz]
+    measured : str — the drive as measured: ``drive``, or ``"strain"`` for a gauge (then ``drive`` is
+        ``"force"``: the cycles, signal and trace are the load-point force the gauge strain implies)
+    gauge : Gauge | None — where the strain was measured
+    gauge_map : GaugeMap | None — the force → gauge strain map used to turn the strain into force
+    peaks : tuple[float, float] | None — a PSD duty's expected lowest and highest drive in one block
+        (Davenport 1964) [N or m]; None otherwise
     """
 
     drive: str
@@ -73,10 +92,20 @@ class Duty:
     profile_path: Path | None = None
     trace: Envelope | None = None
     profile_sha256: str | None = None
+    spectral: SpectralDuty | None = None
+    sample_rate: float | None = None
+    measured: str = ""
+    gauge: Gauge | None = None
+    gauge_map: GaugeMap | None = None
+
+    peaks: tuple[float, float] | None = None
 
     @property
     def extremes(self) -> tuple[float, float]:
-        """Smallest and largest drive of the duty [N or m]."""
+        """Smallest and largest drive of the duty [N or m]: of the cycles, or for a PSD the expected lowest and
+        highest of one block (the far tail of the range distribution enters the damage, not the peaks)."""
+        if self.peaks is not None:
+            return self.peaks
         return float(self.cycles.lo.min()), float(self.cycles.hi.max())
 
 
@@ -258,12 +287,14 @@ def _plies(doc: Mapping, materials: Mapping[str, Material], name: str, notes: li
     return tuple(out)
 
 
-DRIVE_UNIT = {"deflection": '"mm" or "in"', "force": '"N" or "lbf"'}  # examples of a profile unit per drive
+DRIVE_UNIT = {"deflection": '"mm" or "in"', "force": '"N" or "lbf"', "strain": '"ue", "%" or "strain"'}  # examples
+DUTY_DRIVES = (*DRIVES, "strain")  # the drives of [duty] drive: a strain is that of a gauge, turned into force
+KIND_OF_DRIVE = {"deflection": "length", "force": "force", "strain": "strain"}
 
 
 def _unit_of_drive(unit: str, drive: str, where: str) -> None:
     """Reject a profile unit whose dimension is not the drive's (``unit = "N"`` for a deflection drive)."""
-    wanted = "length" if drive == "deflection" else "force"
+    wanted = KIND_OF_DRIVE[drive]
     try:
         parse_quantity(f"1 {unit}", wanted, where)
     except mechanics_errors.InputError:
@@ -273,22 +304,57 @@ def _unit_of_drive(unit: str, drive: str, where: str) -> None:
 
 
 def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
-          progress: Callable[[int, int], None] | None = None) -> Duty:
+          progress: Callable[[int, int], None] | None = None, beam: Beam | None = None) -> Duty:
     t = _table(doc, "duty", name)
     where = f"{name} [duty]"
     _unknown(t, DUTY_KEYS, where)
-    drive = _choice(_require(t, "drive", where), DRIVES, f"{where} drive")
-    kind = "length" if drive == "deflection" else "force"
-    has_profile, has_cycles = "profile" in t, "cycles" in t
-    if has_profile == has_cycles:
-        raise InputError(f"{where}: give exactly one of 'profile' (a time history) or 'cycles' (a block table)")
+    drive = _choice(_require(t, "drive", where), DUTY_DRIVES, f"{where} drive")
+    kind = KIND_OF_DRIVE[drive]
+    has_profile, has_cycles, has_psd = "profile" in t, "cycles" in t, "psd" in t
+    if has_profile + has_cycles + has_psd != 1:
+        raise InputError(f"{where}: give exactly one of 'profile' (a time history), 'cycles' (a block table) or "
+                         "'psd' (a vibration spectrum)")
+    stray = sorted(k for k in PSD_KEYS - {"psd"} if k in t and not has_psd) + (["gauge"] if "gauge" in t and drive != "strain" else [])
+    if stray:
+        why = "a PSD duty" if stray[0] != "gauge" else 'drive = "strain"'
+        raise InputError(f"{where} {stray[0]}: only for {why}; leave it out here")
+    mapping = gauge = None
+    if drive == "strain":
+        assert beam is not None  # parse_design builds the beam first
+        gauge = gauge_of(t, where, beam)
+        mapping = gauge_map(beam, gauge, f"{where} gauge")
+    sample_rate = None
+    if "sample_rate" in t:
+        if not has_profile:
+            raise InputError(f"{where} sample_rate: only for a time history (profile); leave it out here")
+        try:
+            sample_rate = parse_quantity(t["sample_rate"], "frequency", f"{where} sample_rate")
+        except mechanics_errors.InputError as exc:
+            raise InputError(str(exc)) from None
+        if not sample_rate > 0:
+            raise InputError(f"{where} sample_rate: must be > 0 Hz, got {t['sample_rate']!r}")
+    spectral = peaks = None
     per_day = t.get("blocks_per_day")
     per_day = None if per_day is None else _number(per_day, f"{where} blocks_per_day")
     residue = _choice(t.get("residue", "half"), RESIDUE_MODES, f"{where} residue")
-    if residue != "half" and has_cycles:
-        raise InputError(f"{where} residue: only a time history has a residue to count; leave it out for a block table")
+    if residue != "half" and not has_profile:
+        raise InputError(f"{where} residue: only a time history has a residue to count; leave it out for a block table "
+                         "or a PSD")
     try:
-        if has_profile:
+        if has_psd:
+            spectral = psd_duty(t, where, base_dir, drive)
+            cycles = spectral.spectral.cycles
+            moments = spectral.spectral.moments
+            source = (f"vibration spectrum {t['psd']} [{spectral.unit}], {spectral.spectral.method} ranges about the "
+                      f"mean, rms {moments.rms:.4g} (SI), irregularity {moments.irregularity:.3f}, "
+                      f"{spectral.spectral.duration:g} s per block")
+            signal = trace = digest = path = None
+            peaks = spectral.spectral.extremes
+            notes.append(f"{where}: a stationary Gaussian process; the static check, the peak strain and the "
+                         f"peak energy are taken at the expected largest excursion of one block (Davenport 1964), "
+                         f"mean ± {spectral.spectral.largest_peak / moments.rms:.2f} rms; the rarer larger ranges "
+                         "enter the fatigue damage")
+        elif has_profile:
             profile = _require(t, "profile", where)
             if not isinstance(profile, str):
                 raise InputError(f"{where} profile: a file path as a string, got {profile!r}")
@@ -342,9 +408,20 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
             path = None
     except (mechanics_errors.InputError, spectra_errors.InputError) as exc:
         raise InputError(str(exc)) from None
+    measured = drive
+    if mapping is not None:  # gauge strain → load-point force through the inverse map (flexcycle.measured)
+        cycles = force_cycles(cycles, mapping)
+        if peaks is not None:
+            peaks = tuple(sorted(float(v) for v in mapping.drive(np.array(peaks))))
+        signal = None if signal is None else mapping.drive(signal)
+        trace = force_envelope(trace, mapping)
+        where_gauge = f"x = {gauge.x * 1e3:g} mm, {gauge.face} face" + (f", ply {gauge.ply}" if gauge.ply else "")
+        source += f"; strain at a gauge ({where_gauge}) as load-point force"
+        drive = "force"
     if cycles.lo.size == 0 or (np.abs(cycles.lo).max() == 0 and np.abs(cycles.hi).max() == 0):
         raise InputError(f"{where}: the duty never loads the part (no cycles, or every drive is zero)")
-    return Duty(drive, cycles, source, signal, per_day, residue, path, trace, digest)
+    return Duty(drive, cycles, source, signal, per_day, residue, path, trace, digest, spectral, sample_rate,
+                measured, gauge, mapping, peaks)
 
 
 def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = None,
@@ -374,7 +451,7 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
         beam = _beam(doc, plies, name, notes)
     except mechanics_errors.InputError as exc:  # a missing unit or wrong dimension (flexcycle.mechanics.units)
         raise InputError(str(exc)) from None
-    duty = _duty(doc, duty_name or name, base_dir, notes, progress)
+    duty = _duty(doc, duty_name or name, base_dir, notes, progress, beam)
     fat = _table(doc, "fatigue", name, required=False)
     _unknown(fat, FATIGUE_KEYS, f"{name} [fatigue]")
     rule = _choice(fat.get("mean_stress", "goodman"), RULES, f"{name} [fatigue] mean_stress")

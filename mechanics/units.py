@@ -30,6 +30,10 @@ def _registry() -> pint.UnitRegistry:
 UREG = _registry()
 UREG.define("percent = 0.01 = %")  # strain given in percent, e.g. "2.1 %"
 UREG.define("Msi = 1e6 * psi")  # million psi, the unit composite moduli are quoted in (common practice)
+# strain as strain-gauge engineers write it: microstrain, "ue" or "µε" (also with the Greek mu), and "strain" for
+# the bare ratio (common practice; 1 microstrain = 10⁻⁶)
+UREG.define("strain = 1")
+UREG.define("microstrain = 1e-6 = ue = µε = με")
 
 # Units whose trade meaning differs from pint's: pint's "mil" is the angular mil (a dimensionless angle); in
 # inch-pound drawings and ply tables a mil is a thousandth of an inch (25.4 µm; pint's "thou"), common practice.
@@ -57,6 +61,8 @@ KINDS = {
     "stiffness": ("[force] / [length]", "N/m"),
     "time": ("[time]", "s"),
     "strain": ("", ""),
+    "time": ("[time]", "s"),
+    "frequency": ("1 / [time]", "Hz"),
 }
 EXAMPLES = {
     "length": '"0.8 mm" or "2 in"',
@@ -67,6 +73,8 @@ EXAMPLES = {
     "stiffness": '"25 N/mm" or "140 lbf/in"',
     "time": '"5 years" or "90 days"',
     "strain": '0.021 or "2.1 %"',
+    "time": '"1 h" or "3600 s"',
+    "frequency": '"500 Hz"',
 }
 
 
@@ -206,3 +214,24 @@ def unit_factor(unit: str, where: str) -> float:
 def is_dimensionless(value: object, where: str) -> bool:
     """True when ``value`` is a bare number or a dimensionless quantity (a strain)."""
     return bool(_quantity(value, where).dimensionless)
+
+
+def psd_factor(unit: str, kind: str, where: str) -> float:
+    """SI value of one ``unit`` of a power spectral density of a ``kind`` (force, length or strain) [SI²/Hz].
+
+    The unit must be the drive's unit squared per hertz (``"N^2/Hz"``, ``"mm^2/Hz"``, ``"ue^2/Hz"``); any other
+    dimension is an InputError saying what would be right.
+    """
+    examples = {"force": "N^2/Hz or lbf^2/Hz", "length": "mm^2/Hz or in^2/Hz", "strain": "ue^2/Hz or strain^2/Hz"}
+    if kind not in examples:
+        raise InputError(f"{where}: a PSD is of a force, a length or a strain, not a {kind}")
+    text = unit.strip().replace("^", "**") if isinstance(unit, str) else ""
+    try:
+        q = UREG.Quantity(1.0, text)
+    except PARSE_ERRORS as exc:
+        raise InputError(f"{where}: unknown unit {unit!r} ({exc}); a PSD of a {kind} is in {examples[kind]}") from None
+    base = UREG.Quantity(1.0, KINDS[kind][1] or "") ** 2 / UREG.Quantity(1.0, "Hz")
+    if not text or q.dimensionality != base.dimensionality:
+        raise InputError(f"{where}: {unit!r} is not a {kind} squared per hertz; a PSD of the drive ({kind}) is in "
+                         f"{examples[kind]}")
+    return float(q.to(base.units).magnitude)

@@ -162,6 +162,7 @@ def refuse_headerless(path: Path, where: str) -> None:
     Without this check the first sample would be taken for the column names, and the message would say
     that the column is missing. A file that cannot be read passes: the reader says what is wrong with it.
     """
+    dialect = file_dialect(path, where)
     try:
         with open(path, encoding="utf-8-sig") as fh:
             for number, line in enumerate(fh, start=1):
