@@ -103,7 +103,10 @@ def first_mode(beam: Beam, elements: int = ELEMENTS) -> Mode:
 
     Notes
     -----
-    Generalised symmetric eigenproblem K·φ = ω²·M·φ (scipy.linalg.eigh, lowest eigenvalue only); f = ω/2π.
+    Generalised symmetric eigenproblem K·φ = ω²·M·φ (scipy.linalg.eigh, the divide-and-conquer driver: its
+    subset driver lost digits of the lowest eigenvalue); f = ω/2π. With the slopes scaled by the element
+    length the round-off floor is about 1e-7 of f₁ at 64 elements and grows as the elements shrink
+    (the condition number grows as their number to the fourth).
     Uniform beams give Blevins' f₁ = λ₁²/(2πL²)·√(EI/m') (Blevins, Formulas for Natural Frequency and Mode
     Shape, 1979, Table 8-1: λ₁ = 1.87510 clamped-free, 2.36502 clamped-sliding, π pinned-pinned; recalled),
     to 10⁻⁶ with these elements (the tests check it).
@@ -124,11 +127,17 @@ def first_mode(beam: Beam, elements: int = ELEMENTS) -> Mode:
     held = {"cantilever": [0, 1], "guided": [0, 1, last + 1], "three-point": [0, last],
             "four-point": [0, last]}[beam.support]
     free = np.setdiff1d(np.arange(2 * nodes), held)
-    values, vectors = linalg.eigh(K[np.ix_(free, free)], M[np.ix_(free, free)], subset_by_index=[0, 0])
+    # slopes as deflection per element length (a diagonal change of variables): K and M then hold numbers of
+    # one size, and the lowest eigenvalue keeps its digits with hundreds of elements
+    scale = np.ones(2 * nodes)
+    scale[1::2] = (edges[-1] - edges[0]) / len(props)
+    K = K / scale[:, None] * (1 / scale)[None, :]
+    M = M / scale[:, None] * (1 / scale)[None, :]
+    values, vectors = linalg.eigh(K[np.ix_(free, free)], M[np.ix_(free, free)], driver="gvd")
     if not values[0] > 0:
         raise InputError("natural frequency: the beam has no positive bending stiffness")
     phi = np.zeros(2 * nodes)
-    phi[free] = vectors[:, 0]
+    phi[free] = vectors[:, 0] / scale[free]
     shape = phi[0::2]
     shape = shape / shape[np.argmax(np.abs(shape))]
     return Mode(math.sqrt(values[0]) / (2.0 * math.pi), edges, shape, len(props))

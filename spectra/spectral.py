@@ -160,7 +160,7 @@ class DirlikParameters:
     x_m : float — mean frequency ratio (m1/m0)·√(m2/m4) [-]
     gamma : float — irregularity factor [-]
     D1, D2, D3 : float — weights of the exponential and the two Rayleigh terms [-], summing to 1
-    Q, R : float — scales of the exponential and of the first Rayleigh term, in Z = S/(2√m0) [-]
+    Q, R : float — scales of the exponential and of the first Rayleigh term (|R|), in Z = S/(2√m0) [-]
     """
 
     x_m: float
@@ -182,7 +182,9 @@ def dirlik_parameters(moments: SpectralMoments) -> DirlikParameters:
     x_m = (m1/m0)·√(m2/m4), γ = m2/√(m0·m4), D1 = 2(x_m − γ²)/(1 + γ²),
     R = (γ − x_m − D1²)/(1 − γ − D1 + D1²), D2 = (1 − γ − D1 + D1²)/(1 − R), D3 = 1 − D1 − D2,
     Q = 1.25·(γ − D3 − D2·R)/D1. For a narrow band (γ → 1) D1, D2 → 0 and D3 → 1: the Rayleigh limit,
-    taken here when D1 or 1 − R falls below 1e-9 of 1 (0/0 in the formulas).
+    taken here when D1 or 1 − γ − D1 + D1² falls below 1e-9 (0/0 in the formulas). R enters the density only
+    as R², so a slightly negative R (x_m close to γ, as for a moderately damped single-mode response) is the
+    Rayleigh scale |R|; the formula's range ends where Q, D2 or D3 would be negative, or R zero.
     """
     m = moments
     x_m = (m.m1 / m.m0) * math.sqrt(m.m2 / m.m4)
@@ -195,7 +197,7 @@ def dirlik_parameters(moments: SpectralMoments) -> DirlikParameters:
     D2 = denominator / (1.0 - R)
     D3 = 1.0 - D1 - D2
     Q = 1.25 * (gamma - D3 - D2 * R) / D1
-    if not (R > 0 and Q > 0 and D2 >= 0 and D3 >= -1e-12):
+    if not (R != 0 and Q > 0 and D2 >= 0 and D3 >= -1e-12):
         raise InputError(
             f"the spectrum's moments fall outside Dirlik's formula (γ = {gamma:.3g}, x_m = {x_m:.3g}: "
             f"R = {R:.3g}, Q = {Q:.3g}, D2 = {D2:.3g}, D3 = {D3:.3g}); use method = \"narrow-band\" (conservative)"
@@ -248,7 +250,7 @@ def _tail_moment(z: float, k: float, moments: SpectralMoments, method: str) -> f
         parts = [rayleigh(1.0)]
     else:
         d = dirlik_parameters(moments)
-        parts = [tuple(d.D3 * v for v in rayleigh(1.0)), tuple(d.D2 * v for v in rayleigh(d.R))]
+        parts = [tuple(d.D3 * v for v in rayleigh(1.0)), tuple(d.D2 * v for v in rayleigh(abs(d.R)))]
         if d.D1 > 0:
             whole = d.D1 * d.Q**k * math.gamma(k + 1.0)
             parts.append((whole, whole * float(special.gammaincc(k + 1.0, z / d.Q))))
