@@ -24,7 +24,7 @@ from flexcycle.mechanics.beam import Beam
 from flexcycle.mechanics.gauge import GAUGE_FACES, Gauge, GaugeMap, linear_gauge_map
 from flexcycle.mechanics.units import parse_quantity, psd_factor
 from flexcycle.spectra import errors as spectra_errors
-from flexcycle.spectra.counting import Cycles
+from flexcycle.spectra.cycles import Cycles
 from flexcycle.spectra.spectral import METHODS, SpectralCycles, Spectrum, read_spectrum, spectral_cycles
 from flexcycle.spectra.streaming import Envelope
 

@@ -22,7 +22,7 @@ from pathlib import Path
 import numpy as np
 from scipy import integrate, special
 
-from .counting import Cycles
+from .cycles import Cycles
 from .errors import InputError
 from .profiles import read_time_history
 
