@@ -28,7 +28,9 @@ from flexcycle.fatigue.meanstress import model_warnings
 from flexcycle.fatigue.static import Critical, StaticCheck, static_check
 from flexcycle.mechanics.beam import BeamResponse, core_warnings, range_warnings, respond
 from flexcycle.mechanics.energy import StorageFigures, cycle_energy, force_per_drive, storage_figures
+from flexcycle.mechanics.modal import Mode, first_mode
 from flexcycle.requirement import verdict_of
+from flexcycle.resonance import resonance_warnings
 
 IMPLAUSIBLE_STRAIN = 0.2  # a fibre strain no structural composite or wood reaches (common practice): an input slip
 
@@ -54,6 +56,7 @@ class LifeResult:
     cycle_energy: float
     force_per_drive: float
     warnings: tuple[str, ...]
+    first_mode: Mode | None = None  # the part's first bending mode (flexcycle.mechanics.modal)
 
     def summary(self) -> dict:
         """The summary.json object (DESIGN.md, outputs contract): SI numbers, strict JSON."""
@@ -88,6 +91,8 @@ class LifeResult:
             "warnings": list(self.warnings),
             "caution": CAUTION,
             **self._requirement(),
+            "first_mode_hz": None if self.first_mode is None else _finite(self.first_mode.frequency),
+            **_measured_summary(d),
         }
 
     def _requirement(self) -> dict:
@@ -99,6 +104,22 @@ class LifeResult:
         keys = verdict.summary()
         keys["life_margin"] = _finite(keys["life_margin"])
         return keys
+
+
+def _measured_summary(design: Design) -> dict:
+    """summary.json keys of a PSD duty (``spectrum``) and of a strain-gauge drive (``measured_drive``, ``gauge``)."""
+    duty, out = design.duty, {}
+    if duty.spectral is not None:
+        s = duty.spectral.spectral
+        m = s.moments
+        out["spectrum"] = {"method": s.method, "m0": m.m0, "m1": m.m1, "m2": m.m2, "m4": m.m4,
+                           "irregularity": m.irregularity, "cycle_rate_hz": s.rate, "duration_s": s.duration,
+                           "mean": s.mean, "largest_peak": s.largest_peak}  # in the drive as measured, SI
+    if duty.gauge is not None:
+        g = duty.gauge
+        out["measured_drive"] = duty.measured
+        out["gauge"] = {"x_m": g.x, "face": g.face, "ply": g.ply}
+    return out
 
 
 def _finite(value: float | None) -> float | None:
@@ -177,8 +198,14 @@ def estimate(design: Design) -> LifeResult:
             station=int(locs.station[k]),
         )
     storage = storage_figures(resp, peak_force)
-    big = _largest_cycle(cycles)
-    e_cycle = float(cycle_energy(resp.compliance, cycles.lo[big] * fpd, cycles.hi[big] * fpd))
+    if design.duty.peaks is not None:  # a PSD duty: the largest cycle expected in a block, from peak to peak
+        big_lo, big_hi = lo, hi
+    else:
+        big = _largest_cycle(cycles)
+        big_lo, big_hi = cycles.lo[big], cycles.hi[big]
+    e_cycle = float(cycle_energy(resp.compliance, big_lo * fpd, big_hi * fpd))
+    mode = first_mode(beam)
+    warnings += resonance_warnings(design.duty, mode.frequency)
     return LifeResult(
         design=design,
         response=resp,
@@ -196,6 +223,7 @@ def estimate(design: Design) -> LifeResult:
         cycle_energy=e_cycle,
         force_per_drive=fpd,
         warnings=tuple(dict.fromkeys(warnings)),
+        first_mode=mode,
     )
 
 
