@@ -76,6 +76,8 @@ def summary_table(result: LifeResult, display: Display = SI) -> Table:
     t.add_row("cycle energy", f"{display.both(s['cycle_energy_j'], 'energy')} in the largest cycle")
     t.add_row("specific energy", f"{display.both(s['specific_energy_j_per_kg'], 'specific_energy')}, "
                                  f"storage efficiency {s['energy_efficiency']:.3f}")
+    if s.get("first_mode_hz") is not None:
+        t.add_row("first frequency", f"{s['first_mode_hz']:.4g} Hz, first bending mode of the part alone")
     reserve = "not checked" if s["static_reserve"] is None else f"{s['static_reserve']:.3g}"
     t.add_row("static reserve", f"{reserve} ({result.static.criterion}) at x = "
                                 f"{display.both(result.static.x_m, 'position')} {where}, ply {result.static.ply}")

@@ -381,10 +381,54 @@ def drive_display(drive: str, display: Display) -> tuple[str, float]:
     return display.unit(kind), display.scale(kind)
 
 
+def figure_spectrum(result: LifeResult, display: Display = SI) -> Figure:
+    """(d2) A PSD duty: the spectrum (log-log) with a third of the first bending frequency, and the range
+    distribution of both methods (the one used drawn heavy); a strain in µε, a force or deflection in the
+    display's units."""
+    from flexcycle.spectra.spectral import range_density
+
+    duty = result.design.duty
+    spec, spectral = duty.spectral.spectrum, duty.spectral.spectral
+    unit, scale = ("µε", 1e6) if duty.measured == "strain" else drive_display(duty.drive, display)
+    m = spectral.moments
+    with matplotlib.rc_context(STYLE):
+        fig, (a0, a1) = figure_with_axes((7.5, 5.8), 2, 1, gridspec_kw={"height_ratios": [1, 1]})
+        shown = (spec.frequency > 0) & (spec.density > 0)
+        a0.loglog(spec.frequency[shown], spec.density[shown] * scale**2, color=PALETTE[0], lw=1.2)
+        top = float(spec.density.max()) * scale**2
+        a0.set_ylim(top * 1e-6, top * 3)  # six decades: the tails of a fitted shape would squeeze the rest
+        if result.first_mode is not None:
+            third = result.first_mode.frequency / 3
+            a0.axvline(third, color=CRITICAL_COLOUR, lw=1.0, ls="--",
+                       label=f"a third of the first bending frequency, {third:.4g} Hz")
+            a0.legend(loc="lower left")
+        a0.set_xlabel("frequency [Hz]")
+        a0.set_ylabel(f"PSD [{unit}²/Hz]")
+        a0.set_title(f"one-sided PSD: rms {m.rms * scale:.4g} {unit}, irregularity γ = {m.irregularity:.3f}")
+        S = np.linspace(0.0, 2.0 * spectral.largest_peak * 1.25, 400)
+        for k, method in enumerate(("dirlik", "narrow-band")):
+            used = method == spectral.method
+            a1.semilogy(S * scale, range_density(S, m, method) / scale, color=PALETTE[k], lw=2.0 if used else 1.0,
+                        ls="-" if used else ":", label=f"{method}{' (used)' if used else ''}")
+        peak_density = float(range_density(S, m, spectral.method).max()) / scale
+        a1.set_ylim(peak_density * 1e-8, peak_density * 3)  # the tail, where the damage is, in view
+        a1.set_xlabel(f"cycle range [{unit}]")
+        a1.set_ylabel(f"probability density [1/{unit}]")
+        a1.set_title(f"range distribution: {spectral.rate * spectral.duration:.6g} cycles per block "
+                     f"({spectral.rate:.4g} per second)")
+        a1.legend(loc="upper right")
+        return arrange(fig, hspace=0.5)
+
+
+FIGURE_APPLIES: dict[str, Callable[[LifeResult], bool]] = {  # figures drawn only for some duties
+    "spectrum": lambda result: result.design.duty.spectral is not None,
+}
+
 # The report's figures in their order, each drawn from (result, cycles, locations) in the display's units.
 FIGURE_MAKERS: dict[str, Callable[..., Figure]] = {
     "layup": lambda result, cycles, locations, display=SI: figure_layup(result, display),
     "duty": lambda result, cycles, locations, display=SI: figure_duty(result, cycles, display),
+    "spectrum": lambda result, cycles, locations, display=SI: figure_spectrum(result, display),
     "force-deflection": lambda result, cycles, locations, display=SI: figure_force_deflection(result, display),
     "strain-envelope": lambda result, cycles, locations, display=SI: figure_strain_envelope(result, display),
     "through-thickness": lambda result, cycles, locations, display=SI: figure_through_thickness(result, display),

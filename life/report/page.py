@@ -14,7 +14,7 @@ import pandas as pd
 
 from flexcycle.display import SI, Display
 from flexcycle.estimate import LifeResult
-from flexcycle.report.figures import FIGURE_MAKERS, FIGURES
+from flexcycle.report.figures import FIGURE_APPLIES, FIGURE_MAKERS, FIGURES
 from flexcycle.report.sections import (
     escape_html,
     section_cautions,
@@ -33,8 +33,10 @@ from flexcycle.report.texts import CSS
 
 def figure_svgs(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame,
                 names: Sequence[str] = FIGURES, display: Display = SI) -> dict[str, str]:
-    """The report's figures ``names`` (of FIGURES) as inline SVG, by name; cycles and locations as for report_html."""
-    return {name: to_svg(FIGURE_MAKERS[name](result, cycles, locations, display), name) for name in names}
+    """The report's figures ``names`` (of FIGURES) as inline SVG, by name; cycles and locations as for report_html.
+    A figure of FIGURE_APPLIES is drawn only for the duties it applies to."""
+    return {name: to_svg(FIGURE_MAKERS[name](result, cycles, locations, display), name) for name in names
+            if FIGURE_APPLIES.get(name, lambda result: True)(result)}
 
 
 def report_html(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, locations: pd.DataFrame,

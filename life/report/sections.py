@@ -185,6 +185,7 @@ def section_inputs(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, sv
         ("residue", duty.residue if duty.signal is not None else "— (block table)"),
         ("cycles.csv", cycle_note),
     ]
+    duty_rows += _measured_rows(duty)
     top = cycles.assign(range=cycles["max"] - cycles["min"]).sort_values("range", ascending=False).head(10)
     cyc_rows = [(f"{r['min'] * scale:.4g}", f"{r['max'] * scale:.4g}", f"{r['range'] * scale:.4g}", f"{r['count']:g}",
                  display.pair(r["energy_j"], "energy")) for _, r in top.iterrows()]
@@ -206,10 +207,37 @@ def section_inputs(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, sv
 {table_html(duty_rows, cls="kv")}
 {figure_html(svg["duty"], "2", "The duty: one block of the drive history (decimated to a min/max envelope when long) "
          "and its rainflow matrix, cycles per block by range and mean (ASTM E1049-85 counting).")}
+{_spectrum_figure(duty, svg)}
 <h4>Largest counted cycles</h4>
 {table_html(cyc_rows, header=(f"min [{unit}]", f"max [{unit}]", f"range [{unit}]", "count",
                               display.header("energy", "energy")), cls="small")}
 </section>"""
+
+
+def _measured_rows(duty) -> list[tuple[str, str]]:
+    """Rows of the duty table for a PSD duty (moments, irregularity, method, rates) and a strain gauge."""
+    rows = []
+    if duty.gauge is not None:
+        g = duty.gauge
+        rows.append(("measured", f"strain at a gauge, x = {g.x * 1e3:g} mm, {g.face} face"
+                     + (f", ply {g.ply}" if g.ply else "") + "; turned into load-point force"))
+    if duty.spectral is not None:
+        s = duty.spectral.spectral
+        m = s.moments
+        rows += [("spectral moments (SI)", f"m0 = {m.m0:.4g}, m1 = {m.m1:.4g}, m2 = {m.m2:.4g}, m4 = {m.m4:.4g}"),
+                 ("irregularity factor γ", f"{m.irregularity:.4f} (1: narrow band)"),
+                 ("range distribution", f"{s.method}; {s.rate:.4g} cycles per second, {s.duration:g} s per block"),
+                 ("expected largest excursion", f"± {s.largest_peak:.4g} (SI) about the mean {s.mean:.4g} in one block "
+                                                "(Davenport 1964)")]
+    return rows
+
+
+def _spectrum_figure(duty, svg: Mapping[str, str]) -> str:
+    if duty.spectral is None or "spectrum" not in svg:
+        return ""
+    return figure_html(svg["spectrum"], "2b", "The duty's vibration spectrum (one-sided PSD, log-log) with a third of "
+                       "the part's first bending frequency marked, and the distribution of cycle ranges it implies "
+                       "(Dirlik 1985; narrow band: Rayleigh, Bendat 1964). Both assume a stationary Gaussian process.")
 
 
 def _curve_text(curve, display: Display = SI) -> str:
@@ -309,6 +337,7 @@ def section_results(result: LifeResult, cycles: pd.DataFrame, locations: pd.Data
         ("energy in the largest cycle", display.both(s["cycle_energy_j"], "energy")),
         ("specific energy", display.both(s["specific_energy_j_per_kg"], "specific_energy")),
         ("energy-storage efficiency", f"{s['energy_efficiency']:.3f}"),
+        ("first bending frequency", quantity(s.get("first_mode_hz"), "Hz") + " (the part alone, Euler–Bernoulli)"),
     ]
     worst = locations.sort_values("damage_per_block", ascending=False).head(10)
     cells, local_unit = _location_cells(worst)

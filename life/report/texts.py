@@ -18,6 +18,14 @@ METHODS = [
     ("Fatigue", "S-N or strain-life curves (power or log-linear), mean stress by Goodman, Gerber or a piecewise-linear "
      "constant-life diagram, Palmgren–Miner damage sum"),
     ("Energy", "U = ½·C·F² (Clapeyron); the energy of a cycle from its lowest-energy point to its highest"),
+    ("Vibration spectra", "a PSD duty: spectral moments m_n = ∫fⁿG(f)df; rainflow ranges by Dirlik (1985; cycles at "
+     "the peak rate √(m4/m2)) or narrow band (Bendat 1964, Rayleigh; at √(m2/m0)), binned on a geometric range "
+     "grid (damage within 0.5 % for slopes 3…20); the static check at the expected largest peak of a block "
+     "(Davenport 1964)"),
+    ("Strain gauge", "a measured gauge strain becomes the load-point force through the inverse of the force → "
+     "gauge strain map (ε = ε⁰ + zκ at the gauge's face, Kaw Eq. 4.16)"),
+    ("Natural frequency", "first bending mode of the part alone (EI(x) and mass per length from the laminate, "
+     "taper and drops) by Euler–Bernoulli Hermite elements, checked against Blevins' λ₁ for uniform beams"),
 ]
 
 LIMITS = [
@@ -26,6 +34,11 @@ LIMITS = [
     "interlaminar shear assumes a locally prismatic section; free-edge stresses are not modelled",
     "Miner's rule ignores the order of loading; composites often fail below D = 1 under variable amplitude",
     "material values marked 'recalled' are typical values given from memory: replace them with tested data",
+    "a vibration spectrum (PSD) duty: Dirlik's and the narrow-band range distributions assume a stationary Gaussian "
+    "process; transients, clipped or skewed loads and changing conditions need a measured time history",
+    "the analysis is quasi-static: the first bending frequency is that of the part alone (no carried mass, no "
+    "fixture compliance); drive content above about a third of it is warned of, as the part's own vibration "
+    "changes the stresses there",
 ]
 
 RULE_NAMES = {
