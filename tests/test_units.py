@@ -255,3 +255,19 @@ def test_wrong_letter_case_gets_a_suggestion(text, kind, hint):
     with pytest.raises(InputError) as info:
         parse_quantity(text, kind, WHERE)
     assert f"did you mean {hint}?" in str(info.value)
+
+
+@pytest.mark.parametrize("text, value", [("350 ue", 350e-6), ("350 µε", 350e-6), ("350 με", 350e-6),
+                                         ("350 microstrain", 350e-6), ("0.035 %", 350e-6), ("0.00035 strain", 350e-6)])
+def test_strain_as_gauge_engineers_write_it(text, value):
+    """Microstrain is 10⁻⁶ (common practice); µ or the Greek μ, or "ue"; percent; the bare word strain."""
+    assert parse_quantity(text, "strain", "w") == pytest.approx(value, rel=1e-12)
+
+
+@pytest.mark.parametrize("unit, kind, factor", [("mm^2/Hz", "length", 1e-6), ("N^2/Hz", "force", 1.0),
+                                                ("ue^2/Hz", "strain", 1e-12), ("in^2/Hz", "length", 0.0254**2)])
+def test_psd_units(unit, kind, factor):
+    """The drive's unit squared per hertz, to SI (1 in = 0.0254 m exactly, NIST SP 811)."""
+    from flexcycle.mechanics.units import psd_factor
+
+    assert psd_factor(unit, kind, "w") == pytest.approx(factor, rel=1e-12)
