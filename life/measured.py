@@ -25,9 +25,11 @@ from flexcycle.mechanics.gauge import GAUGE_FACES, Gauge, GaugeMap, linear_gauge
 from flexcycle.mechanics.units import parse_quantity, psd_factor
 from flexcycle.spectra import errors as spectra_errors
 from flexcycle.spectra.cycles import Cycles
+from flexcycle.spectra.profiles import bundled_profile
 from flexcycle.spectra.spectral import METHODS, SpectralCycles, Spectrum, read_spectrum, spectral_cycles
 from flexcycle.spectra.streaming import Envelope
 
+BUNDLED_PREFIX = "bundled:"  # psd = "bundled:NAME" reads a demo spectrum shipped with flexcycle (as a profile)
 PSD_KEYS = {"psd", "frequency_column", "psd_column", "mean", "duration", "method"}
 GAUGE_KEYS = {"x", "face", "ply"}
 KIND_OF_DRIVE = {"force": "force", "deflection": "length", "strain": "strain"}  # quantity kind of each drive
@@ -76,7 +78,10 @@ def psd_duty(table: Mapping, where: str, base_dir: Path, drive: str) -> Spectral
         duration = parse_quantity(table["duration"], "time", f"{where} duration")
         if not duration > 0:
             raise InputError(f"{where} duration: one block must last > 0 s, got {table['duration']!r}")
-        path = (base_dir / path_text).resolve()
+        if path_text.startswith(BUNDLED_PREFIX):  # a demo spectrum shipped with flexcycle
+            path = bundled_profile(path_text[len(BUNDLED_PREFIX):])
+        else:
+            path = (base_dir / path_text).resolve()
         spec = read_spectrum(path, table["frequency_column"], table["psd_column"], 1.0, scale, f"{where} psd")
         spectral = spectral_cycles(spec, mean, duration, method)
     except (mechanics_errors.InputError, spectra_errors.InputError) as exc:
