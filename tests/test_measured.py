@@ -217,7 +217,7 @@ def test_psd_duty_summary_and_outputs(tmp_path):
     m = s["spectrum"]
     assert s["cycles_per_block"] == pytest.approx(3600 * np.sqrt(m["m2"] / m["m0"]), rel=1e-9)
     report = (tmp_path / "out" / "report.html").read_text(encoding="utf-8")
-    assert 'id="fig-2b"' in report and "stationary Gaussian process" in report
+    assert 'id="fig-2b"' in report and "stationary Gaussian process" in report and "range distribution" in report
     assert "first frequency" in ran.out
 
 
