@@ -61,7 +61,6 @@ KINDS = {
     "stiffness": ("[force] / [length]", "N/m"),
     "time": ("[time]", "s"),
     "strain": ("", ""),
-    "time": ("[time]", "s"),
     "frequency": ("1 / [time]", "Hz"),
 }
 EXAMPLES = {
@@ -73,7 +72,6 @@ EXAMPLES = {
     "stiffness": '"25 N/mm" or "140 lbf/in"',
     "time": '"5 years" or "90 days"',
     "strain": '0.021 or "2.1 %"',
-    "time": '"1 h" or "3600 s"',
     "frequency": '"500 Hz"',
 }
 
