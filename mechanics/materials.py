@@ -21,7 +21,6 @@ is a stress. This module only reads and checks curves; evaluating them belongs t
 """
 from __future__ import annotations
 
-import difflib
 import functools
 import math
 import tomllib
@@ -30,7 +29,7 @@ from dataclasses import dataclass
 from importlib import resources
 from types import MappingProxyType
 
-from .errors import InputError
+from .errors import InputError, did_you_mean
 from .units import is_dimensionless, parse_quantity
 
 MATERIAL_KEYS_REQUIRED = ("E1", "E2", "G12", "nu12", "density", "Xt", "Xc", "Yt", "Yc", "S12")
@@ -164,8 +163,7 @@ def _join(path: str, key: str) -> str:
 def _check_keys(table: Mapping, allowed: tuple[str, ...], where: str, path: str = "") -> None:
     for key in table:
         if key not in allowed:
-            close = difflib.get_close_matches(str(key), allowed, n=1, cutoff=0.6)
-            hint = f"did you mean {close[0]!r}? " if close else ""
+            hint = did_you_mean(str(key), allowed)
             raise _fail(where, _join(path, str(key)), f"unknown key; {hint}allowed keys: {', '.join(allowed)}")
 
 
@@ -173,9 +171,8 @@ def _name(value: object, names: tuple[str, ...], where: str, key: str) -> str:
     """``value`` if it is one of ``names``; otherwise an error suggesting the nearest (difflib)."""
     if isinstance(value, str) and value in names:
         return value
-    close = difflib.get_close_matches(value, names, n=1, cutoff=0.6) if isinstance(value, str) else []
-    hint = f"did you mean {close[0]!r}? " if close else ""
-    raise _fail(where, key, f"unknown name {value!r}; {hint}must be one of {', '.join(map(repr, names))}")
+    raise _fail(where, key, f"unknown name {value!r}; {did_you_mean(value, names)}"
+                            f"must be one of {', '.join(map(repr, names))}")
 
 
 def _bare_number(value: object, where: str, key: str, example: str) -> float:
@@ -589,10 +586,10 @@ def resolve_materials(user_tables: Mapping[str, Mapping], where: str) -> dict[st
         base = materials.get(name)
         if base is None and isinstance(table, Mapping):
             missing = [k for k in MATERIAL_KEYS_REQUIRED if k not in table]
-            close = difflib.get_close_matches(name, list(materials), n=1, cutoff=0.8)
-            if missing and close:
+            hint = did_you_mean(name, materials, cutoff=0.8)
+            if missing and hint:
                 raise InputError(
-                    f"{place}: {name!r} is not a library material (did you mean {close[0]!r}?), "
+                    f"{place}: {name!r} is not a library material ({hint.rstrip()}), "
                     f"and as a new material it lacks {', '.join(missing)}"
                 )
         materials[name] = material_from_table(name, table, place, base)

@@ -7,7 +7,6 @@ Lean start: the library (numpy, pandas, scipy, matplotlib, pint) is imported ins
 """
 from __future__ import annotations
 
-import difflib
 import os
 import sys
 import traceback
@@ -17,12 +16,11 @@ from pathlib import Path
 import typer
 
 from flexcycle.caution import CAUTION
-from flexcycle.errors import InputError as LifeInputError
-from flexcycle.mechanics.errors import InputError as MechanicsInputError
-from flexcycle.spectra.errors import InputError as SpectraInputError
+from flexcycle.errors import INPUT_ERRORS, InputError, did_you_mean, input_errors
 
-INPUT_ERRORS = (LifeInputError, MechanicsInputError, SpectraInputError)
 EXAMPLE = "cargo-bike-rear-spring.toml"
+# The library's parameters that the commands take as options under another name (InputError.naming)
+FLAGS = {"out": "--out", "target_blocks": "--life", "vary": "--vary", "rate": "--rate", "duty": "--duty"}
 PROGRESS_BYTES = 20_000_000  # a time history file larger than this (about 10⁶ samples) gets a progress bar
 
 app = typer.Typer(
@@ -93,7 +91,7 @@ def compare(
 
     _check_units(units)
     if len(designs) < 2:
-        raise LifeInputError("compare: give two or more design files to set side by side")
+        raise InputError("compare: give two or more design files to set side by side")
     loaded = [load_design(path) if duty is None else with_common_duty(path, duty) for path in designs]
     results = [estimate(design) for design in loaded]
     table = comparison_table(results)
@@ -165,18 +163,19 @@ def count(
     from flexcycle.spectra.streaming import count_history, refuse_constant
 
     if residue not in RESIDUE_MODES:
-        raise LifeInputError(f"--residue: must be one of {', '.join(RESIDUE_MODES)}, got {residue!r}")
+        raise InputError(f"--residue: must be one of {', '.join(RESIDUE_MODES)}, got {residue!r}")
     if not unit.strip():
-        raise LifeInputError('--unit: the unit of the column, e.g. "mm" or "N"')
+        raise InputError('--unit: the unit of the column, e.g. "mm" or "N"')
     if top < 0:
-        raise LifeInputError(f"--top: a number of rows >= 0 (0 shows all), got {top}")
-    scale = unit_factor(unit, "--unit")
-    refuse_headerless(profile, f"count: profile file '{profile}'")
-    with _progress() as progress:
-        history = count_history(profile, column, scale, "count", residue, progress=progress)
-    refuse_constant(history, f"count: profile file '{profile}'", unit, scale)
+        raise InputError(f"--top: a number of rows >= 0 (0 shows all), got {top}")
+    with input_errors():  # the unit (mechanics), the profile and its counting (spectra)
+        to_si = unit_factor(unit, "--unit")
+        refuse_headerless(profile, f"count: profile file '{profile}'")
+        with _progress() as progress:
+            history = count_history(profile, column, to_si, "count", residue, progress=progress)
+        refuse_constant(history, f"count: profile file '{profile}'", unit, to_si)
     cycles = merge_identical(history.cycles)
-    typer.echo(terminal.cycle_text(cycles, unit, scale, top, history.samples, residue))
+    typer.echo(terminal.cycle_text(cycles, unit, to_si, top, history.samples, residue))
 
 
 @app.command()
@@ -190,9 +189,8 @@ def materials(name: str | None = typer.Argument(None, help="a material to show i
         typer.echo(terminal.materials_text(lib))
         return
     if name not in lib:
-        close = difflib.get_close_matches(name, sorted(lib), n=1)
-        hint = f"did you mean {close[0]!r}? " if close else ""
-        raise LifeInputError(f"materials: unknown material {name!r}; {hint}bundled: {', '.join(sorted(lib))}")
+        raise InputError(f"materials: unknown material {name!r}; {did_you_mean(name, lib)}"
+                         f"bundled: {', '.join(sorted(lib))}")
     typer.echo(describe(lib[name]))
 
 
@@ -248,8 +246,9 @@ def main() -> None:
     """Console entry point: turn input errors into exit 2 with one message, faults into exit 1."""
     try:
         app(standalone_mode=False)
-    except INPUT_ERRORS as exc:
-        typer.echo(f"flexcycle: {exc}", err=True)
+    except INPUT_ERRORS as exc:  # flexcycle.InputError and the lower layers' (it is a subclass of both)
+        message = exc.naming(FLAGS) if isinstance(exc, InputError) else str(exc)
+        typer.echo(f"flexcycle: {message}", err=True)
         sys.exit(2)
     except typer.Exit as exc:
         sys.exit(exc.exit_code)
