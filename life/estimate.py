@@ -31,14 +31,19 @@ from flexcycle.mechanics.energy import StorageFigures, cycle_energy, force_per_d
 from flexcycle.mechanics.modal import Mode, first_mode
 from flexcycle.requirement import verdict_of
 from flexcycle.resonance import resonance_warnings
+from flexcycle.views import ResultViews
 
 IMPLAUSIBLE_STRAIN = 0.2  # a fibre strain no structural composite or wood reaches (common practice): an input slip
 
 
 
 @dataclass(frozen=True)
-class LifeResult:
-    """Everything an estimate gives; ``summary()`` is the summary.json contract."""
+class LifeResult(ResultViews):
+    """Everything an estimate gives; ``summary()`` is the summary.json contract.
+
+    Its tables (``station_table``, ``location_table``, ``cycle_table``: DataFrames), figures (``figure(name)``)
+    and notebook display come from `flexcycle.views.ResultViews`, computed when first asked for.
+    """
 
     design: Design
     response: BeamResponse

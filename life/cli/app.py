@@ -10,7 +10,6 @@ from __future__ import annotations
 import os
 import sys
 import traceback
-from importlib import resources
 from pathlib import Path
 
 import typer
@@ -18,13 +17,13 @@ import typer
 from flexcycle.caution import CAUTION
 from flexcycle.errors import INPUT_ERRORS, InputError, did_you_mean, input_errors
 
-EXAMPLE = "cargo-bike-rear-spring.toml"
 # The library's parameters that the commands take as options under another name (InputError.naming)
 FLAGS = {"out": "--out", "target_blocks": "--life", "vary": "--vary", "rate": "--rate", "duty": "--duty"}
 PROGRESS_BYTES = 20_000_000  # a time history file larger than this (about 10⁶ samples) gets a progress bar
 
 app = typer.Typer(
     add_completion=False,
+    rich_markup_mode=None,  # plain help: rendering it with rich costs about 0.3 s of start-up (typer.rich_utils)
     no_args_is_help=True,
     help="Fatigue life and stored energy of flexing composite beams. " + CAUTION,
 )
@@ -32,7 +31,9 @@ app = typer.Typer(
 
 def example_design() -> Path:
     """Path of the bundled example design (invented demo data)."""
-    return Path(str(resources.files("flexcycle") / "examples" / EXAMPLE))
+    from flexcycle.examples import example_path
+
+    return example_path()
 
 
 UNITS_HELP = "units shown: si or us (in, lbf, ksi, in·lbf, lb, with SI beside); the files stay SI"

@@ -1,0 +1,113 @@
+"""What a LifeResult shows a Python caller: its tables as DataFrames, its figures as matplotlib Figures, and
+its display in a notebook (``_repr_html_``), each computed when first asked for.
+
+The tables are the run's files (``flexcycle.outputs``: stations.csv, locations.csv, cycles.csv) before they are
+written; the figures are the report's (``flexcycle.report.figures.FIGURE_MAKERS``) before the report turns
+them into SVG. `ResultViews` is mixed into ``flexcycle.estimate.LifeResult``; the modules it draws on sit above
+the estimate and are imported inside the methods, so that the estimate imports neither pandas nor matplotlib.
+"""
+from __future__ import annotations
+
+import html
+from functools import cached_property
+from typing import TYPE_CHECKING
+
+from flexcycle.caution import CAUTION
+from flexcycle.formatting import life_text, number_text
+
+if TYPE_CHECKING:
+    import pandas as pd
+    from matplotlib.figure import Figure
+
+    from flexcycle.estimate import LifeResult
+
+
+class ResultViews:
+    """Tables, figures and the notebook display of a LifeResult (mixed into it; cached on the instance)."""
+
+    @cached_property
+    def station_table(self) -> pd.DataFrame:
+        """The beam along the span, one row per station: the content of stations.csv (SI)."""
+        from flexcycle.outputs import station_table
+
+        return station_table(self)
+
+    @cached_property
+    def location_table(self) -> pd.DataFrame:
+        """Damage per block at every location (station, ply, face, mode): the content of locations.csv (SI)."""
+        from flexcycle.outputs import location_table
+
+        return location_table(self)
+
+    @cached_property
+    def _cycles_and_note(self) -> tuple[pd.DataFrame, str]:
+        from flexcycle.outputs import cycle_table
+
+        return cycle_table(self)
+
+    @property
+    def cycle_table(self) -> pd.DataFrame:
+        """The counted drive cycles (min, max, count, energy_j; SI): the content of cycles.csv."""
+        return self._cycles_and_note[0]
+
+    @property
+    def cycle_note(self) -> str:
+        """How the cycle table holds the cycles (each distinct cycle, or binned at scale), as the report says."""
+        return self._cycles_and_note[1]
+
+    def figure(self, name: str) -> Figure:
+        """The report's figure ``name`` (one of ``flexcycle.FIGURES``) as a new matplotlib Figure."""
+        from flexcycle.errors import InputError, did_you_mean
+        from flexcycle.report.figures import FIGURE_MAKERS
+
+        if name not in FIGURE_MAKERS:
+            raise InputError(f"name {name!r}: no such figure; {did_you_mean(name, FIGURE_MAKERS)}"
+                             f"the figures are {', '.join(FIGURE_MAKERS)}", parameter="name")
+        return FIGURE_MAKERS[name](self, self.cycle_table, self.location_table)
+
+    def figures(self) -> dict[str, Figure]:
+        """Every figure of the report, by name, in the report's order (new matplotlib Figures)."""
+        from flexcycle.report.figures import FIGURES
+
+        return {name: self.figure(name) for name in FIGURES}
+
+    def _repr_html_(self) -> str:
+        """The headline table for a notebook: title, the headline figures, the warnings' count, the caution."""
+        rows = "".join(f"<tr><th style='text-align:left'>{html.escape(quantity)}</th>"
+                       f"<td style='text-align:left'>{html.escape(value)}</td></tr>"
+                       for quantity, value in headline_rows(self))
+        warnings = len(self.warnings)
+        said = "no warnings" if not warnings else f"{warnings} warning{'s' if warnings != 1 else ''} (result.warnings)"
+        return (f"<div><strong>{html.escape(self.design.title)}</strong>"
+                f"<table>{rows}<tr><th style='text-align:left'>warnings</th><td style='text-align:left'>"
+                f"{said}</td></tr></table>"
+                f"<p><em>caution: {html.escape(CAUTION)}</em></p></div>")
+
+
+def headline_rows(result: LifeResult) -> list[tuple[str, str]]:
+    """The run's headline figures as (quantity, value with its unit) rows, the same in the terminal and a
+    notebook: life, damage, rule, critical mode, ply and place, stiffness, mass, strain, energies, reserve."""
+    design, critical, summary = result.design, result.critical, result.summary()
+    ply = design.beam.plies[critical.ply - 1]
+    rows = [("life, cycles", life_text(result.life_cycles, "cycles")),
+            ("life, blocks", life_text(result.life_blocks, "blocks of the duty"))]
+    if design.duty.blocks_per_day:
+        rows.append(("life, days", life_text(result.life_days, "days")
+                     + f" at {design.duty.blocks_per_day:g} blocks per day"))
+    rows += [
+        ("damage", f"{number_text(result.damage_per_block, 3)} per block (Miner limit {design.miner_limit:g})"),
+        ("rule", f"mean stress {design.mean_stress}, stress factor {design.stress_factor:g}"),
+        ("critical mode", critical.mode),
+        ("critical ply", f"ply {critical.ply} ({ply.material.name}, {ply.angle:g}°), {critical.face} face"),
+        ("critical place", f"x = {critical.x_m * 1e3:.1f} mm from the root, z = {critical.z_m * 1e3:+.2f} mm"),
+        ("stiffness", number_text(summary["stiffness_n_per_m"], 4, 1e-3, "N/mm") + " at the load point"),
+        ("mass", number_text(summary["mass_kg"], 4, 1e3, "g")),
+        ("peak strain", number_text(summary["peak_strain"], 3, 100, "%") + " along the fibres"),
+        ("peak energy", number_text(summary["peak_energy_j"], 4, unit="J") + " at peak drive"),
+        ("cycle energy", number_text(summary["cycle_energy_j"], 4, unit="J") + " in the largest cycle"),
+        ("specific energy", number_text(summary["specific_energy_j_per_kg"], 4, unit="J/kg")
+         + f", storage efficiency {summary['energy_efficiency']:.3f}"),
+        ("static reserve", f"{number_text(summary['static_reserve'], 3)} ({result.static.criterion}) at x = "
+                           f"{result.static.x_m * 1e3:.0f} mm, ply {result.static.ply}"),
+    ]
+    return rows
