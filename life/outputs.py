@@ -141,16 +141,13 @@ def render(result: LifeResult, sizing: Sequence[tuple[str, str, str]] | None = N
     display : the units the report shows (SI, or inch-pound with SI beside); summary.json and the CSV files
         stay SI
     """
-    cycles, note = cycle_table(result)
-    summary = result.summary()
-    summary["cycles_csv"] = note
-    locations = location_table(result)
-
+    # the result's own tables (computed once, the same a Python caller reads); summary.json is result.summary()
+    cycles, note, locations = result.cycle_table, result.cycle_note, result.location_table
     files = {
-        "summary.json": json.dumps(summary, indent=2, allow_nan=False) + "\n",
+        "summary.json": json.dumps(result.summary(), indent=2, allow_nan=False) + "\n",
         "cycles.csv": cycles.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
         "locations.csv": locations.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
-        "stations.csv": station_table(result).to_csv(index=False, float_format="%.9g", lineterminator="\n"),
+        "stations.csv": result.station_table.to_csv(index=False, float_format="%.9g", lineterminator="\n"),
     }
     svg = figure_svgs(result, cycles, locations, FIGURES, display)
     files["report.html"] = report_html(result, cycles, note, locations, sizing, svg=svg, display=display)
