@@ -1,4 +1,4 @@
-"""The design file (TOML, DESIGN.md "Design file v1"): read, convert units, validate, build a Design.
+"""The design file (TOML, docs/design.md "Design file v1"): read, convert units, validate, build a Design.
 
 Every dimensional value is a string with its unit (pint, ``flexcycle.mechanics.units``); a missing unit, an unknown
 key, a wrong type or an impossible value is an ``InputError`` naming the file, the key (and row) and what

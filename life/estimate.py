@@ -1,6 +1,6 @@
 """The life estimate: design → response map → counted cycles → damage → LifeResult.
 
-The one orchestrator of flexcycle (DESIGN.md, data flow). Mechanics gives every location's response per
+The one orchestrator of flexcycle (docs/design.md, data flow). Mechanics gives every location's response per
 unit drive force; the duty's cycles are counted once; ``flexcycle.fatigue.damage`` maps each cycle's extremes to every
 location; Miner's sum per block gives the life; mechanics gives stiffness, mass, static reserve and energy.
 """
@@ -64,7 +64,7 @@ class LifeResult(ResultViews):
     first_mode: Mode | None = None  # the part's first bending mode (flexcycle.mechanics.modal)
 
     def summary(self) -> dict:
-        """The summary.json object (DESIGN.md, outputs contract): SI numbers, strict JSON."""
+        """The summary.json object (docs/design.md, outputs contract): SI numbers, strict JSON."""
         d, r = self.design, self.response
         c = self.critical
         return {

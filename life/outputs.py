@@ -1,4 +1,4 @@
-"""Output files of a run (DESIGN.md, outputs contract): summary.json, cycles.csv, locations.csv, report.html.
+"""Output files of a run (docs/design.md, outputs contract): summary.json, cycles.csv, locations.csv, report.html.
 
 Every file is rendered in memory first, then written into a temporary folder beside the output folder and
 moved into place at the end, so a failing run leaves the output folder as it was.

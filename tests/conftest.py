@@ -4,7 +4,7 @@
   elasticity; Timoshenko & Goodier, Theory of Elasticity, 3rd ed., sec. 6), so closed-form beam formulas
   (Roark, ASTM D790/D6272) apply to it exactly.
 - ``kaw_ply``: the carbon/epoxy ply of Kaw, Mechanics of Composite Materials, 2nd ed., Ch. 2 examples,
-  E1 = 181 GPa, E2 = 10.3 GPa, ν12 = 0.28, G12 = 7.17 GPa (REFERENCES.md).
+  E1 = 181 GPa, E2 = 10.3 GPa, ν12 = 0.28, G12 = 7.17 GPa (docs/references.md).
 
 The factories are session-scoped so hypothesis tests may use them.
 """

@@ -1,9 +1,9 @@
-"""Design-file text shared by the tests: the invented user material of DESIGN.md's design-file example."""
+"""Design-file text shared by the tests: the invented user material of docs/design.md's design-file example."""
 from __future__ import annotations
 
 
 def user_glass(name: str = "my-glass", nu12: float = 0.28, extra: str = "") -> str:
-    """The ``[material.NAME]`` table of DESIGN.md's example (E1 40 GPa, Xt 1000 / Xc 600 MPa, an R = −1 power
+    """The ``[material.NAME]`` table of docs/design.md's example (E1 40 GPa, Xt 1000 / Xc 600 MPa, an R = −1 power
     curve S1 = 800 MPa, m = 10), with ``extra`` lines added to the material table (e.g. ``'G13 = "4 GPa"'``)."""
     more = f"{extra}\n" if extra else ""
     return f"""\

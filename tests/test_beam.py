@@ -2,8 +2,8 @@
 
 Sources: Roark's Formulas for Stress and Strain, 7th ed. (Young & Budynas), Table 8.1 (moments and
 deflections; the four supports are checked in tests/validation/test_roark_beam_cases.py); the unit-load
-(virtual work) compliance C = ∫ m²/EI dx + ∫ v²/(κs G A) dx with κs = 5/6 (Timoshenko shear; REFERENCES.md
-"Beams"); rectangular section σ = 6M/(bh²), δ = 4FL³/(Ebh³) (REFERENCES.md, common practice from the
+(virtual work) compliance C = ∫ m²/EI dx + ∫ v²/(κs G A) dx with κs = 5/6 (Timoshenko shear; docs/references.md
+"Beams"); rectangular section σ = 6M/(bh²), δ = 4FL³/(Ebh³) (docs/references.md, common practice from the
 formulas). Isotropic test plies make the hand formulas exact: 1/d11 = E h³/12 per width.
 """
 import dataclasses
@@ -33,7 +33,7 @@ def plies(h, n=1, mat=ISO, angle=0.0):
 
 
 # ---------------------------------------------------------------------------------------------
-# Rectangular section scaling (REFERENCES.md: σ = 6FL/(bh²), δ = 4FL³/(Ebh³); common practice).
+# Rectangular section scaling (docs/references.md: σ = 6FL/(bh²), δ = 4FL³/(Ebh³); common practice).
 
 def test_doubling_thickness_quarters_stress_and_divides_bending_deflection_by_eight():
     L, b, h = 0.3, 20e-3, 3e-3
@@ -221,7 +221,7 @@ def test_plate_section_is_stiffer_by_one_minus_nu_squared():
 
 
 def test_first_ply_in_tension_under_positive_drive():
-    """DESIGN.md convention: positive drive puts ply 1 (z = −h/2) in tension."""
+    """docs/design.md convention: positive drive puts ply 1 (z = −h/2) in tension."""
     r = respond(Beam("cantilever", 0.3, 20e-3, 20e-3, plies(3e-3, 3)))
     assert r.strain_x[0, 0, 0] > 0 and r.strain_x[0, -1, 1] < 0
     assert r.z[0, 0, 0] == pytest.approx(-1.5e-3, rel=ROUND_OFF)

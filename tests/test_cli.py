@@ -1,11 +1,11 @@
-"""The ``flexcycle`` command, life/cli.py (DESIGN.md, outputs contract and exit codes).
+"""The ``flexcycle`` command, life/cli/app.py (docs/design.md, outputs contract and exit codes).
 
 The bundled example and one wrong design run through the installed console script (a subprocess, as a
 user runs it); everything else runs in-process through ``flexcycle.cli.app.main`` with ``sys.argv`` patched, which
 is the same entry point without the ~1.5 s start-up of a new interpreter.
 
 Designs here are small cantilevers of a UD laminate, for which the rectangular-section formulas hold at
-the root (REFERENCES.md, Roark 7th ed. / rectangular section): σ = 6FL/(bh²), δ = 4FL³/(Ebh³), so the
+the root (docs/references.md, Roark 7th ed. / rectangular section): σ = 6FL/(bh²), δ = 4FL³/(Ebh³), so the
 fibre strain per tip deflection is ε = 3δh/(2L²) when shear deflection is ignored (with it the strain
 per deflection is smaller, which keeps the bounds below on the safe side).
 """
@@ -35,13 +35,13 @@ CONTRACT_KEYS = {
     "title", "life_cycles", "life_blocks", "life_days", "damage_per_block", "critical", "stiffness_n_per_m",
     "mass_kg", "peak_strain", "peak_energy_j", "cycle_energy_j", "specific_energy_j_per_kg", "static_reserve",
     "warnings", "life_unbounded",
-}  # DESIGN.md, outputs contract, summary.json
+}  # docs/design.md, outputs contract, summary.json
 CRITICAL_KEYS = {"x_m", "ply", "z_m", "mode"}
 MODES = {"fibre-tension", "fibre-compression", "transverse", "shear", "interlaminar", "core-shear"}
 BUNDLED_MATERIALS = {"e-glass-epoxy", "carbon-epoxy", "aramid-epoxy", "glass-epoxy-woven", "sugar-maple",
                      "structural-foam"}
 
-# my-glass of DESIGN.md's design-file example, plus (in some tests) a fatigue limit on its curve.
+# my-glass of docs/design.md's design-file example, plus (in some tests) a fatigue limit on its curve.
 MY_GLASS = user_glass("my-glass")
 
 
@@ -122,7 +122,7 @@ def test_no_command_shows_the_help_and_no_empty_message():
 
 
 def test_example_summary_has_every_contract_key_finite_strict_json(example_run):
-    """Every key of DESIGN.md's summary.json contract; numbers finite (strict JSON has no NaN/Infinity)."""
+    """Every key of docs/design.md's summary.json contract; numbers finite (strict JSON has no NaN/Infinity)."""
     _, out = example_run
     s = strict_json((out / "summary.json").read_text(encoding="utf-8"))
     assert CONTRACT_KEYS <= set(s)
@@ -288,7 +288,7 @@ def test_count_with_a_missing_column_exits_2(monkeypatch, capsys):
 ])
 def test_count_refuses_a_headerless_or_constant_history(text, words, tmp_path, monkeypatch, capsys):
     """`flexcycle count` says what the design loader says about the same files: exit 2, the file, the line or
-    column, and what would be right (issue 5, profiles)."""
+    column, and what would be right."""
     path = tmp_path / "h.csv"
     path.write_text(text, encoding="utf-8")
     ran = flexcycle(["count", path, "--column", "d", "--unit", "mm"], monkeypatch, capsys)
@@ -306,7 +306,7 @@ def test_materials_lists_the_six_bundled(monkeypatch, capsys):
 
 
 def test_materials_shows_e_glass_with_its_source(monkeypatch, capsys):
-    """E-glass/epoxy E1 = 38.6 GPa, Tsai & Hahn 1980 (REFERENCES.md; also Kaw Table 2.1)."""
+    """E-glass/epoxy E1 = 38.6 GPa, Tsai & Hahn 1980 (docs/references.md; also Kaw Table 2.1)."""
     ran = flexcycle(["materials", "e-glass-epoxy"], monkeypatch, capsys)
     assert ran.code == 0
     assert re.search(r"^\s*E1\s+38\.6 GPa\s+.*Tsai & Hahn", ran.out, re.MULTILINE), ran.out
@@ -432,7 +432,7 @@ def test_wrong_arguments_exit_2_with_a_message(args, says, monkeypatch, capsys):
 
 
 # ---------------------------------------------------------------------------------------------
-# Bad input, class by class (issue 5): exit 2, one message on stderr starting with the file's name, holding
+# Bad input, class by class: exit 2, one message on stderr starting with the file's name, holding
 # the key (row or line), what was wrong and what would be right; never a traceback.
 
 GOOD_DUTY = 'drive = "deflection"\ncycles = [ { min = "0 mm", max = "5 mm", count = 10 } ]'
@@ -550,12 +550,12 @@ def test_the_designs_the_bad_cases_start_from_are_valid(tmp_path, monkeypatch, c
 
 
 # ---------------------------------------------------------------------------------------------
-# Beyond the model, not wrong: warnings in summary.json (issue 5, item 3)
+# Beyond the model, not wrong: warnings in summary.json
 
 
 def test_deflection_over_a_tenth_of_the_span_is_a_warning(tmp_path, monkeypatch, capsys):
     """A 25 mm tip deflection of a 200 mm cantilever is 12.5 % of the span, past the 10 % of small-deflection
-    theory (DESIGN.md conventions): a warning, not an error. Fibre strain ε = 3δh/(2L²) = 3 × 0.025 × 0.002 /
+    theory (docs/design.md conventions): a warning, not an error. Fibre strain ε = 3δh/(2L²) = 3 × 0.025 × 0.002 /
     (2 × 0.2²) = 0.19 %, far below e-glass/epoxy's ultimate strains, so the run itself is sound."""
     s = run_design(tmp_path, "large", cantilever('drive = "deflection"\ncycles = [ { min = "0 mm", max = "25 mm", '
                                                   'count = 10 } ]\n'), monkeypatch, capsys)
@@ -597,7 +597,7 @@ def test_a_load_that_fails_a_ply_statically_names_the_ply_and_criterion(tmp_path
 
 
 # ---------------------------------------------------------------------------------------------
-# Data safety and determinism (issue 5, items 4 and 6)
+# Data safety and determinism
 
 
 def digest(path: Path) -> str:

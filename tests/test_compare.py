@@ -1,8 +1,8 @@
-"""Side-by-side comparison, life/compare.py (DESIGN.md, outputs contract: comparison.csv and comparison.html).
+"""Side-by-side comparison, life/explore/compare.py (docs/design.md, outputs contract: comparison.csv and comparison.html).
 
 The candidates are cantilevers of one homogeneous unidirectional 0° material (a user material, so its
 G13 is stated), loaded at the tip by a force block table. For them the rectangular-section formulas hold
-(Roark's Formulas for Stress and Strain, 7th ed., Table 8.1 case 1a; REFERENCES.md, rectangular section):
+(Roark's Formulas for Stress and Strain, 7th ed., Table 8.1 case 1a; docs/references.md, rectangular section):
 σ = 6FL/(bh²), δ = 4FL³/(Ebh³), plus the Timoshenko shear deflection FL/(κ·G13·b·h) with κ = 5/6.
 """
 from __future__ import annotations
@@ -29,11 +29,11 @@ from flexcycle.explore.compare import (
     same_duty,
 )
 
-# DESIGN.md, outputs contract: comparison.csv has at least these columns
+# docs/design.md, outputs contract: comparison.csv has at least these columns
 CONTRACT = ["title", "life_blocks", "life_cycles", "mass_kg", "stiffness_n_per_m", "peak_energy_j",
             "specific_energy_j_per_kg", "critical_mode"]
 
-# invented test material (the "my-glass" of DESIGN.md's design-file example, with G13 stated)
+# invented test material (the "my-glass" of docs/design.md's design-file example, with G13 stated)
 E1, G13, RHO = 40e9, 4e9, 1900.0  # Pa, Pa, kg/m³
 L, B, T_PLY = 0.200, 0.020, 0.5e-3  # span, width, ply thickness [m]
 
@@ -95,7 +95,7 @@ def test_rows_are_the_designs_in_order_with_the_contract_columns(results):
 
 @pytest.mark.parametrize("name", ["thin", "thick", "safe"])
 def test_contract_columns_equal_each_designs_own_summary(results, name):
-    """Each row holds its design's summary.json figures (DESIGN.md: the comparison is of the summaries)."""
+    """Each row holds its design's summary.json figures (docs/design.md: the comparison is of the summaries)."""
     s = results[name].summary()
     row = comparison_table([results["thin"], results["thick"], results["safe"]]).set_index("file").loc[f"{name}.toml"]
     for key in ["mass_kg", "stiffness_n_per_m", "peak_energy_j", "specific_energy_j_per_kg"]:
@@ -114,7 +114,7 @@ def test_contract_columns_equal_each_designs_own_summary(results, name):
 def test_thickness_doubled_closed_form(results):
     """Same cantilever and force, twice as thick (h = 2 → 4 mm), one homogeneous 0° material.
 
-    Hand calculation (Roark 7th ed., Table 8.1 case 1a; rectangular section, REFERENCES.md):
+    Hand calculation (Roark 7th ed., Table 8.1 case 1a; rectangular section, docs/references.md):
     - bending compliance 4L³/(E1·b·h³): thin 4·0.008/(40e9·0.02·0.002³) = 5.000e-3 m/N; thick 6.250e-4 m/N (÷8)
     - shear compliance L/(κ·G13·b·h), κ = 5/6 (Timoshenko): thin 0.2/(5/6·4e9·0.02·0.002) = 1.5e-6 m/N;
       thick 7.5e-7 m/N (÷2). Shear share of the compliance: thin 0.030 %, thick 0.12 % — bending-dominated,
@@ -314,7 +314,7 @@ def test_cli_compare_unbounded_is_an_empty_cell(files, tmp_path, monkeypatch, ca
 
 
 def test_cli_compare_wrong_design_exits_2_and_writes_nothing(files, tmp_path, monkeypatch, capsys):
-    """One wrong candidate: exit 2, one message naming its file, no comparison written (DESIGN.md exit codes)."""
+    """One wrong candidate: exit 2, one message naming its file, no comparison written (docs/design.md exit codes)."""
     wrong = tmp_path / "wrong.toml"
     wrong.write_text(candidate("wrong", 4).replace('span = "200 mm"', 'span = "200"'), encoding="utf-8")
     out = tmp_path / "cmp"

@@ -33,7 +33,7 @@ def _power(S1=800 * MPa, m=10.0, limit=None, R=-1.0):
 
 def test_extremes_flip_on_the_compression_side():
     """A location with response −2 MPa/N under a drive cycle 1 → 3 N sees −6 → −2 MPa: amplitude 2 MPa, mean
-    −4 MPa (DESIGN.md data flow: map the extremes; the sign flips). With mean_stress = "none" and
+    −4 MPa (docs/design.md data flow: map the extremes; the sign flips). With mean_stress = "none" and
     σa = 800 MPa·N^(−1/10): N = (800/2)^10 = 1.0486e26; 1000 such cycles give D = 1000/N (Palmgren–Miner)."""
     model = fatigue_model("none", [_power()], 1000 * MPa, 600 * MPa, "test")
     cycles = Cycles(np.array([1.0]), np.array([3.0]), np.array([1000.0]))
@@ -44,7 +44,7 @@ def test_extremes_flip_on_the_compression_side():
 
 
 def test_goodman_sees_the_sign_of_the_mean():
-    """Same cycle through Goodman with Xt = 1000, Xc = 600 MPa (REFERENCES.md, linear Goodman with unequal strengths):
+    """Same cycle through Goodman with Xt = 1000, Xc = 600 MPa (docs/references.md, linear Goodman with unequal strengths):
     response +100 MPa/N, drive 1 → 3 N: σa = 100, σm = 200 MPa → σa0 = 100/(1 − 0.2) = 125 MPa;
     response −100: σm = −200 → σa0 = 100/(1 − 200/600) = 150 MPa. N = (800/σa0)^10."""
     model = fatigue_model("goodman", [_power()], 1000 * MPa, 600 * MPa, "test")
@@ -88,7 +88,7 @@ def test_round_off_stress_does_no_damage_on_a_log_linear_curve():
 @settings(max_examples=60, deadline=None)
 @given(k=st.floats(1.0, 5.0), lo=st.floats(-3.0, 3.0), span=st.floats(0.1, 3.0), r=st.floats(-50, 50))
 def test_damage_grows_with_amplitude(k, lo, span, r):
-    """Invariant (STYLE.md): scaling every drive cycle by k ≥ 1 never lowers the damage (Goodman, m = 10)."""
+    """Invariant (DEVELOPERS.md): scaling every drive cycle by k ≥ 1 never lowers the damage (Goodman, m = 10)."""
     model = fatigue_model("goodman", [_power()], 1000 * MPa, 600 * MPa, "test")
     base = Cycles(np.array([lo]), np.array([lo + span]), np.array([1.0]))
     scaled = Cycles(np.array([lo * k]), np.array([(lo + span) * k]), np.array([1.0]))
@@ -107,7 +107,7 @@ def _ud_beam(drop_at=None):
 
 
 def test_locations_name_tension_and_compression_faces():
-    """Plies are listed from the tension face (DESIGN.md): under positive drive ply 1's fibre mode is tension and
+    """Plies are listed from the tension face (docs/design.md): under positive drive ply 1's fibre mode is tension and
     the last ply's is compression; a negative dominant drive swaps them."""
     resp = respond(_ud_beam())
     models = build_models([library()["e-glass-epoxy"]], "goodman")

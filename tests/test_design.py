@@ -1,4 +1,4 @@
-"""The design-file loader, life/design.py (DESIGN.md "Design file v1").
+"""The design-file loader, life/design.py (docs/design.md "Design file v1").
 
 Checks: a design in the contract's form loads to SI values checked by hand; width tapers, block tables in
 US units and bundled profiles; and one test per impossible input, each asserting that the message is a
@@ -26,7 +26,7 @@ from flexcycle.spectra.profiles import bundled_profile
 INCH = 0.0254  # m per in, exact (NIST SP 811, App. B)
 LBF = 0.45359237 * 9.80665  # N per lbf, exact: avoirdupois pound × standard gravity (NIST SP 811, App. B)
 
-# The example design of DESIGN.md ("Design file v1"), with one change: a full-length [[ply]] of the user
+# The example design of docs/design.md ("Design file v1"), with one change: a full-length [[ply]] of the user
 # material is added, since the example's only ply row ends at 300 mm of the 420 mm span and a beam needs
 # at least one ply that runs its whole length. Its `load_spacing` ("four-point only") is kept: the loader
 # ignores it for a cantilever and says so.
@@ -152,7 +152,7 @@ def edit(text: str, old: str, new: str) -> str:
 
 @pytest.fixture()
 def example(tmp_path, monkeypatch) -> Design:
-    """The DESIGN.md example, loaded from another working folder than its own."""
+    """The docs/design.md example, loaded from another working folder than its own."""
     path = write_design(tmp_path / "parts", DESIGN_MD_EXAMPLE, name="spring.toml")
     monkeypatch.chdir(tmp_path)  # the profile path must be taken from the design's folder, not the cwd
     return load_design(path)
@@ -190,7 +190,7 @@ def test_design_md_example_plies_expanded_by_count(example):
 
 
 def test_design_md_example_materials_in_si(example):
-    """The library ply keeps its published E1 = 38.6 GPa (Tsai & Hahn 1980, via Kaw Table 2.1, REFERENCES.md);
+    """The library ply keeps its published E1 = 38.6 GPa (Tsai & Hahn 1980, via Kaw Table 2.1, docs/references.md);
     the user material's strings become SI: 40 GPa = 4e10 Pa, 1900 kg/m^3, 1000 MPa = 1e9 Pa, and its
     fatigue curve S1 "800 MPa" is a stress-basis curve of 8e8 Pa, m = 10, R = -1."""
     mats = example.materials
@@ -225,7 +225,7 @@ def test_design_md_example_duty_and_fatigue(example):
     assert duty.extremes == pytest.approx((0.005, 0.040), rel=1e-12)
     assert duty.blocks_per_day == 2.0
     assert (example.mean_stress, example.miner_limit) == ("goodman", 1.0)
-    assert example.stress_factor == 1.0  # default when [fatigue] leaves it out (DESIGN.md defaults)
+    assert example.stress_factor == 1.0  # default when [fatigue] leaves it out (docs/design.md defaults)
 
 
 def test_width_taper_table(tmp_path):
@@ -401,7 +401,7 @@ def test_missing_design_file(tmp_path):
 
 
 def test_design_is_frozen(example):
-    """Designs are frozen dataclasses (STYLE.md): no field can be rebound."""
+    """Designs are frozen dataclasses (DEVELOPERS.md): no field can be rebound."""
     with pytest.raises(dataclasses.FrozenInstanceError):
         example.title = "changed"  # type: ignore[misc]
 

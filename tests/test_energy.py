@@ -29,7 +29,7 @@ def test_stored_energy_is_half_force_times_deflection():
     ],
 )
 def test_cycle_energy_from_lowest_to_highest_energy(lo, hi, expected):
-    """DESIGN.md: the energy taken in and given back from the lowest-energy point the cycle passes to its highest."""
+    """docs/design.md: the energy taken in and given back from the lowest-energy point the cycle passes to its highest."""
     assert cycle_energy(C, np.array([lo]), np.array([hi]))[0] == pytest.approx(expected, rel=1e-12, abs=1e-18)
 
 
@@ -51,7 +51,7 @@ def test_force_per_drive():
 
 
 def test_storage_figures_of_a_uniform_cantilever(isotropic):
-    """Uniform end-loaded cantilever: U/((σmax²/2E)·V) = 1/9 (REFERENCES.md, stored energy; derived from the beam
+    """Uniform end-loaded cantilever: U/((σmax²/2E)·V) = 1/9 (docs/references.md, stored energy; derived from the beam
     formulas). Shear adds U_s/U_b = 3EI/(κ G A L²) = E h²/(4 κ G L²) = 2.6·(1/200)²/(4·5/6) ≈ 2.0e-5 at L/h = 200,
     E/G = 2.6 (ν = 0.3): tolerance rel 1e-4. Specific energy U/m with m = ρ·b·h·L."""
     mat = isotropic(70e9, 0.3, density=2700.0, name="iso-energy")

@@ -122,7 +122,7 @@ def test_a_cycle_beyond_static_strength_gives_zero_life():
 
 
 def test_a_static_failure_in_a_mode_without_a_curve_still_gives_zero_life():
-    """DESIGN.md: life 0 when the first load already fails the part — whatever the mode. A 90° ply on the
+    """docs/design.md: life 0 when the first load already fails the part — whatever the mode. A 90° ply on the
     tension face of the hand-check stack (only a fibre curve is given) at 80 N: in the narrow beam the 90° ply
     carries σ2 ≈ E2·εx ≈ (10/40)·σ1 of a 0° ply at that z; σ1 at the surface would be 6PL/(bh²) = 192 MPa, so
     σ2 ≈ 48 MPa > Yt = 40 MPa (Roark σ = 6M/(bh²); the 90° ply softens the section a little, which only raises

@@ -4,7 +4,7 @@ Every example must load, run and pass ``flexcycle check``; its summary must hold
 its materials must be library materials and its header must say it is demo data. Two examples have a
 closed form for the surface strain per load-point deflection of a homogeneous 0° strip (narrow beam of
 one orthotropic material: 1/d11 = E1·h³/12, so E·I = E1·b·h³/12), checked here with the shear share
-worked out by hand (Timoshenko shear deflection with κ = 5/6, REFERENCES.md):
+worked out by hand (Timoshenko shear deflection with κ = 5/6, docs/references.md):
 - three-point coupon: ASTM D790, ε = 6·D·d/L² (bending part); shear adds δs/δb = E1·d²/(κ·G13·L²)
   (δb = PL³/(48EI), δs = PL/(4κGA); Roark 7th ed., Table 8.1 case 1e);
 - fixed-guided feeder flexure: δb = FL³/(12EI), root moment FL/2 (Roark 7th ed., Table 8.1 case 2a), so
@@ -27,7 +27,7 @@ from flexcycle.mechanics.materials import library
 EXAMPLES = sorted(Path(str(p)) for p in (resources.files("flexcycle") / "examples").iterdir() if p.name.endswith(".toml"))
 NEW = ["feeder-flexure.toml", "prosthetic-keel.toml", "coupon-three-point.toml"]
 FINITE_KEYS = ["life_cycles", "life_blocks", "damage_per_block", "stiffness_n_per_m", "mass_kg", "peak_strain",
-               "peak_energy_j", "cycle_energy_j", "specific_energy_j_per_kg", "static_reserve"]  # DESIGN.md outputs
+               "peak_energy_j", "cycle_energy_j", "specific_energy_j_per_kg", "static_reserve"]  # docs/design.md outputs
 MODES = {"fibre-tension", "fibre-compression", "transverse", "shear", "interlaminar", "core-shear"}
 KAPPA = 5.0 / 6.0  # Timoshenko's shear correction of a rectangle
 
@@ -63,7 +63,7 @@ def test_summary_has_finite_contract_values(path, results):
     assert s["critical"]["mode"] in MODES
     assert 1 <= s["critical"]["ply"] <= len(results[path.name].design.beam.plies)
     assert 0.0 <= s["critical"]["x_m"] <= results[path.name].design.beam.length
-    # the contract's definitions (DESIGN.md, outputs)
+    # the contract's definitions (docs/design.md, outputs)
     assert s["life_cycles"] == pytest.approx(s["life_blocks"] * s["cycles_per_block"], rel=1e-12)
     assert s["life_days"] == pytest.approx(s["life_blocks"] / s["blocks_per_day"], rel=1e-12)
     assert s["specific_energy_j_per_kg"] == pytest.approx(s["peak_energy_j"] / s["mass_kg"], rel=1e-12)

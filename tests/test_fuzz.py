@@ -1,4 +1,4 @@
-"""Fuzzing the design-file loader and the command (issue 5): every mutated design ends in a result (exit 0) or
+"""Fuzzing the design-file loader and the command: every mutated design ends in a result (exit 0) or
 one clear input error (exit 2), never a traceback or an internal fault (exit 1).
 
 Seeds: the bundled example designs (life/examples/*.toml) and a small cantilever of the invented user

@@ -1,7 +1,7 @@
 """Tests of flexcycle.mechanics.materials: the bundled library against published tables, user materials,
 units, and the validation of impossible input.
 
-Sources of the check values (see /work/shared/REFERENCES.md):
+Sources of the check values (see docs/references.md):
 - Tsai & Hahn, Introduction to Composite Materials (1980), reproduced in Kaw, Mechanics of
   Composite Materials, 2nd ed., Table 2.1 (unidirectional glass/epoxy and carbon/epoxy);
   Tsai & Hahn (1980) for aramid/epoxy.
@@ -39,7 +39,7 @@ REQUIRED_MATERIALS = (
 NUMERIC_KEYS = MATERIAL_KEYS_REQUIRED + ("G13", "G23", "thickness", "S13", "eps1t", "eps1c")
 GPa, MPa = 1e9, 1e6
 
-# The [material.my-glass] example of the design-file contract (DESIGN.md), verbatim.
+# The [material.my-glass] example of the design-file contract (docs/design.md), verbatim.
 DESIGN_EXAMPLE = {
     "E1": "40 GPa", "E2": "10 GPa", "G12": "4 GPa", "nu12": 0.28, "density": "1900 kg/m^3",
     "Xt": "1000 MPa", "Xc": "600 MPa", "Yt": "40 MPa", "Yc": "140 MPa", "S12": "70 MPa",
@@ -49,7 +49,7 @@ WHERE = "design.toml [material.my-glass]"
 
 
 def _user(**changes: object) -> dict:
-    """The DESIGN.md example with some keys changed (a value of None removes the key)."""
+    """The docs/design.md example with some keys changed (a value of None removes the key)."""
     table = {k: (dict(v) if isinstance(v, dict) else v) for k, v in DESIGN_EXAMPLE.items()}
     for key, value in changes.items():
         if value is None:
@@ -106,7 +106,7 @@ PUBLISHED = [
     # USDA Wood Handbook SG 0.63 (oven-dry mass, volume at 12 % moisture); hand calc:
     # density = 0.63 x 1000 kg/m^3 x (1 + 0.12) = 705.6 kg/m^3
     ("sugar-maple", "density", 0.63 * 1000.0 * 1.12),
-    # REFERENCES.md densities (recalled figures, checked so the data keep them)
+    # docs/references.md densities (recalled figures, checked so the data keep them)
     ("e-glass-epoxy", "density", 1800.0),
     ("carbon-epoxy", "density", 1600.0),
     ("aramid-epoxy", "density", 1460.0),
@@ -131,7 +131,7 @@ def test_every_value_and_curve_of_the_library_has_a_source(name):
 
 
 def test_values_not_in_a_published_table_say_recalled():
-    """REFERENCES.md gives the UD densities as recalled; the data must not pass them off as published."""
+    """docs/references.md gives the UD densities as recalled; the data must not pass them off as published."""
     for name in ("e-glass-epoxy", "carbon-epoxy", "aramid-epoxy"):
         assert "recalled" in library()[name].sources["density"]
     assert "Kaw Table 2.1" in library()["e-glass-epoxy"].sources["E1"]
@@ -177,7 +177,7 @@ def test_structural_foam_is_an_isotropic_core():
 # User materials.
 
 def test_design_example_material_parses_to_si():
-    """DESIGN.md [material.my-glass], converted by hand: GPa x 1e9, MPa x 1e6; defaults
+    """docs/design.md [material.my-glass], converted by hand: GPa x 1e9, MPa x 1e6; defaults
     G13 = G23 = G12 = 4e9 Pa, eps1t = Xt/E1 = 1e9/40e9 = 0.025, eps1c = Xc/E1 = 0.015,
     nu21 = nu12 E2/E1 = 0.28 x 10/40 = 0.07."""
     m = material_from_table("my-glass", DESIGN_EXAMPLE, WHERE)

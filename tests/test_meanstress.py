@@ -1,6 +1,6 @@
 """Tests of life/meanstress.py: Goodman, Gerber, none and the constant-life diagram.
 
-Sources (REFERENCES.md, Fatigue of fibre composites): linear Goodman with unequal strengths
+Sources (docs/references.md, Fatigue of fibre composites): linear Goodman with unequal strengths
 σa = σa0(1 − σm/Xt) (σm >= 0), σa0(1 − |σm|/Xc) (σm < 0); Gerber σa = σa0(1 − (σm/Xt)²);
 piecewise-linear constant-life diagram of Philippidis & Vassilopoulos (recalled). Checks are hand
 calculations from these formulas (in each docstring) and, for the diagram, an independent

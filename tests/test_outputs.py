@@ -1,4 +1,4 @@
-"""Output files of a run, life/outputs.py (DESIGN.md, outputs contract).
+"""Output files of a run, life/outputs.py (docs/design.md, outputs contract).
 
 One small design is estimated once for the module: a 100 mm × 20 mm cantilever of three 0° e-glass/epoxy
 plies of 2 mm (h = 6 mm), few stations, a deflection block table with a positive mean, so the compression
@@ -54,7 +54,7 @@ BLOCKS = 'drive = "deflection"\ncycles = [ { min = "2 mm", max = "9 mm", count =
          '{ min = "0 mm", max = "4 mm", count = 250.5 } ]\n'
 
 # ASTM E1049-85 (2011), §5.4.4 rainflow example history and its count, range (count):
-# 3 (0.5), 4 (1.5), 6 (0.5), 8 (1.0), 9 (0.5) — REFERENCES.md. Used here as a deflection in mm.
+# 3 (0.5), 4 (1.5), 6 (0.5), 8 (1.0), 9 (0.5) — docs/references.md. Used here as a deflection in mm.
 ASTM_E1049_HISTORY = [-2, 1, -3, 5, -1, 3, -4, 4, -2]
 ASTM_E1049_RANGES = {3.0: 0.5, 4.0: 1.5, 6.0: 0.5, 8.0: 1.0, 9.0: 0.5}
 
@@ -107,7 +107,7 @@ def test_write_files_refuses_an_out_that_is_a_file(files, tmp_path):
 
 def test_write_files_leaves_the_folder_untouched_when_it_cannot_write(files, tmp_path):
     """An output name taken by a folder: an InputError naming it, and nothing in --out changes — neither
-    the user's own summary.json nor anything left behind (DESIGN.md: on any error nothing in DIR is touched)."""
+    the user's own summary.json nor anything left behind (docs/design.md: on any error nothing in DIR is touched)."""
     out = tmp_path / "out"
     (out / "report.html").mkdir(parents=True)
     (out / "report.html" / "inside.txt").write_bytes(b"keep\n")
@@ -270,7 +270,7 @@ def test_stations_csv_follows_the_beam_formulas(result, written):
 
 
 # ---------------------------------------------------------------------------------------------
-# write_files: staging beside --out (issue 5, data safety)
+# write_files: staging beside the output folder (data safety)
 
 
 def test_outputs_are_staged_beside_out_on_the_same_file_system(files, tmp_path, monkeypatch):
@@ -332,7 +332,7 @@ def test_a_parent_that_cannot_be_written_is_a_clear_error(files, tmp_path, monke
 
 
 def test_cycles_csv_at_scale_holds_at_most_max_rows_and_says_binned(monkeypatch):
-    """Outputs at scale (DESIGN.md: an aggregated form at scale, said in the report): with MAX_CYCLE_ROWS
+    """Outputs at scale (docs/design.md: an aggregated form at scale, said in the report): with MAX_CYCLE_ROWS
     lowered to 100, the bundled example's cycle table has at most 100 rows, keeps the total count (exact:
     multiples of 0.5 summed), and its note names the binning width."""
     from flexcycle import outputs

@@ -2,7 +2,7 @@
 bundled demo profiles.
 
 References: values written into the test files by hand (hand calc: file number ×
-scale); the error contract of /work/shared/DESIGN.md (message names the file and the
+scale); the error contract of docs/design.md (message names the file and the
 line or row, and what would be right); the demo-profile brief (cargo-bike ride:
 static sag about 28 mm, extremes about 8 mm and 55 mm, 10-20 min at 20 Hz, under
 300 kB, labelled as invented demo data).

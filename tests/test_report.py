@@ -1,4 +1,4 @@
-"""The design-review report, flexcycle.report (DESIGN.md, outputs contract: report.html, one self-contained file).
+"""The design-review report, flexcycle.report (docs/design.md, outputs contract: report.html, one self-contained file).
 
 Two designs: the bundled example (a deflection time history, 16 plies) and a small block-table
 cantilever of one homogeneous 0° user material whose critical place is known by hand (below), driven
@@ -20,7 +20,7 @@ from flexcycle.report.page import report_html
 
 TITLE = "Test spring <A> & 'B'"  # markup characters: the report must escape them
 
-# invented test material (DESIGN.md's "my-glass"); no S13, so the interlaminar check is skipped with a note
+# invented test material (docs/design.md's "my-glass"); no S13, so the interlaminar check is skipped with a note
 GLASS = {
     "E1": "40 GPa", "E2": "10 GPa", "G12": "4 GPa", "nu12": 0.28, "density": "1900 kg/m^3",
     "Xt": "1000 MPa", "Xc": "600 MPa", "Yt": "40 MPa", "Yc": "140 MPa", "S12": "70 MPa",
@@ -37,7 +37,7 @@ def wide_cantilever():
     beam (≲ 1) and plate (≳ 20) behaviour: a warning. The cycle 0 → δmax puts the root's top face in
     compression, mean −σa: with Goodman and Xc = 600 MPa < Xt = 1000 MPa the compression face needs the larger
     equivalent amplitude (σa/(1 − σa/Xc) > σa/(1 − σa/Xt)), so the critical place is ply 4 (top), root,
-    fibre-compression (REFERENCES.md, linear Goodman with unequal strengths).
+    fibre-compression (docs/references.md, linear Goodman with unequal strengths).
     """
     doc = {
         "title": TITLE,
@@ -111,7 +111,7 @@ def test_critical_by_hand(wide):
     assert "fibre-compression, ply 4 (report-glass, 0°), top face, x = 0 mm from the root" in page
 
 
-FIGURES = {  # figure number: what its axes say (issue 4, figures a–f, plus the layup drawing)
+FIGURES = {  # figure number: what its axes say (the six result and input figures, plus the layup drawing)
     "1": ["stack along the span", "planform", "distance from the root x [mm]"],
     "2": ["rainflow matrix", "cycle range [", "cycle mean ["],
     "3": ["load-point deflection δ [mm]", "load-point force F [N]", "stored at the peak drive"],

@@ -1,6 +1,6 @@
 """Sizing against closed-form beam and S-N formulas worked by hand.
 
-The part: a uniform unidirectional cantilever (10 plies × 0.5 mm of DESIGN.md's example glass, E1 40 GPa,
+The part: a uniform unidirectional cantilever (10 plies × 0.5 mm of docs/design.md's example glass, E1 40 GPa,
 Xt 1000 / Xc 600 MPa, an R = −1 power curve σa = 800 MPa·N^(−1/10)), L = 200 mm, b = 20 mm, h = 5 mm.
 End load: σ = 6FL/(bh²) (Roark, 7th ed., Table 8.1 case 1a) = 2.4 MPa per N at the root; a narrow UD beam
 has σ2 = τ12 = 0, so σ1 = σx there.
@@ -180,7 +180,7 @@ def _taper_efficiency(f: float) -> float:
     """Storage efficiency of an end-loaded cantilever, width b0·(f + (1 − f)ξ), ξ = 1 − x/L, uniform h:
     U = (6F²L³/(E b0 h³))·I, I = ∫0¹ ξ²/(f + aξ) dξ = [(1 − f²)/2 − 2f(1 − f) + f² ln(1/f)]/a³ (a = 1 − f);
     peak strain at the root 6FL/(E b0 h²); ½Eε²V = 9F²L³(1 + f)/(E b0 h³); efficiency = 2I/(3(1 + f)).
-    f = 1 gives 1/9, f → 0 gives 1/3 (REFERENCES.md, stored energy)."""
+    f = 1 gives 1/9, f → 0 gives 1/3 (docs/references.md, stored energy)."""
     if f == 1.0:
         return 1.0 / 9.0
     a = 1.0 - f
@@ -286,7 +286,7 @@ def _goodman_blocks(n_plies: int, lo_n: float = 10.0, hi_n: float = 50.0) -> flo
     """Hand calc, blocks of 1000 cycles of the uniform UD cantilever with ``n_plies`` × 0.5 mm under lo → hi [N].
     σ = 6FL/(b h²) at the root (Roark, 7th ed., Table 8.1 case 1a), h = n·t, L = 200 mm, b = 20 mm; Goodman
     σar = σa/(1 − |σm|/Xc) on the compression face (Xc = 600 < Xt = 1000 MPa); power law N = (σar/S1)^(−m),
-    S1 = 800 MPa, m = 10 (DESIGN.md's example glass)."""
+    S1 = 800 MPa, m = 10 (docs/design.md's example glass)."""
     h = n_plies * 0.5e-3
     sigma = [6.0 * f * 0.2 / (0.02 * h * h) / 1e6 for f in (lo_n, hi_n)]  # [MPa]
     amplitude, mean = (sigma[1] - sigma[0]) / 2, (sigma[1] + sigma[0]) / 2
@@ -351,7 +351,7 @@ def test_ply_drop_file_has_only_real_ply_thicknesses(tmp_path):
 
 def test_ply_drop_alternative_deflection_drive_reaches_the_life_and_stores_more(tmp_path):
     """Deflection drive 0 → 20 mm with a rate: the alternative's life reaches the target, its efficiency beats the
-    uniform part's (1/9 for a uniform end-loaded cantilever; REFERENCES.md, stored energy), its plies are the
+    uniform part's (1/9 for a uniform end-loaded cantilever; docs/references.md, stored energy), its plies are the
     real 0.5 mm plies and the drops do not cost the life."""
     design = load_design(_write(tmp_path, drive="deflection", lo="0 mm", hi="20 mm"))
     target = 1e6

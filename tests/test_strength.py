@@ -3,7 +3,7 @@
 Sources: maximum stress criterion (Jones, Mechanics of Composite Materials, 2nd ed., sec. 2.9.2; Kaw,
 Mechanics of Composite Materials, 2nd ed., sec. 2.8.1); Tsai-Wu (Kaw sec. 2.8.4, Eq. 2.152 and its
 strength-ratio form; F12* = −1/2 after Tsai & Hahn 1980). Strengths of the library plies: Tsai & Hahn 1980
-via Kaw Table 2.1 (REFERENCES.md). Stresses [Pa], hand numbers in MPa.
+via Kaw Table 2.1 (docs/references.md). Stresses [Pa], hand numbers in MPa.
 """
 import dataclasses
 

@@ -3,7 +3,7 @@
 The summary is checked on the hand-calculated cantilever of tests/test_estimate.py (figures below), at
 three loads: one that gives a finite life, one below a fatigue limit (unbounded) and one past the static
 strength (zero life). The cycle table is checked on the rainflow example of ASTM E1049-85 (reapproved
-2011), section 5.4.4 (REFERENCES.md).
+2011), section 5.4.4 (docs/references.md).
 """
 from __future__ import annotations
 
@@ -27,7 +27,7 @@ GLASS = {
     "E1": "40 GPa", "E2": "10 GPa", "G12": "4 GPa", "nu12": 0.3, "density": "1900 kg/m^3",
     "Xt": "1000 MPa", "Xc": "600 MPa", "Yt": "40 MPa", "Yc": "140 MPa", "S12": "70 MPa",
     "fatigue": {"form": "power", "R": -1, "S1": "800 MPa", "m": 10},
-}  # invented test material (DESIGN.md's "my-glass"), G13 = G12 by default
+}  # invented test material (docs/design.md's "my-glass"), G13 = G12 by default
 
 
 def hand_design(force: str, blocks_per_day: float | None = 100.0, limit: str | None = None):

@@ -72,7 +72,7 @@ def test_si_conversion(text, kind, si):
 def test_msi_for_moduli():
     """Composite moduli are quoted in Msi (million psi, common practice): 1 Msi = 10⁶ × 6894.757293168 Pa.
 
-    The carbon/epoxy E1 = 181 GPa of Tsai & Hahn (1980, REFERENCES.md) is 26.25 Msi:
+    The carbon/epoxy E1 = 181 GPa of Tsai & Hahn (1980, docs/references.md) is 26.25 Msi:
     181e9 / 6.894757293168e9 = 26.252 (hand division)."""
     assert parse_quantity("1 Msi", "stress", WHERE) == pytest.approx(1e6 * PSI, rel=EXACT)
     assert parse_quantity("26.25 Msi", "stress", WHERE) / 1e9 == pytest.approx(181.0, rel=1e-4)  # 4 digits given
@@ -88,7 +88,7 @@ def test_strain_in_percent_or_as_a_ratio(text, ratio):
 @pytest.mark.parametrize("kind", [k for k in KINDS if k != "strain"])
 @pytest.mark.parametrize("bare", [5, 0.8, "5", "0.8"])
 def test_bare_number_rejected_for_dimensional_kinds(kind, bare):
-    """A dimensional value without a unit is an error, never a guess (DESIGN.md, conventions); the message
+    """A dimensional value without a unit is an error, never a guess (docs/design.md, conventions); the message
     names where (file and key) and shows an example of the right form."""
     with pytest.raises(InputError) as info:
         parse_quantity(bare, kind, WHERE)

@@ -65,7 +65,7 @@ COLUMNS = [
 
 
 def comparison_table(results: Sequence[LifeResult]) -> pd.DataFrame:
-    """One row per design with the figures a reviewer compares (DESIGN.md, comparison.csv contract), SI."""
+    """One row per design with the figures a reviewer compares (docs/design.md, comparison.csv contract), SI."""
     rows = []
     for r in results:
         s = r.summary()

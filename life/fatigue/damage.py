@@ -4,7 +4,7 @@ A location is one (station, ply, face, mode). Mechanics is linear, so each locat
 (σ1 or ε1 for the fibre direction, σ2 or ε2 transverse, τ12 or γ12 in-plane shear, τxz interlaminar)
 is ``response × drive``. The drive is counted once; each counted cycle (min, max) is mapped to every
 location by its extremes — on the compression side the sign flips, so the local minimum comes from the
-drive maximum (DESIGN.md, data flow).
+drive maximum (docs/design.md, data flow).
 
 Palmgren–Miner: D = Σ nᵢ/Nᵢ per block of the duty, failure when D reaches the Miner limit
 (Miner 1945, J. Appl. Mech. 12; the limit 1, or 0.1–0.5 in design practice: common practice).

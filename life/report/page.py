@@ -1,4 +1,4 @@
-"""The design-review report: one self-contained HTML file (DESIGN.md, outputs contract: report.html).
+"""The design-review report: one self-contained HTML file (docs/design.md, outputs contract: report.html).
 
 Read top to bottom, the report is: identification, inputs, method and assumptions, results (and, when a
 sizing run gives them, the sizing rows), warnings, cautions, review and sign-off (``flexcycle.report.sections``).

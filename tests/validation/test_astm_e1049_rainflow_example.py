@@ -1,7 +1,7 @@
 """ASTM E1049-85 (reapproved 2011), section 5.4.4, rainflow counting example.
 
 Source: ASTM E1049-85 (2011), "Standard Practices for Cycle Counting in Fatigue
-Analysis", §5.4.4 and its figure of the rainflow example (see /work/shared/REFERENCES.md).
+Analysis", §5.4.4 and its figure of the rainflow example (see docs/references.md).
 Load history (units of the example: "load units", any unit; flexcycle counts in SI,
 and counting is the same in any unit):
 

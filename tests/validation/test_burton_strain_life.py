@@ -1,6 +1,6 @@
 """Burton et al., Wind Energy Handbook (Wiley), p. 387: strain-based S-N curve ε = ε0·N^(−1/m), with
 m = 10 for glass/epoxy and m = 9 for glass/polyester; the linear constant-life lines reach zero
-amplitude at the ultimate tensile and compressive strains (REFERENCES.md).
+amplitude at the ultimate tensile and compressive strains (docs/references.md).
 
 Units: strains [-]. ε0 and the ultimate strains are those of E-glass/epoxy from Tsai & Hahn
 (Kaw Table 2.1): ε_ut = Xt/E1 = 1062 MPa / 38.6 GPa = 0.027513, ε_uc = Xc/E1 = 610/38600 =

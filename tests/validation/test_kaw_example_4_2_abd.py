@@ -2,7 +2,7 @@
 laminate of 5 mm plies of E1 = 181 GPa, E2 = 10.3 GPa, ν12 = 0.28, G12 = 7.17 GPa, ply 1 (0°) at
 z = −7.5 … −2.5 mm. Units: A [Pa·m], B [Pa·m²], D [Pa·m³].
 
-Values as listed in /work/shared/REFERENCES.md (recomputed from the stated inputs; agree with the
+Values as listed in docs/references.md (recomputed from the stated inputs; agree with the
 published figures as recalled). Intermediate checks: interface coordinates and the Q̄ of each ply.
 """
 import numpy as np

@@ -2,7 +2,7 @@
 curvatures κ of the Example 4.2 laminate ([0/30/−45], 5 mm plies of the 181/10.3/7.17 GPa, ν12 = 0.28
 ply) under Nx = Ny = 1000 N/m, Nxy = 0, M = 0. Units: ε⁰ [-], κ [1/m].
 
-Values as listed in /work/shared/REFERENCES.md (recomputed from the stated inputs; agree with the
+Values as listed in docs/references.md (recomputed from the stated inputs; agree with the
 published figures as recalled). Intermediate check: the ply strains ε = ε⁰ + zκ at the top of ply 1.
 """
 import numpy as np

@@ -2,7 +2,7 @@
 transformed reduced stiffness Q̄ at θ = 60° of the ply E1 = 181 GPa, E2 = 10.3 GPa, ν12 = 0.28,
 G12 = 7.17 GPa. Units: GPa in the text, Pa in the code.
 
-Values as listed in /work/shared/REFERENCES.md (Q̄ recomputed from the stated inputs and agreeing with the
+Values as listed in docs/references.md (Q̄ recomputed from the stated inputs and agreeing with the
 published figure as recalled).
 """
 import numpy as np

@@ -1,5 +1,5 @@
 """Mandell (1982), recalled: glass-fibre composites lose about 10 % of their static strength per
-decade of cycles, S/S0 = 1 − 0.1·log10 N (REFERENCES.md, Fatigue of fibre composites).
+decade of cycles, S/S0 = 1 − 0.1·log10 N (docs/references.md, Fatigue of fibre composites).
 
 Units: S0 = 1062 MPa, the fibre-direction tensile strength of E-glass/epoxy (Tsai & Hahn,
 Introduction to Composite Materials, as in Kaw Table 2.1), amplitudes in Pa, lives in cycles.

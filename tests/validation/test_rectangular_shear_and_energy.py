@@ -1,8 +1,8 @@
 """Rectangular homogeneous section: transverse shear and stored-energy efficiency. Units: SI.
 
 - Transverse shear τmax = 3V/(2bh) at the neutral axis, parabolic τ(z) = (3V/(2bh))(1 − 4z²/h²)
-  (Roark's Formulas for Stress and Strain, 7th ed., sec. 8.1 on transverse shear; REFERENCES.md "Beams").
-- Energy-storage efficiency η = U/((σ_max²/(2E))·V) (REFERENCES.md "Stored energy": derived from the beam
+  (Roark's Formulas for Stress and Strain, 7th ed., sec. 8.1 on transverse shear; docs/references.md "Beams").
+- Energy-storage efficiency η = U/((σ_max²/(2E))·V) (docs/references.md "Stored energy": derived from the beam
   formulas, common practice in spring design). With U = ½·C_bend·F² and reference_energy = ½·E·V per
   unit strain², η = U/(reference_energy·ε_max²). Hand derivations (rectangle, EI = Ebh³/12):
   * uniform cantilever, end load: C = 4L³/(Ebh³), ε_max = 6FL/(Ebh²): η = (4L³/(Ebh³))/(E·bhL·36L²/(E²b²h⁴)) = 1/9;

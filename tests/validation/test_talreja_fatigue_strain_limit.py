@@ -1,5 +1,5 @@
 """Talreja (1981, Proc. R. Soc. A 378) fatigue-life diagram, recalled: below a fatigue strain limit
-of about 0.6 % for epoxy matrices no fatigue failure is expected (REFERENCES.md).
+of about 0.6 % for epoxy matrices no fatigue failure is expected (docs/references.md).
 
 Units: strains [-]. The limit is read as a limit on the peak strain of tension-tension cycles at
 R = 0.1 (our reading of the recalled value), i.e. an amplitude limit ε_a = 0.006·(1 − 0.1)/2 =
