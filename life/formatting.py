@@ -10,19 +10,19 @@ import math
 MISSING = "—"  # what a figure that does not exist (None or NaN) reads as
 
 
-def number_text(value: float | None, digits: int = 4, scale: float = 1.0, unit: str = "",
+def number_text(value: float | None, digits: int = 4, to_unit: float = 1.0, unit: str = "",
                 missing: str = MISSING) -> str:
-    """``value × scale`` to ``digits`` significant digits (general format), then `` unit`` if given.
+    """``value × to_unit`` to ``digits`` significant digits (general format), then `` unit`` if given.
 
     value : float | None — the figure in SI (None or NaN: ``missing``)
     digits : int — significant digits [-]
-    scale : float — factor from SI to the unit shown (1e3 for mm from m) [-]
+    to_unit : float — factor from SI to the unit shown (1e3 for mm from m) [-]
     unit : str — the unit shown after the number
     missing : str — the text for no value
     """
     if value is None or (isinstance(value, float) and math.isnan(value)):
         return missing
-    text = f"{value * scale:.{digits}g}"
+    text = f"{value * to_unit:.{digits}g}"
     return f"{text} {unit}" if unit else text
 
 

@@ -71,35 +71,35 @@ def cycle_table(result: LifeResult) -> tuple[pd.DataFrame, str]:
         note += ("; damage: bounded above by the cycles widened to a grid of the drive, and exact at the critical "
                  "location and every location that could be as damaged (locations.csv gives the upper bound "
                  "elsewhere)")
-    fpd = result.force_per_drive
-    energy = cycle_energy(result.response.compliance, cycles.lo * fpd, cycles.hi * fpd)
+    force_per_drive = result.force_per_drive
+    energy = cycle_energy(result.response.compliance, cycles.lo * force_per_drive, cycles.hi * force_per_drive)
     table = pd.DataFrame({"min": cycles.lo, "max": cycles.hi, "count": cycles.count, "energy_j": energy})
     return table, note
 
 
 def location_table(result: LifeResult) -> pd.DataFrame:
     """Damage per block at every location (station, ply, face, mode)."""
-    locs, dmg, resp = result.locations, result.damage, result.response
+    locations, damage, response = result.locations, result.damage, result.response
     plies = result.design.beam.plies
     basis = np.array(
-        ["none" if m < 0 else locs.models[m].curves[0].basis for m in locs.model], dtype=object
+        ["none" if m < 0 else locations.models[m].curves[0].basis for m in locations.model], dtype=object
     )
     with np.errstate(divide="ignore"):
-        life = np.where(dmg.damage > 0, result.design.miner_limit / np.where(dmg.damage > 0, dmg.damage, 1.0), np.nan)
+        life = np.where(damage.damage > 0, result.design.miner_limit / np.where(damage.damage > 0, damage.damage, 1.0), np.nan)
     table = pd.DataFrame(
         {
-            "station": locs.station,
-            "x_m": resp.x[locs.station],
-            "ply": locs.ply + 1,
-            "material": [plies[i].material.name for i in locs.ply],
-            "angle_deg": [plies[i].angle for i in locs.ply],
-            "face": [FACES[i] for i in locs.face],
-            "z_m": locs.z,
-            "mode": locs.mode,
+            "station": locations.station,
+            "x_m": response.x[locations.station],
+            "ply": locations.ply + 1,
+            "material": [plies[i].material.name for i in locations.ply],
+            "angle_deg": [plies[i].angle for i in locations.ply],
+            "face": [FACES[i] for i in locations.face],
+            "z_m": locations.z,
+            "mode": locations.mode,
             "basis": basis,
-            "amplitude": dmg.amplitude,
-            "mean": dmg.mean,
-            "damage_per_block": dmg.damage,
+            "amplitude": damage.amplitude,
+            "mean": damage.mean,
+            "damage_per_block": damage.damage,
             "life_blocks": life,
         }
     )
@@ -113,21 +113,21 @@ def station_table(result: LifeResult) -> pd.DataFrame:
     curvature_per_n [1/(m·N)], peak_strain (largest |ε1| there at the largest drive), damage_per_block (largest
     of the station's locations).
     """
-    resp, locs, dmg = result.response, result.locations, result.damage
+    response, locations, damage = result.response, result.locations, result.damage
     peak_force = max(abs(v) for v in result.design.duty.extremes) * result.force_per_drive
-    worst = np.zeros(resp.x.size)
-    np.maximum.at(worst, locs.station, dmg.damage)
+    worst = np.zeros(response.x.size)
+    np.maximum.at(worst, locations.station, damage.damage)
     return pd.DataFrame(
         {
-            "station": np.arange(resp.x.size),
-            "x_m": resp.x,
-            "width_m": resp.width,
-            "thickness_m": resp.thickness,
-            "plies": resp.present.sum(axis=1),
-            "moment_per_n": resp.moment,
-            "shear_per_n": resp.shear,
-            "curvature_per_n": resp.curvature,
-            "peak_strain": np.abs(resp.strain_12[..., 0]).max(axis=(1, 2)) * peak_force,
+            "station": np.arange(response.x.size),
+            "x_m": response.x,
+            "width_m": response.width,
+            "thickness_m": response.thickness,
+            "plies": response.present.sum(axis=1),
+            "moment_per_n": response.moment,
+            "shear_per_n": response.shear,
+            "curvature_per_n": response.curvature,
+            "peak_strain": np.abs(response.strain_12[..., 0]).max(axis=(1, 2)) * peak_force,
             "damage_per_block": worst,
         }
     )

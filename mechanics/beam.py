@@ -458,7 +458,7 @@ def respond(beam: Beam) -> BeamResponse:
     )
 
 
-def range_warnings(resp: BeamResponse, peak_force: float) -> list[str]:
+def range_warnings(response: BeamResponse, peak_force: float) -> list[str]:
     """Warnings when the peak drive takes the beam past the linear, narrow-beam / plate model.
 
     peak_force : float — the largest |drive force| of the duty [N]
@@ -472,36 +472,36 @@ def range_warnings(resp: BeamResponse, peak_force: float) -> list[str]:
     Ashwell 1950; recalled thresholds).
     """
     out = []
-    beam = resp.beam
-    depth = float(resp.thickness.max())
+    beam = response.beam
+    depth = float(response.thickness.max())
     if beam.span / depth < DEEP_BEAM:
         out.append(
             f"span/depth = {beam.span / depth:.2g} is below {DEEP_BEAM:g}: a deep beam, where plane sections, the shear "
             "correction and the beam stresses are doubtful (common practice); the figures are rough"
         )
-    deflection = resp.compliance * abs(peak_force)
+    deflection = response.compliance * abs(peak_force)
     if deflection > LARGE_DEFLECTION * beam.span:
         out.append(
             f"the load-point deflection {deflection * 1e3:.1f} mm passes 10 % of the span ({beam.span * 1e3:.0f} mm): "
             "linear small-deflection theory no longer holds; stresses and stiffness are estimates only"
         )
-    kappa = np.abs(resp.curvature) * abs(peak_force)
+    kappa = np.abs(response.curvature) * abs(peak_force)
     i = int(np.argmax(kappa))
     if kappa[i] > 0:
-        searle = resp.width[i] ** 2 * kappa[i] / resp.thickness[i]
+        searle = response.width[i] ** 2 * kappa[i] / response.thickness[i]
         if beam.section == "beam" and searle > SEARLE_PLATE_MIN:
             out.append(
-                f"Searle parameter b²/(R·h) = {searle:.3g} at x = {resp.x[i] * 1e3:.0f} mm: the section bends like a "
+                f"Searle parameter b²/(R·h) = {searle:.3g} at x = {response.x[i] * 1e3:.0f} mm: the section bends like a "
                 'plate (cylindrical bending); consider section = "plate" (stiffer, by 1/(1 − ν12·ν21) for a UD ply)'
             )
         elif beam.section == "plate" and searle < SEARLE_BEAM_MAX:
             out.append(
-                f"Searle parameter b²/(R·h) = {searle:.3g} at x = {resp.x[i] * 1e3:.0f} mm: the section bends like a "
+                f"Searle parameter b²/(R·h) = {searle:.3g} at x = {response.x[i] * 1e3:.0f} mm: the section bends like a "
                 'narrow beam (free anticlastic curvature); consider section = "beam"'
             )
         elif SEARLE_BEAM_MAX <= searle <= SEARLE_PLATE_MIN:
             out.append(
-                f"Searle parameter b²/(R·h) = {searle:.3g} at x = {resp.x[i] * 1e3:.0f} mm lies between beam (≲ 1) and "
+                f"Searle parameter b²/(R·h) = {searle:.3g} at x = {response.x[i] * 1e3:.0f} mm lies between beam (≲ 1) and "
                 "plate (≳ 20) behaviour: the true bending stiffness lies between the two section models"
             )
     return out

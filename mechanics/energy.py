@@ -70,7 +70,7 @@ class StorageFigures:
     efficiency: float
 
 
-def storage_figures(resp: BeamResponse, peak_force: float) -> StorageFigures:
+def storage_figures(response: BeamResponse, peak_force: float) -> StorageFigures:
     """Energy, specific energy and energy-storage efficiency at the peak drive force [N].
 
     Notes
@@ -79,13 +79,13 @@ def storage_figures(resp: BeamResponse, peak_force: float) -> StorageFigures:
     figure (1/9, 1/3: derived from the beam formulas; common practice in spring design). For a laminate
     each ply is credited with its own axial modulus at the part's peak axial strain.
     """
-    energy = float(stored_energy(resp.compliance, peak_force))
-    eps_max = np.abs(resp.strain_x).max() * abs(peak_force)  # numpy floats: an absurd drive gives inf, not a fault
-    reference = resp.reference_energy * eps_max**2
-    bending = float(stored_energy(resp.bending_compliance, peak_force))
+    energy = float(stored_energy(response.compliance, peak_force))
+    eps_max = np.abs(response.strain_x).max() * abs(peak_force)  # numpy floats: an absurd drive gives inf, not a fault
+    reference = response.reference_energy * eps_max**2
+    bending = float(stored_energy(response.bending_compliance, peak_force))
     return StorageFigures(
         energy=energy,
-        specific_energy=energy / resp.mass,
+        specific_energy=energy / response.mass,
         peak_strain_x=float(eps_max),
         efficiency=float(bending / reference) if 0 < reference < np.inf else 0.0,
     )

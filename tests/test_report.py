@@ -349,7 +349,7 @@ def test_duty_figure_of_a_long_history_draws_its_envelope():
     duty = result.design.duty
     start = np.arange(0, 4_000_000, 2048)
     trace = Envelope(start=start, lo=np.full(start.size, 0.01), hi=np.full(start.size, 0.04), samples=4_000_000)
-    design = dataclasses.replace(result.design, duty=dataclasses.replace(duty, signal=None, trace=trace))
+    design = dataclasses.replace(result.design, duty=dataclasses.replace(duty, signal=None, envelope=trace))
     long = dataclasses.replace(result, design=design)
     cycles, note = cycle_table(long)
     text = report_html(long, cycles, note, location_table(long))

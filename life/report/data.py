@@ -49,17 +49,17 @@ class SpanEnvelope:
 
 def span_envelope(result: LifeResult) -> SpanEnvelope:
     """ε1 = (ε1 per unit force) × force at each duty extreme; linear, so the extremes bound the whole duty."""
-    resp = result.response
+    response = result.response
     lo, hi = result.design.duty.extremes
     forces = np.array([lo, hi]) * result.force_per_drive
-    n = resp.x.size
-    first = np.argmax(resp.present, axis=1)
-    last = resp.present.shape[1] - 1 - np.argmax(resp.present[:, ::-1], axis=1)
-    per_n_bottom = resp.strain_12[np.arange(n), first, 0, 0]
-    per_n_top = resp.strain_12[np.arange(n), last, 1, 0]
+    n = response.x.size
+    first = np.argmax(response.present, axis=1)
+    last = response.present.shape[1] - 1 - np.argmax(response.present[:, ::-1], axis=1)
+    per_n_bottom = response.strain_12[np.arange(n), first, 0, 0]
+    per_n_top = response.strain_12[np.arange(n), last, 1, 0]
     bottom = np.sort(per_n_bottom[:, None] * forces[None, :], axis=1)
     top = np.sort(per_n_top[:, None] * forces[None, :], axis=1)
-    return SpanEnvelope(resp.x, bottom, top)
+    return SpanEnvelope(response.x, bottom, top)
 
 
 @dataclass(frozen=True)
@@ -83,12 +83,12 @@ def force_deflection(result: LifeResult, points: int = 50) -> ForceDeflection:
 
 def critical_index(result: LifeResult) -> int:
     """Index into result.locations of the critical location (its station, ply, face and mode)."""
-    locs, c = result.locations, result.critical
+    locations, c = result.locations, result.critical
     match = np.flatnonzero(
-        (locs.station == c.station) & (locs.ply == c.ply - 1) & (locs.mode == c.mode) & (locs.face == FACES.index(c.face))
+        (locations.station == c.station) & (locations.ply == c.ply - 1) & (locations.mode == c.mode) & (locations.face == FACES.index(c.face))
     )
     if match.size == 0:  # the static check's place may be a mode without a fatigue location
-        match = np.flatnonzero((locs.station == c.station) & (locs.ply == c.ply - 1))
+        match = np.flatnonzero((locations.station == c.station) & (locations.ply == c.ply - 1))
     if match.size == 0:
         return int(np.argmax(result.damage.damage))
     best = np.lexsort((result.damage.utilisation[match], result.damage.damage[match]))[-1]  # damage, then utilisation

@@ -60,7 +60,7 @@ def layup_exaggeration(result: LifeResult) -> float:
 def figure_layup(result: LifeResult, display: Display = SI) -> Figure:
     """Side view of the stack along the span (each ply to its drop, the plies above a drop closing over it)
     and the planform (width taper)."""
-    beam, resp = result.design.beam, result.response
+    beam, response = result.design.beam, result.response
     scale = display.scale("position")
     unit = display.unit("position")
     L = beam.length * scale
@@ -69,15 +69,15 @@ def figure_layup(result: LifeResult, display: Display = SI) -> Figure:
     with matplotlib.rc_context(STYLE):
         fig, (a1, a2) = figure_with_axes(LAYUP_SIZE, 2, 1, sharex=True, gridspec_kw={"height_ratios": [3, 1.4]})
         top = 0.0
-        for seg in np.unique(resp.segment):  # each stretch between drops: its plies stacked without gaps
-            rows = np.flatnonzero(resp.segment == seg)
-            x0, x1 = resp.x[rows].min() * scale, resp.x[rows].max() * scale
+        for seg in np.unique(response.segment):  # each stretch between drops: its plies stacked without gaps
+            rows = np.flatnonzero(response.segment == seg)
+            x0, x1 = response.x[rows].min() * scale, response.x[rows].max() * scale
             k = rows[0]
-            present = np.flatnonzero(resp.present[k])
-            base = resp.z[k, present[0], 0]
+            present = np.flatnonzero(response.present[k])
+            base = response.z[k, present[0], 0]
             for j in present:
                 p = beam.plies[j]
-                z0, z1 = (resp.z[k, j] - base) * scale
+                z0, z1 = (response.z[k, j] - base) * scale
                 shade = 0.95 if p.angle % 180 == 0 else 0.55
                 a1.add_patch(Rectangle((x0, z0), x1 - x0, z1 - z0, facecolor=colour[p.material.name], alpha=shade,
                                        edgecolor="white", lw=0.6))
@@ -110,7 +110,7 @@ def figure_force_deflection(result: LifeResult, display: Display = SI) -> Figure
     """(a) Force against load-point deflection over the duty's range, the energy at the peak drive shaded."""
     fd = force_deflection(result)
     lo, hi = result.design.duty.extremes
-    fpd, C = result.force_per_drive, result.response.compliance
+    force_per_drive, C = result.force_per_drive, result.response.compliance
     peak = peak_force(result)
     with matplotlib.rc_context(STYLE):
         fig, ax = figure_with_axes((6.2, 3.6))
@@ -121,7 +121,7 @@ def figure_force_deflection(result: LifeResult, display: Display = SI) -> Figure
         ax.fill_between(f_fill * C * length, 0, f_fill * force, color=PALETTE[3], alpha=0.35,
                         label=f"stored at the peak drive: U = {display.both(result.storage.energy, 'energy')}")
         for d in sorted({lo, hi}):
-            ax.plot(d * fpd * C * length, d * fpd * force, "o", color=PALETTE[1], ms=5)
+            ax.plot(d * force_per_drive * C * length, d * force_per_drive * force, "o", color=PALETTE[1], ms=5)
         ax.plot([], [], "o", color=PALETTE[1], ms=5, label="duty extremes")
         ax.axhline(0, color="#999", lw=0.6), ax.axvline(0, color="#999", lw=0.6)
         ax.set_xlabel(f"load-point deflection δ [{display.unit('deflection')}]")
@@ -133,17 +133,17 @@ def figure_force_deflection(result: LifeResult, display: Display = SI) -> Figure
 
 def figure_strain_envelope(result: LifeResult, display: Display = SI) -> Figure:
     """(b) Fibre strain ε1 along the span at both outer faces, over the whole duty; drops and critical marked."""
-    env = span_envelope(result)
+    envelope = span_envelope(result)
     c = result.critical
-    x = env.x * display.scale("position")
+    x = envelope.x * display.scale("position")
     with matplotlib.rc_context(STYLE):
         fig, ax = figure_with_axes((7.5, 3.6))
-        ax.fill_between(x, env.bottom[:, 0] * 100, env.bottom[:, 1] * 100, color=PALETTE[0], alpha=0.35, lw=0)
-        ax.plot(x, env.bottom[:, 1] * 100, color=PALETTE[0], lw=1.2, label="bottom face (ply 1 side)")
-        ax.plot(x, env.bottom[:, 0] * 100, color=PALETTE[0], lw=1.2)
-        ax.fill_between(x, env.top[:, 0] * 100, env.top[:, 1] * 100, color=PALETTE[2], alpha=0.30, lw=0)
-        ax.plot(x, env.top[:, 0] * 100, color=PALETTE[2], lw=1.2, ls="--", label="top face")
-        ax.plot(x, env.top[:, 1] * 100, color=PALETTE[2], lw=1.2, ls="--")
+        ax.fill_between(x, envelope.bottom[:, 0] * 100, envelope.bottom[:, 1] * 100, color=PALETTE[0], alpha=0.35, lw=0)
+        ax.plot(x, envelope.bottom[:, 1] * 100, color=PALETTE[0], lw=1.2, label="bottom face (ply 1 side)")
+        ax.plot(x, envelope.bottom[:, 0] * 100, color=PALETTE[0], lw=1.2)
+        ax.fill_between(x, envelope.top[:, 0] * 100, envelope.top[:, 1] * 100, color=PALETTE[2], alpha=0.30, lw=0)
+        ax.plot(x, envelope.top[:, 0] * 100, color=PALETTE[2], lw=1.2, ls="--", label="top face")
+        ax.plot(x, envelope.top[:, 1] * 100, color=PALETTE[2], lw=1.2, ls="--")
         ax.axhline(0, color="#999", lw=0.6)
         _mark_drops(ax, result, display=display)
         ax.axvline(c.x_m * display.scale("position"), color=CRITICAL_COLOUR, lw=1.4,
@@ -158,23 +158,23 @@ def figure_strain_envelope(result: LifeResult, display: Display = SI) -> Figure:
 def figure_through_thickness(result: LifeResult, display: Display = SI) -> Figure:
     """(c) Ply-axis strain and stress through the thickness at the critical station, at the peak drive, with
     the transverse shear τxz (interlaminar, or a core's shear) beside the in-plane stresses."""
-    resp, c = result.response, result.critical
+    response, c = result.response, result.critical
     peak = peak_force(result)
     k = c.station
-    present = np.flatnonzero(resp.present[k])
+    present = np.flatnonzero(response.present[k])
     with matplotlib.rc_context(STYLE):
         fig, (a1, a2) = figure_with_axes((7.5, 4.6), 1, 2, sharey=True)
         zs = display.scale("position")
         stress = display.scale("stress")
-        z = resp.z[k, present] * zs  # (ply, face): each ply a straight segment between its faces
-        for ax, field, factor in ((a1, resp.strain_12, peak * 100), (a2, resp.stress_12, peak * stress)):
+        z = response.z[k, present] * zs  # (ply, face): each ply a straight segment between its faces
+        for ax, field, factor in ((a1, response.strain_12, peak * 100), (a2, response.stress_12, peak * stress)):
             for comp, colour, width in ((0, PALETTE[0], 1.6), (1, PALETTE[3], 1.6), (2, PALETTE[4], 1.0)):
                 values = field[k, present, :, comp] * factor
                 ax.add_collection(LineCollection(np.stack([values, z], axis=-1), colors=colour, linewidths=width))
             ax.autoscale_view()
         # τxz through each ply: bottom face, interior peak (the neutral axis when inside), top face
-        tau_z = np.stack([resp.z[k, present, 0], resp.z_tau_peak[k, present], resp.z[k, present, 1]], axis=1) * zs
-        tau = np.stack([resp.tau_xz[k, present, 0], resp.tau_xz_peak[k, present], resp.tau_xz[k, present, 1]],
+        tau_z = np.stack([response.z[k, present, 0], response.z_tau_peak[k, present], response.z[k, present, 1]], axis=1) * zs
+        tau = np.stack([response.tau_xz[k, present, 0], response.tau_xz_peak[k, present], response.tau_xz[k, present, 1]],
                        axis=1) * peak * stress
         order = np.argsort(tau_z, axis=1)
         tau_z, tau = np.take_along_axis(tau_z, order, 1), np.take_along_axis(tau, order, 1)
@@ -186,7 +186,7 @@ def figure_through_thickness(result: LifeResult, display: Display = SI) -> Figur
             ax.hlines(np.unique(z.ravel()), left, right, colors="#c9c3b5", lw=0.5, zorder=1)
             ax.set_xlim(left, right)
             if c.station == k:
-                lo_z, hi_z = resp.z[k, c.ply - 1] * zs
+                lo_z, hi_z = response.z[k, c.ply - 1] * zs
                 ax.axhspan(lo_z, hi_z, color=CRITICAL_COLOUR, alpha=0.12)
             ax.axvline(0, color="#999", lw=0.6)
             ax.grid(axis="y", visible=False)
@@ -208,29 +208,29 @@ def figure_duty(result: LifeResult, cycles: pd.DataFrame, display: Display = SI)
     """(d) The drive history (min/max envelope of at most 2000 bins) and the rainflow matrix (range × mean)."""
     duty = result.design.duty
     unit, scale = drive_display(duty.drive, display)
-    rng = (cycles["max"] - cycles["min"]).to_numpy() * scale
+    ranges = (cycles["max"] - cycles["min"]).to_numpy() * scale
     mean = 0.5 * (cycles["max"] + cycles["min"]).to_numpy() * scale
     count = cycles["count"].to_numpy(float)
     with matplotlib.rc_context(STYLE):
-        env = minmax_envelope(duty.signal) if duty.signal is not None else duty.trace  # a long history: its streamed envelope
-        if env is not None:
-            samples = duty.signal.size if duty.signal is not None else duty.trace.samples
+        envelope = minmax_envelope(duty.signal) if duty.signal is not None else duty.envelope  # a long history: its streamed envelope
+        if envelope is not None:
+            samples = duty.signal.size if duty.signal is not None else duty.envelope.samples
             fig, (a0, ax) = figure_with_axes((7.5, 5.6), 2, 1, gridspec_kw={"height_ratios": [1, 1.5]})
-            a0.fill_between(env.start, env.lo * scale, env.hi * scale, color=PALETTE[0], lw=0.4, step="post",
+            a0.fill_between(envelope.start, envelope.lo * scale, envelope.hi * scale, color=PALETTE[0], lw=0.4, step="post",
                             edgecolor=PALETTE[0], rasterized=True)  # thousands of vertices: drawn as one image
             a0.set_xlim(0, samples)
             a0.set_xlabel("sample number in one block")
             a0.set_ylabel(f"drive [{unit}]")
-            how = "every sample" if env.start.size == samples else f"min/max of {env.start.size} bins"
+            how = "every sample" if envelope.start.size == samples else f"min/max of {envelope.start.size} bins"
             a0.set_title(f"drive history of one block ({samples} samples; {how})")
         else:
             fig, ax = figure_with_axes((7.5, 3.8))
         nb = 24
-        r_edges = np.linspace(0.0, max(rng.max(), 1e-12) * 1.0001, nb + 1)
+        r_edges = np.linspace(0.0, max(ranges.max(), 1e-12) * 1.0001, nb + 1)
         m_lo, m_hi = mean.min(), mean.max()
-        pad = max(m_hi - m_lo, rng.max(), 1e-12) * 0.02
+        pad = max(m_hi - m_lo, ranges.max(), 1e-12) * 0.02
         m_edges = np.linspace(m_lo - pad, m_hi + pad, nb + 1)
-        H, _, _ = np.histogram2d(mean, rng, bins=[m_edges, r_edges], weights=count)
+        H, _, _ = np.histogram2d(mean, ranges, bins=[m_edges, r_edges], weights=count)
         H = np.where(H > 0, H, np.nan)
         mesh = ax.pcolormesh(m_edges, r_edges, H.T, cmap="YlGnBu", norm=LogNorm(vmin=np.nanmin(H), vmax=np.nanmax(H)),
                              shading="flat", edgecolors="white", linewidth=0.3, rasterized=True)
@@ -254,28 +254,28 @@ def _equivalent_amplitude(model, sa: np.ndarray, sm: np.ndarray) -> np.ndarray:
 
 def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame, display: Display = SI) -> Figure:
     """(e) The critical location's fatigue curve (or constant-life diagram) with the duty's cycles there."""
-    locs, d = result.locations, result.design
+    locations, d = result.locations, result.design
     k = critical_index(result)
-    m = int(locs.model[k])
+    m = int(locations.model[k])
     with matplotlib.rc_context(STYLE):
         fig, ax = figure_with_axes((7.0, 4.0))
         if m < 0:
-            ax.text(0.5, 0.5, f"no fatigue curve for {locs.mode[k]} at the critical location:\nchecked statically only",
+            ax.text(0.5, 0.5, f"no fatigue curve for {locations.mode[k]} at the critical location:\nchecked statically only",
                     ha="center", va="center", transform=ax.transAxes)
             ax.set_axis_off()
             return arrange(fig)
-        model = locs.models[m]
+        model = locations.models[m]
         strain = model.curves[0].basis == "strain"
         ys, yunit = (100.0, "%") if strain else (display.scale("stress"), display.unit("stress"))
-        cyc = cycles_of_table(cycles)
-        s = locs.response[k] * result.force_per_drive * d.stress_factor
-        a, b = s * cyc.lo, s * cyc.hi
+        counted = cycles_of_table(cycles)
+        s = locations.response[k] * result.force_per_drive * d.stress_factor
+        a, b = s * counted.lo, s * counted.hi
         lo, hi = np.minimum(a, b), np.maximum(a, b)
         sa, sm = 0.5 * (hi - lo), 0.5 * (hi + lo)
-        N = cycle_lives(locs, k, cyc, result.force_per_drive, d.stress_factor)
+        N = cycle_lives(locations, k, counted, result.force_per_drive, d.stress_factor)
         live = sa > 0
-        where = (f"{locs.mode[k]}, ply {locs.ply[k] + 1}, {FACES[locs.face[k]]} face, "
-                 f"x = {display.value(result.response.x[locs.station[k]], 'position')}")
+        where = (f"{locations.mode[k]}, ply {locations.ply[k] + 1}, {FACES[locations.face[k]]} face, "
+                 f"x = {display.value(result.response.x[locations.station[k]], 'position')}")
         if model.rule == "cld":
             order = sorted(model.curves, key=lambda cv: mean_ratio(cv.R))
             for i, life in enumerate([1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9]):
@@ -283,7 +283,7 @@ def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame, display: Disp
                 xm = [-model.Xc] + [mean_ratio(cv.R) * a_ for cv, a_ in zip(order, amps)] + [model.Xt]
                 ya = [0.0] + amps + [0.0]
                 ax.plot(np.array(xm) * ys, np.array(ya) * ys, color=matplotlib.colormaps["copper"](i / 7), lw=1.1, label=f"N = {life:.0e}")
-            sc = ax.scatter(sm[live] * ys, sa[live] * ys, c=cyc.count[live], cmap="YlGnBu", norm=LogNorm(),
+            sc = ax.scatter(sm[live] * ys, sa[live] * ys, c=counted.count[live], cmap="YlGnBu", norm=LogNorm(),
                             s=14, edgecolors="#333", linewidths=0.3, zorder=3, rasterized=live.sum() > 500)
             fig.colorbar(sc, ax=ax, label="cycles per block")
             ax.set_xlabel(f"mean [{yunit}]")
@@ -299,14 +299,14 @@ def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame, display: Disp
         ax.plot(grid, curve.amplitude(grid) * ys, color=PALETTE[0], lw=2,
                 label=f"{curve.form} curve at R = {curve.R:g}" + (f", limit {curve.limit * ys:.3g} {yunit}" if curve.limit else ""))
         order = np.argsort(-seq[live])
-        cum = np.cumsum(cyc.count[live][order])
+        cumulative = np.cumsum(counted.count[live][order])
         levels = seq[live][order] * ys
         if levels.size:  # from N = 0.5: a constant-amplitude duty (one level) is a visible line, not a lone point
-            ax.step(np.r_[0.5, cum], np.r_[levels, levels[-1:]], where="post", color=PALETTE[3], lw=1.3,
+            ax.step(np.r_[0.5, cumulative], np.r_[levels, levels[-1:]], where="post", color=PALETTE[3], lw=1.3,
                     label="duty: cycles per block at or\nabove the amplitude")
         if finite.any():
-            dmg = cyc.count[finite] / N[finite]
-            ax.scatter(N[finite], seq[finite] * ys, s=10 + 60 * dmg / dmg.max(), color=PALETTE[1], alpha=0.8, zorder=3,
+            damage = counted.count[finite] / N[finite]
+            ax.scatter(N[finite], seq[finite] * ys, s=10 + 60 * damage / damage.max(), color=PALETTE[1], alpha=0.8, zorder=3,
                        label="each counted cycle at its\nlife (size: damage)", rasterized=finite.sum() > 500)
         safe = live & np.isinf(N)
         if safe.any():
@@ -351,14 +351,14 @@ def figure_damage(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFr
         a1.set_ylabel("damage per block")
         a1.set_title("damage along the span (largest of each mode)")
         a1.legend(loc="upper left", bbox_to_anchor=(1.01, 1.0))  # beside the axes: never over a curve
-        cyc = cycles_of_table(cycles)
+        counted = cycles_of_table(cycles)
         k = critical_index(result)
-        N = cycle_lives(result.locations, k, cyc, result.force_per_drive, d.stress_factor)
-        dmg = np.where(N > 0, cyc.count / np.where(N > 0, N, 1.0), cyc.count / FIRST_LOAD_FAILURE)
-        rng = (cyc.hi - cyc.lo) * scale
-        edges = np.linspace(0.0, max(rng.max(), 1e-12) * 1.0001, 26)
-        per_bin, _ = np.histogram(rng, bins=edges, weights=dmg)
-        counts, _ = np.histogram(rng, bins=edges, weights=cyc.count)
+        N = cycle_lives(result.locations, k, counted, result.force_per_drive, d.stress_factor)
+        damage = np.where(N > 0, counted.count / np.where(N > 0, N, 1.0), counted.count / FIRST_LOAD_FAILURE)
+        ranges = (counted.hi - counted.lo) * scale
+        edges = np.linspace(0.0, max(ranges.max(), 1e-12) * 1.0001, 26)
+        per_bin, _ = np.histogram(ranges, bins=edges, weights=damage)
+        counts, _ = np.histogram(ranges, bins=edges, weights=counted.count)
         total = per_bin.sum()
         share = per_bin / total * 100 if total > 0 else per_bin
         a2.bar(edges[:-1], share, width=np.diff(edges), align="edge", color=PALETTE[1], alpha=0.85,

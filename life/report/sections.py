@@ -254,17 +254,17 @@ def _curve_text(curve, display: Display = SI) -> str:
 
 def section_method(result: LifeResult, display: Display = SI) -> str:
     d = result.design
-    locs = result.locations
+    locations = result.locations
     curves = []
     seen = set()
-    for m in sorted(set(int(v) for v in locs.model if v >= 0)):
-        rows = np.flatnonzero(locs.model == m)
+    for m in sorted(set(int(v) for v in locations.model if v >= 0)):
+        rows = np.flatnonzero(locations.model == m)
         j = rows[0]
-        key = (d.beam.plies[locs.ply[j]].material.name, locs.family[j])
+        key = (d.beam.plies[locations.ply[j]].material.name, locations.family[j])
         if key in seen:
             continue
         seen.add(key)
-        model = locs.models[m]
+        model = locations.models[m]
         for cv in model.curves:
             curves.append((key[0], key[1], model.rule, _curve_text(cv, display)))
     choices = [
