@@ -176,7 +176,7 @@ def sizing_json(answer: SizingAnswer) -> str:
     return json.dumps(doc, indent=2, allow_nan=False) + "\n"
 
 
-STAGING_PREFIX = ".flexcycle-staging-"  # the temporary folder beside --out that a run writes into first
+STAGING_PREFIX = ".flexcycle-staging-"  # the temporary folder beside the output folder that a run writes into first
 
 
 def write_files(files: Mapping[str, str], out: Path) -> list[Path]:
@@ -192,18 +192,20 @@ def write_files(files: Mapping[str, str], out: Path) -> list[Path]:
     """
     out = Path(out)
     if out.exists() and not out.is_dir():
-        raise InputError(f"--out {out}: exists and is not a folder; give a folder (it is created if absent)")
+        raise InputError(f"out {out}: exists and is not a folder; give a folder (it is created if absent)",
+                         parameter="out")
     for name in files:  # a folder (or other non-file) in the way would fail only after others were replaced
         target = out / name
         if target.exists() and not target.is_file():
-            raise InputError(f"--out {out}: {name} there is not a file; move it away or choose another --out folder")
+            raise InputError(f"out {out}: {name} there is not a file; move it away or choose another output folder",
+                             parameter="out")
     parent = out.absolute().parent
     try:
         parent.mkdir(parents=True, exist_ok=True)
         staging = Path(tempfile.mkdtemp(prefix=STAGING_PREFIX, dir=parent))
     except OSError as exc:
-        raise InputError(f"--out {out}: cannot write beside it in {parent} ({exc.strerror}); choose a folder "
-                         "you may write to") from None
+        raise InputError(f"out {out}: cannot write beside it in {parent} ({exc.strerror}); choose a folder "
+                         "you may write to", parameter="out") from None
     try:
         umask = os.umask(0)
         os.umask(umask)
@@ -217,7 +219,8 @@ def write_files(files: Mapping[str, str], out: Path) -> list[Path]:
             os.replace(staging / name, out / name)
             written.append(out / name)
     except OSError as exc:
-        raise InputError(f"--out {out}: cannot write there ({exc.strerror}); choose a folder you may write to") from None
+        raise InputError(f"out {out}: cannot write there ({exc.strerror}); choose a folder you may write to",
+                         parameter="out") from None
     finally:
         shutil.rmtree(staging, ignore_errors=True)
     return written

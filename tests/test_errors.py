@@ -68,3 +68,18 @@ def test_did_you_mean_cutoff():
     """difflib's ratio of 'carbon' to 'carbon-epoxy' is 2·6/18 = 0.67: suggested at 0.6, not at 0.8."""
     assert did_you_mean("carbon", ["carbon-epoxy"]) == "did you mean 'carbon-epoxy'? "
     assert did_you_mean("carbon", ["carbon-epoxy"], cutoff=0.8) == ""
+
+
+def test_the_library_names_its_parameter_and_the_command_its_flag(tmp_path):
+    """write_files(out=…) says ``out``; `flexcycle run --out …` says ``--out`` for the same mistake."""
+    from flexcycle.outputs import write_files
+    from tests.cli_runner import run_cli
+
+    taken = tmp_path / "a-file"
+    taken.write_text("x", encoding="utf-8")
+    with pytest.raises(InputError, match=r"^out .*a-file: exists and is not a folder") as caught:
+        write_files({"summary.json": "{}"}, taken)
+    assert caught.value.parameter == "out"
+    ran = run_cli(["run", "--out", taken])
+    assert ran.code == 2
+    assert ran.err.startswith(f"flexcycle: --out {taken}: exists and is not a folder")

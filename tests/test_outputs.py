@@ -326,7 +326,7 @@ def test_a_parent_that_cannot_be_written_is_a_clear_error(files, tmp_path, monke
         raise PermissionError(13, "Permission denied")
 
     monkeypatch.setattr(outputs.tempfile, "mkdtemp", denied)
-    with pytest.raises(InputError, match=r"--out .*out: cannot write beside it .*Permission denied.*you may write to"):
+    with pytest.raises(InputError, match=r"^out .*out: cannot write beside it .*Permission denied.*you may write to"):
         write_files(files, tmp_path / "out")
     assert list(tmp_path.iterdir()) == []
 

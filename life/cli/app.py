@@ -18,7 +18,7 @@ from flexcycle.caution import CAUTION
 from flexcycle.errors import INPUT_ERRORS, InputError, did_you_mean, input_errors
 
 # The library's parameters that the commands take as options under another name (InputError.naming)
-FLAGS = {"out": "--out", "target_blocks": "--life", "vary": "--vary", "rate": "--rate", "duty": "--duty"}
+FLAGS = {"out": "--out", "target_blocks": "--life", "vary": "--vary", "rate": "--rate", "duty_file": "--duty"}
 PROGRESS_BYTES = 20_000_000  # a time history file larger than this (about 10⁶ samples) gets a progress bar
 
 app = typer.Typer(

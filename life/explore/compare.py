@@ -40,15 +40,17 @@ def with_common_duty(design_file: Path, duty_file: Path) -> Design:
     design_file, duty_file = Path(design_file), Path(duty_file)
     design_doc = read_document(design_file)
     if not duty_file.is_file():
-        raise InputError(f"--duty {duty_file}: no such file")
+        raise InputError(f"duty_file {duty_file}: no such file", parameter="duty_file")
     try:
         doc = tomllib.loads(duty_file.read_text(encoding="utf-8"))
     except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
-        raise InputError(f"--duty {duty_file.name}: not a valid UTF-8 TOML file ({exc})") from None
+        raise InputError(f"duty_file {duty_file.name}: not a valid UTF-8 TOML file ({exc})",
+                         parameter="duty_file") from None
     extra = sorted(set(doc) - {"duty"})
     if "duty" not in doc or not isinstance(doc["duty"], dict) or extra:
-        raise InputError(f"--duty {duty_file.name}: must hold one [duty] table (the keys of a design file's "
-                         f"[duty]) and nothing else" + (f"; found {', '.join(extra)}" if extra else ""))
+        raise InputError(f"duty_file {duty_file.name}: must hold one [duty] table (the keys of a design file's "
+                         f"[duty]) and nothing else" + (f"; found {', '.join(extra)}" if extra else ""),
+                         parameter="duty_file")
     duty = dict(doc["duty"])
     profile = duty.get("profile")
     if isinstance(profile, str) and not profile.startswith(BUNDLED_PREFIX):
