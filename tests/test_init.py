@@ -91,3 +91,12 @@ def test_estimate_stays_the_function_after_its_module_is_imported():
                      "from flexcycle.estimate import LifeResult\n"
                      "print(callable(flexcycle.estimate), callable(e), LifeResult.__module__)")
     assert printed.split() == ["True", "True", "flexcycle.estimate"]
+
+
+def test_the_bundled_examples_by_name():
+    """Every design file shipped in life/examples is listed, and an unknown name suggests the nearest."""
+    shipped = sorted(path.stem for path in (ROOT / "life" / "examples").glob("*.toml"))
+    assert list(flexcycle.example_names()) == shipped
+    assert flexcycle.example_path().name == "cargo-bike-rear-spring.toml"
+    with pytest.raises(flexcycle.InputError, match="did you mean 'feeder-flexure'"):
+        flexcycle.example_path("feeder-flexur")
