@@ -87,11 +87,11 @@ def test_installed_beside_stand_in_top_level_packages_both_import_their_own(whee
         target = Path({str(target)!r}).resolve()
         import spectra, spectra.profiles, mechanics, life
         import flexcycle, flexcycle.spectra.profiles, flexcycle.mechanics.laminate
-        from flexcycle.spectra import counting
+        from flexcycle.spectra import rainflow
         def where(modules):
             return {{m.__name__: Path(m.__file__).resolve().relative_to(target).as_posix() for m in modules}}
         theirs = where((spectra, spectra.profiles, mechanics, life))
-        ours = where((flexcycle, flexcycle.spectra.profiles, flexcycle.mechanics.laminate, counting))
+        ours = where((flexcycle, flexcycle.spectra.profiles, flexcycle.mechanics.laminate, rainflow))
         result = flexcycle.estimate(flexcycle.load_design(flexcycle.example_path()))
         print(json.dumps({{"theirs": theirs, "stand_in": spectra.STAND_IN, "ours": ours,
                           "life_blocks": result.summary()["life_blocks"]}}))
@@ -107,7 +107,7 @@ def test_installed_beside_stand_in_top_level_packages_both_import_their_own(whee
     assert seen["ours"] == {"flexcycle": "flexcycle/__init__.py",
                             "flexcycle.spectra.profiles": "flexcycle/spectra/profiles.py",
                             "flexcycle.mechanics.laminate": "flexcycle/mechanics/laminate.py",
-                            "flexcycle.spectra.counting": "flexcycle/spectra/counting.py"}
+                            "flexcycle.spectra.rainflow": "flexcycle/spectra/rainflow.py"}
     assert seen["life_blocks"] > 0
     script = target / "bin" / "flexcycle"  # the console script runs from the installed package too
     helped = subprocess.run([sys.executable, str(script), "--help"], cwd=tmp_path, env=env, capture_output=True,

@@ -3,7 +3,7 @@
 One small design is estimated once for the module: a 100 mm × 20 mm cantilever of three 0° e-glass/epoxy
 plies of 2 mm (h = 6 mm), few stations, a deflection block table with a positive mean, so the compression
 face (Xc < Xt) at the root is the unique worst place. Hand check of its fibre strain (rectangular section,
-REFERENCES.md: ε = 3δh/(2L²), shear deflection ignored): δ = 9 mm gives 3 × 0.009 × 0.006/(2 × 0.1²) =
+docs/references.md: ε = 3δh/(2L²), shear deflection ignored): δ = 9 mm gives 3 × 0.009 × 0.006/(2 × 0.1²) =
 0.81 %, well into the fibre curve, so fibre damage rules. A second design counts the ASTM E1049-85
 example history.
 """
