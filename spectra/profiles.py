@@ -178,7 +178,7 @@ def refuse_headerless(path: Path, where: str) -> None:
         return
 
 
-def read_time_history(path: Path, column: str, scale: float, where: str) -> TimeHistory:
+def read_time_history(path: Path, column: str, to_si: float, where: str) -> TimeHistory:
     """Read one column of a CSV file as a drive signal in SI.
 
     Parameters
@@ -186,14 +186,14 @@ def read_time_history(path: Path, column: str, scale: float, where: str) -> Time
     path : Path — CSV file: a header line of column names, then one sample per line;
         lines starting with ``#`` and blank lines are skipped
     column : str — name of the column holding the drive
-    scale : float — factor from the file's numbers to SI [SI unit per file unit], e.g.
+    to_si : float — factor from the file's numbers to SI [SI unit per file unit], e.g.
         1e-3 for a deflection in mm; must be finite and non-zero
     where : str — what asked for the file (e.g. ``"ride.toml [duty] profile"``); every
         error message starts with it
 
     Returns
     -------
-    TimeHistory — ``values`` = file numbers × ``scale`` [SI]
+    TimeHistory — ``values`` = file numbers × ``to_si`` [SI]
 
     Raises
     ------
@@ -207,8 +207,8 @@ def read_time_history(path: Path, column: str, scale: float, where: str) -> Time
     (comma, semicolon or tab) and the decimal mark are found by `detect_dialect`.
     """
     path = Path(path)
-    if not math.isfinite(scale) or scale == 0.0:
-        raise InputError(f"{where}: scale to SI must be a finite non-zero number, got {scale}")
+    if not math.isfinite(to_si) or to_si == 0.0:
+        raise InputError(f"{where}: the factor to SI must be a finite non-zero number, got {to_si}")
     try:
         text = path.read_text(encoding="utf-8-sig")  # -sig: drop a byte-order mark some spreadsheets write
     except FileNotFoundError:
@@ -265,11 +265,11 @@ def read_time_history(path: Path, column: str, scale: float, where: str) -> Time
                          f"a time history needs at least 2")
 
     with np.errstate(over="ignore"):  # an overflow is reported just below, with its line
-        values = values * scale
+        values = values * to_si
     if not np.all(np.isfinite(values)):
         k = int(np.flatnonzero(~np.isfinite(values))[0])
         raise InputError(f"{where}: profile file '{path}', line {line_of[k + 1]}: column '{column}' "
-                         f"times the scale {scale} is not finite; check the unit")
+                         f"times the factor to SI {to_si} is not finite; check the unit")
     values.flags.writeable = False
     return TimeHistory(values=values, source=path.name, column=column)
 

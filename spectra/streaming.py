@@ -13,7 +13,7 @@ The file format and every error message are those of `flexcycle.spectra.profiles
 when the fast reader meets anything it does not accept (a missing file or column, a cell
 that is not a finite number, a ragged row, a repeated column name, fewer than 2 samples),
 the file is read again by `read_time_history`, which raises the message with the file's
-line number. This layer knows no units: ``scale`` turns the file's numbers into SI.
+line number. This layer knows no units: ``to_si`` (a factor) turns the file's numbers into SI.
 """
 from __future__ import annotations
 
@@ -87,9 +87,9 @@ class CountedHistory:
     sha256: str = ""
 
 
-def _refuse(path: Path, column: str, scale: float, where: str) -> None:
+def _refuse(path: Path, column: str, to_si: float, where: str) -> None:
     """Raise the exact message of `read_time_history` for a file the fast reader did not accept."""
-    read_time_history(path, column, scale, where)  # raises with the file's line number
+    read_time_history(path, column, to_si, where)  # raises with the file's line number
     raise InputError(f"{where}: profile file '{path}' could not be read as a CSV table of numbers")
 
 
@@ -133,7 +133,7 @@ class _Hashing(io.RawIOBase):
 def history_chunks(
     path: Path,
     column: str,
-    scale: float,
+    to_si: float,
     where: str,
     chunk_samples: int = CHUNK_SAMPLES,
     on_bytes: Callable[[int, int], None] | None = None,
@@ -145,7 +145,7 @@ def history_chunks(
     ----------
     path : Path — CSV file, the format of `flexcycle.spectra.profiles.read_time_history`
     column : str — name of the column holding the drive
-    scale : float — factor from the file's numbers to SI [SI unit per file unit]
+    to_si : float — factor from the file's numbers to SI [SI unit per file unit]
     where : str — what asked for the file; every error message starts with it
     chunk_samples : int — samples per chunk (> 0)
     on_bytes : Callable[[int, int], None] | None — called after each chunk with the bytes of the
@@ -155,7 +155,7 @@ def history_chunks(
 
     Yields
     ------
-    np.ndarray — the next samples × ``scale`` [SI], read-only; every chunk but the last has
+    np.ndarray — the next samples × ``to_si`` [SI], read-only; every chunk but the last has
     ``chunk_samples`` samples
 
     Raises
@@ -175,15 +175,15 @@ def history_chunks(
     import pandas as pd  # here: the command line starts without pandas (lean start)
 
     path = Path(path)
-    if not math.isfinite(scale) or scale == 0.0:
-        raise InputError(f"{where}: scale to SI must be a finite non-zero number, got {scale}")
+    if not math.isfinite(to_si) or to_si == 0.0:
+        raise InputError(f"{where}: the factor to SI must be a finite non-zero number, got {to_si}")
     dialect = file_dialect(path, f"{where}: profile file '{path}'")  # comma, semicolon or tab; decimal mark
     head = _header(path, dialect.sep)
     if head is None:
-        _refuse(path, column, scale, where)
+        _refuse(path, column, to_si, where)
     offset, names = head
     if column not in names or len(set(names)) != len(names):
-        _refuse(path, column, scale, where)
+        _refuse(path, column, to_si, where)
     size = path.stat().st_size
     read = 0
     with open(path, "rb", buffering=0) as raw:
@@ -200,7 +200,7 @@ def history_chunks(
             )
             for frame in reader:
                 with np.errstate(over="ignore"):  # an overflow is refused just below
-                    values = frame[column].to_numpy(dtype=np.float64) * scale
+                    values = frame[column].to_numpy(dtype=np.float64) * to_si
                 if not np.all(np.isfinite(values)):
                     raise ValueError("a cell that is not a finite number")
                 read += values.size
@@ -209,9 +209,9 @@ def history_chunks(
                     on_bytes(min(fh.position, size), size)
                 yield values
         except (ValueError, pd.errors.ParserError, UnicodeDecodeError):
-            _refuse(path, column, scale, where)
+            _refuse(path, column, to_si, where)
     if read < 2:
-        _refuse(path, column, scale, where)
+        _refuse(path, column, to_si, where)
 
 
 def _has_comment(fh, offset: int, size: int) -> bool:
@@ -269,16 +269,16 @@ def _read_ahead(chunks: Iterator[np.ndarray], depth: int = READ_AHEAD) -> Iterat
         reader.join()
 
 
-def refuse_constant(history: CountedHistory, where: str, unit: str, scale: float) -> None:
+def refuse_constant(history: CountedHistory, where: str, unit: str, to_si: float) -> None:
     """Refuse a history that never varies: it has no cycle to count.
 
     where : str — what read it, e.g. ``"ride.toml [duty] profile: ride.csv"``; the message starts with it
     unit : str — the unit of the file's numbers, for the message
-    scale : float — factor from the file's numbers to SI [SI unit per file unit]
+    to_si : float — factor from the file's numbers to SI [SI unit per file unit]
     """
     low, high = float(history.envelope.lo.min()), float(history.envelope.hi.max())
     if high == low:
-        raise InputError(f"{where}, column {history.column!r} is constant ({low / scale:g} {unit} in all "
+        raise InputError(f"{where}, column {history.column!r} is constant ({low / to_si:g} {unit} in all "
                          f"{history.samples} samples): no cycle to count; a time history must vary")
 
 
@@ -311,7 +311,7 @@ def _bins(values: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
 def count_history(
     path: Path,
     column: str,
-    scale: float,
+    to_si: float,
     where: str,
     residue: str = "half",
     keep_signal: int = KEEP_SIGNAL,
@@ -322,7 +322,7 @@ def count_history(
 
     Parameters
     ----------
-    path, column, scale, where : as `history_chunks`
+    path, column, to_si, where : as `history_chunks`
     residue : str — one of `flexcycle.spectra.rainflow.RESIDUE_MODES`, as in `rainflow_cycles`
     keep_signal : int — the history is kept whole (and counted at once) up to this many samples
     progress : Callable[[int, int], None] | None — called with (bytes read, file size) after each
@@ -348,7 +348,7 @@ def count_history(
     parts: list[Cycles] = []
     samples = 0
     digest = hashlib.sha256()
-    for values in _read_ahead(history_chunks(path, column, scale, where, chunk_samples, progress, digest)):
+    for values in _read_ahead(history_chunks(path, column, to_si, where, chunk_samples, progress, digest)):
         samples += values.size
         bins.append(_bins(values))
         if kept is not None:

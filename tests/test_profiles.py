@@ -140,10 +140,10 @@ def test_no_header_line(tmp_path):
     assert "no header line" in message
 
 
-@pytest.mark.parametrize("scale", [0.0, float("nan"), float("inf")])
-def test_scale_must_be_finite_and_non_zero(tmp_path, scale):
-    with pytest.raises(InputError, match=f"^{re.escape(WHERE)}.*scale"):
-        read_time_history(write_csv(tmp_path, GOOD), "deflection_mm", scale, WHERE)
+@pytest.mark.parametrize("to_si", [0.0, float("nan"), float("inf")])
+def test_scale_must_be_finite_and_non_zero(tmp_path, to_si):
+    with pytest.raises(InputError, match=f"^{re.escape(WHERE)}.*factor to SI"):
+        read_time_history(write_csv(tmp_path, GOOD), "deflection_mm", to_si, WHERE)
 
 
 # --- block_table, constant_amplitude -------------------------------------------------------
