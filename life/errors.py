@@ -45,14 +45,15 @@ INPUT_ERRORS = (MechanicsInputError, SpectraInputError)  # the family's two root
 
 
 @contextmanager
-def input_errors(prefix: str = "") -> Iterator[None]:
+def input_errors(prefix: str = "", parameter: str | None = None) -> Iterator[None]:
     """Inside, a lower layer's ``InputError`` leaves as flexcycle's, its message after ``prefix``.
 
     prefix : str — the place the lower layer does not know, e.g. the design file's name and a space
+    parameter : str | None — the library parameter the message then starts with (`InputError.parameter`)
     """
     try:
         yield
     except InputError:
         raise
     except INPUT_ERRORS as exc:
-        raise InputError(f"{prefix}{exc}") from exc
+        raise InputError(f"{prefix}{exc}", parameter) from exc

@@ -83,3 +83,16 @@ def test_the_library_names_its_parameter_and_the_command_its_flag(tmp_path):
     ran = run_cli(["run", "--out", taken])
     assert ran.code == 2
     assert ran.err.startswith(f"flexcycle: --out {taken}: exists and is not a folder")
+
+
+def test_sizing_names_target_blocks_and_the_command_its_life_flag(tmp_path):
+    """plan(target_blocks=-5) says ``target_blocks``; `flexcycle size --life -5` says ``--life``."""
+    from flexcycle.sizing.plan import plan
+    from tests.cli_runner import run_cli
+
+    design = flexcycle.load_design(flexcycle.example_path("prosthetic-keel"))
+    with pytest.raises(InputError, match=r"^target_blocks: a number of blocks > 0, got -5") as caught:
+        plan(design, -5.0, "thickness", None, False)
+    assert caught.value.parameter == "target_blocks"
+    ran = run_cli(["size", flexcycle.example_path("prosthetic-keel"), "--life", "-5", "--out", tmp_path / "out"])
+    assert ran.code == 2 and ran.err.startswith("flexcycle: --life: a number of blocks > 0, got -5")

@@ -94,8 +94,8 @@ def plan(design: Design, target_blocks: float, vary: str = "thickness", rate: fl
     (sized.toml), and a ply-drop alternative in whole plies of the design's real thickness (sized-drops.toml,
     module notes); with ``rate`` [N/m] the width last for the spring rate (deflection drive)."""
     if rate is not None and vary != "thickness":
-        raise InputError("--rate: the thickness is sized for the life and the width for the rate; leave out "
-                         "--vary width")
+        raise InputError("rate: the thickness is sized for the life and the width for the rate; size the "
+                         "thickness (vary = \"thickness\")", parameter="rate")
     if rate is not None and design.duty.drive != "deflection":
         size_rate(design, rate)  # raises with the reason
     if taper:

@@ -158,7 +158,7 @@ def size_plies(design: Design, target_blocks: float, shape=None, guess: int | No
     bisection) inside ``inner_range``.
     """
     if not target_blocks > 0 or not math.isfinite(target_blocks):
-        raise InputError(f"--life: a number of blocks > 0, got {target_blocks!r}")
+        raise InputError(f"target_blocks: a number of blocks > 0, got {target_blocks!r}", parameter="target_blocks")
     before = len(design.beam.plies) - 2
     lo, hi = inner_range(design)
     grows = design.duty.drive == "force"  # more plies strain less under a force, more under a deflection
@@ -179,16 +179,16 @@ def size_plies(design: Design, target_blocks: float, shape=None, guess: int | No
     if k is None:
         worst = hi if grows else lo
         stack, r = evaluate(worst)
-        raise InputError(f"--life {target_blocks:g}: no whole-ply stack of {lo}–{hi} inner plies "
+        raise InputError(f"target_blocks {target_blocks:g}: no whole-ply stack of {lo}–{hi} inner plies "
                          f"({stack.kind}) reaches it; "
-                         + why_short_of_target(r, f"{worst} inner plies", target_blocks))
+                         + why_short_of_target(r, f"{worst} inner plies", target_blocks), parameter="target_blocks")
     n = k if grows else lo + hi - k
     if not grows and n == hi:
         r = evaluate(n)[1]
         life = "unbounded" if r.life_blocks is None else f"{r.life_blocks:.4g}"
-        raise InputError(f"--life {target_blocks:g}: every whole-ply stack of {lo}–{hi} inner plies reaches it, even "
-                         f"{hi} (life {life} blocks): the life does not limit the ply count in this "
-                         "range — size by stiffness or static strength instead")
+        raise InputError(f"target_blocks {target_blocks:g}: every whole-ply stack of {lo}–{hi} inner plies reaches it, "
+                         f"even {hi} (life {life} blocks): the life does not limit the ply count in this "
+                         "range — size by stiffness or static strength instead", parameter="target_blocks")
     stack, r = evaluate(n)
     if grows:
         note = f"{before} → {n} inner plies of {stack.kind}: the fewest whose life reaches the target"

@@ -8,9 +8,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from flexcycle.design import Design
-from flexcycle.errors import InputError
+from flexcycle.errors import InputError, input_errors
 from flexcycle.mechanics.beam import respond
-from flexcycle.mechanics.errors import InputError as MechanicsInputError
 from flexcycle.mechanics.units import parse_quantity
 from flexcycle.sizing.scale import scaled_design
 
@@ -39,13 +38,11 @@ class RateResult:
 
 
 def parse_rate(text: str) -> float:
-    """The ``--rate`` value, a force per deflection with its unit ("25 N/mm") [N/m]."""
-    try:
-        rate = parse_quantity(text, "stiffness", "--rate")
-    except MechanicsInputError as exc:
-        raise InputError(str(exc)) from None
+    """A spring rate given as text, a force per deflection with its unit ("25 N/mm") [N/m]."""
+    with input_errors(parameter="rate"):
+        rate = parse_quantity(text, "stiffness", "rate")
     if not rate > 0:
-        raise InputError(f"--rate: a spring rate > 0, e.g. \"25 N/mm\", got {text!r}")
+        raise InputError(f"rate: a spring rate > 0, e.g. \"25 N/mm\", got {text!r}", parameter="rate")
     return rate
 
 
@@ -59,9 +56,9 @@ def size_rate(design: Design, rate: float) -> RateResult:
     within ``RATE_TOLERANCE``. Under a deflection drive the strains, hence the life, do not change with b.
     """
     if design.duty.drive != "deflection":
-        raise InputError("--rate: only for a deflection-driven part; under a force drive the life depends on the "
+        raise InputError("rate: only for a deflection-driven part; under a force drive the life depends on the "
                          "width as much as on the thickness, so the two cannot be set one after the other — "
-                         "size the thickness or the width for the life alone")
+                         "size the thickness or the width for the life alone", parameter="rate")
     k1 = respond(design.beam).stiffness
     factor, k = rate / k1, None
     linearity = None

@@ -86,9 +86,9 @@ def why_short_of_target(result: LifeResult, at: str, target: float) -> str:
 def size(design: Design, target_blocks: float, vary: str) -> SizingResult:
     """Solve for the scale factor at which the life reaches ``target_blocks`` (module notes)."""
     if vary not in VARY:
-        raise InputError(f"--vary: must be one of {', '.join(VARY)}, got {vary!r}")
+        raise InputError(f"vary: must be one of {', '.join(VARY)}, got {vary!r}", parameter="vary")
     if not target_blocks > 0 or not math.isfinite(target_blocks):
-        raise InputError(f"--life: a number of blocks > 0, got {target_blocks!r}")
+        raise InputError(f"target_blocks: a number of blocks > 0, got {target_blocks!r}", parameter="target_blocks")
     history: list[tuple[float, float]] = []
     results: dict[float, LifeResult] = {}
 
@@ -101,14 +101,14 @@ def size(design: Design, target_blocks: float, vary: str) -> SizingResult:
     base, probe = life_blocks_or_inf(evaluate(1.0)), life_blocks_or_inf(evaluate(1.1))
     flat = vary == "width" and design.duty.drive == "deflection"
     if flat and (base == probe or abs(math.log(probe / base)) < INSENSITIVE):
-        raise InputError("--vary width: under a deflection drive the strains do not depend on the width (the force "
-                         "grows with it, the moment per width stays); size the thickness, then the width for the "
-                         "spring rate (--rate)")
+        raise InputError("vary width: under a deflection drive the strains do not depend on the width (the force "
+                         "grows with it, the moment per width stays); size the thickness, then the width for a "
+                         "spring rate", parameter="vary")
     if base == probe:  # both zero (a static failure) or both unbounded: the probe says nothing, physics does
         grows = design.duty.drive == "force"  # thicker or wider strains less under a force, more under a deflection
     elif 0 < base < math.inf and 0 < probe < math.inf and abs(math.log(probe / base)) < INSENSITIVE:
-        raise InputError(f"--vary {vary}: the life hardly changes with the {vary} under this duty "
-                         f"({base:.4g} → {probe:.4g} blocks for × 1.1); size another dimension")
+        raise InputError(f"vary {vary}: the life hardly changes with the {vary} under this duty "
+                         f"({base:.4g} → {probe:.4g} blocks for × 1.1); size another dimension", parameter="vary")
     else:
         grows = probe > base
 
@@ -130,8 +130,8 @@ def size(design: Design, target_blocks: float, vary: str) -> SizingResult:
         if gap(math.log(u)) >= 0:
             reach = u
         elif u >= hi_lim:
-            raise InputError(f"--life {target_blocks:g}: no {vary} factor in {lo_lim:g}–{hi_lim:g} reaches it; "
-                             + why_short_of_target(evaluate(s_of(u)), at(u), target_blocks))
+            raise InputError(f"target_blocks {target_blocks:g}: no {vary} factor in {lo_lim:g}–{hi_lim:g} reaches it; "
+                             + why_short_of_target(evaluate(s_of(u)), at(u), target_blocks), parameter="target_blocks")
         else:
             miss = u
     while miss is None:  # shrink u until the target is missed: the answer lies between
@@ -143,10 +143,10 @@ def size(design: Design, target_blocks: float, vary: str) -> SizingResult:
             why = ("the life is unbounded there (every cycle below the fatigue limits)" if r.life_blocks is None
                    else f"the life there is {r.life_blocks:.4g} blocks")
             raise InputError(
-                f"--life {target_blocks:g}: every {vary} factor in {lo_lim:g}–{hi_lim:g} reaches it, even {at(u)}: "
+                f"target_blocks {target_blocks:g}: every {vary} factor in {lo_lim:g}–{hi_lim:g} reaches it, even {at(u)}: "
                 f"{why}. The life does not limit the {vary} in this range; the "
                 f"{'thinnest' if vary == 'thickness' else 'narrowest'} in it, {at(u)}, already reaches the target — "
-                "size by stiffness or static strength instead"
+                "size by stiffness or static strength instead", parameter="target_blocks"
             )
         else:
             reach = u
