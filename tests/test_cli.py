@@ -722,7 +722,8 @@ HEAVY = ("matplotlib", "scipy.integrate", "scipy.optimize", "scipy.interpolate",
 
 def _modules_after(args: list[str]) -> set[str]:
     """The modules a fresh Python holds after ``flexcycle ARGS`` (run through flexcycle.cli.app.main from this tree)."""
-    code = ("import sys\nsys.argv = ['flexcycle', *sys.argv[1:]]\nfrom flexcycle.cli.app import main\n"
+    # the root conftest maps this clone's folders onto the import name (this tree, not an installed copy)
+    code = ("import conftest, sys\nsys.argv = ['flexcycle', *sys.argv[1:]]\nfrom flexcycle.cli.app import main\n"
             "try:\n    main()\nexcept SystemExit:\n    pass\nprint('MODULES', ' '.join(sorted(sys.modules)))")
     proc = subprocess.run([sys.executable, "-c", code, *args], cwd=WORKTREE, capture_output=True, text=True, timeout=120)
     line = [ln for ln in proc.stdout.splitlines() if ln.startswith("MODULES")][-1]
