@@ -13,8 +13,14 @@ from __future__ import annotations
 import dataclasses
 
 import pytest
+from hypothesis import settings
 
 from flexcycle.mechanics.materials import Material, library
+
+# No timing in tests: the machine is shared and a case may wait its turn for a processor. Speed is measured by
+# the scripts in benchmarks/. (A test's own @settings still sets its number of examples.)
+settings.register_profile("no-deadline", deadline=None)
+settings.load_profile("no-deadline")
 
 
 def make_isotropic(E: float, nu: float = 0.3, density: float = 1800.0, name: str = "test-isotropic") -> Material:
