@@ -492,7 +492,7 @@ def _required_life(value: Any, duty: Duty, where: str) -> float:
         return number if count.group("what").startswith("block") else number / float(duty.cycles.n_total)
     try:
         seconds = parse_quantity(value, "time", where)
-    except mechanics_errors.InputError as exc:
+    except MechanicsInputError as exc:
         raise InputError(f"{exc}; or give blocks of the duty as a bare number, or \"2e6 cycles\"") from None
     if not seconds > 0:
         raise InputError(f"{where}: a required life must be > 0, got {value!r}")

@@ -13,12 +13,12 @@ from functools import cached_property
 from typing import TYPE_CHECKING
 
 from flexcycle.caution import CAUTION
-from flexcycle.formatting import life_text, number_text
 
 if TYPE_CHECKING:
     import pandas as pd
     from matplotlib.figure import Figure
 
+    from flexcycle.display import Display
     from flexcycle.estimate import LifeResult
 
 
@@ -84,30 +84,58 @@ class ResultViews:
                 f"<p><em>caution: {html.escape(CAUTION)}</em></p></div>")
 
 
-def headline_rows(result: LifeResult) -> list[tuple[str, str]]:
-    """The run's headline figures as (quantity, value with its unit) rows, the same in the terminal and a
-    notebook: life, damage, rule, critical mode, ply and place, stiffness, mass, strain, energies, reserve."""
+def life_text(value: float | None, unit: str) -> str:
+    """A life in ``unit``: "unbounded …" for None (no damaging cycle), "0 … (fails at first loading)" for zero."""
+    if value is None:
+        return "unbounded (no damaging cycle)"
+    if value == 0:
+        return f"0 {unit} (fails at first loading)"
+    return f"{value:.3g} {unit}"
+
+
+def headline_rows(result: LifeResult, display: Display | None = None) -> list[tuple[str, str]]:
+    """The run's headline figures as (quantity, value with its unit) rows, the same in the terminal and in a
+    notebook: the verdict against a required life, life, damage, rule, critical mode, ply and place, stiffness,
+    mass, strain, energies, static reserve.
+
+    display : the units shown (inch-pound with SI beside, or SI); None: SI
+    """
+    from flexcycle.display import SI, format_number, from_where, per_day
+    from flexcycle.requirement import verdict_of
+
+    display = display or SI
     design, critical, summary = result.design, result.critical, result.summary()
     ply = design.beam.plies[critical.ply - 1]
-    rows = [("life, cycles", life_text(result.life_cycles, "cycles")),
-            ("life, blocks", life_text(result.life_blocks, "blocks of the duty"))]
+    where = from_where(design.beam.support)
+    rows = []
+    verdict = verdict_of(result)
+    if verdict is not None:
+        rows.append(("required life", f"{format_number(verdict.required_life_blocks)} blocks"
+                     + (f" ({design.required_life_text})" if design.required_life_text else "")
+                     + (", met" if verdict.meets_requirement else ", NOT met")
+                     + ("" if verdict.life_margin is None else f", margin {format_number(verdict.life_margin, 3)}")))
+    rows.append(("life, cycles", life_text(result.life_cycles, "cycles")))
+    rows.append(("life, blocks", life_text(result.life_blocks, "blocks of the duty")))
     if design.duty.blocks_per_day:
-        rows.append(("life, days", life_text(result.life_days, "days")
-                     + f" at {design.duty.blocks_per_day:g} blocks per day"))
+        rows.append(("life, days", life_text(result.life_days, "days") + f" at {per_day(design.duty.blocks_per_day)}"))
+    reserve = "not checked" if summary["static_reserve"] is None else f"{summary['static_reserve']:.3g}"
     rows += [
-        ("damage", f"{number_text(result.damage_per_block, 3)} per block (Miner limit {design.miner_limit:g})"),
+        ("damage", f"{result.damage_per_block:.3g} per block (Miner limit {design.miner_limit:g})"),
         ("rule", f"mean stress {design.mean_stress}, stress factor {design.stress_factor:g}"),
         ("critical mode", critical.mode),
         ("critical ply", f"ply {critical.ply} ({ply.material.name}, {ply.angle:g}°), {critical.face} face"),
-        ("critical place", f"x = {critical.x_m * 1e3:.1f} mm from the root, z = {critical.z_m * 1e3:+.2f} mm"),
-        ("stiffness", number_text(summary["stiffness_n_per_m"], 4, 1e-3, "N/mm") + " at the load point"),
-        ("mass", number_text(summary["mass_kg"], 4, 1e3, "g")),
-        ("peak strain", number_text(summary["peak_strain"], 3, 100, "%") + " along the fibres"),
-        ("peak energy", number_text(summary["peak_energy_j"], 4, unit="J") + " at peak drive"),
-        ("cycle energy", number_text(summary["cycle_energy_j"], 4, unit="J") + " in the largest cycle"),
-        ("specific energy", number_text(summary["specific_energy_j_per_kg"], 4, unit="J/kg")
-         + f", storage efficiency {summary['energy_efficiency']:.3f}"),
-        ("static reserve", f"{number_text(summary['static_reserve'], 3)} ({result.static.criterion}) at x = "
-                           f"{result.static.x_m * 1e3:.0f} mm, ply {result.static.ply}"),
+        ("critical place", f"x = {display.both(critical.x_m, 'position')} {where}, "
+                           f"z = {display.both(critical.z_m, 'position', signed=True)}"),
+        ("stiffness", f"{display.both(summary['stiffness_n_per_m'], 'stiffness')} at the load point"),
+        ("mass", display.both(summary["mass_kg"], "mass")),
+        ("peak strain", f"{summary['peak_strain'] * 100:.3g} % along the fibres"),
+        ("peak energy", f"{display.both(summary['peak_energy_j'], 'energy')} at peak drive"),
+        ("cycle energy", f"{display.both(summary['cycle_energy_j'], 'energy')} in the largest cycle"),
+        ("specific energy", f"{display.both(summary['specific_energy_j_per_kg'], 'specific_energy')}, "
+                            f"storage efficiency {summary['energy_efficiency']:.3f}"),
+        ("static reserve", f"{reserve} ({result.static.criterion}) at x = "
+                           f"{display.both(result.static.x_m, 'position')} {where}, ply {result.static.ply}"),
     ]
+    if summary.get("first_mode_hz") is not None:
+        rows.insert(-1, ("first frequency", f"{summary['first_mode_hz']:.4g} Hz, first bending mode of the part alone"))
     return rows

@@ -44,9 +44,8 @@ def _check_units(units: str | None) -> None:
     from flexcycle.display import SYSTEMS
 
     if units is not None and units not in SYSTEMS:
-        close = difflib.get_close_matches(units, SYSTEMS, n=1)
-        hint = f"did you mean {close[0]!r}? " if close else ""
-        raise LifeInputError(f"--units: {hint}must be one of {', '.join(SYSTEMS)}, got {units!r}")
+        raise InputError(f"--units: {did_you_mean(units, SYSTEMS)}must be one of {', '.join(SYSTEMS)}, "
+                         f"got {units!r}")
 
 
 @app.command()

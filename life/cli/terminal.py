@@ -13,11 +13,12 @@ from rich.markup import escape
 from rich.table import Table
 
 from flexcycle.design import Design
-from flexcycle.display import SI, Display, display_for, format_number, from_where, per_day
+from flexcycle.display import SI, Display, display_for
 from flexcycle.estimate import CAUTION, LifeResult
 from flexcycle.mechanics.materials import Material
-from flexcycle.requirement import verdict_of, verdict_text
+from flexcycle.requirement import verdict_text
 from flexcycle.spectra.cycles import Cycles
+from flexcycle.views import headline_rows
 
 if TYPE_CHECKING:  # flexcycle.sizing loads scipy.optimize: only when a sizing answer is printed
     from flexcycle.sizing import SizingAnswer
@@ -36,52 +37,15 @@ def _render(*renderables, width: int = WIDTH) -> str:
     return "\n".join(line.rstrip() for line in console.file.getvalue().rstrip("\n").splitlines())
 
 
-def _life(value: float | None, unit: str) -> str:
-    if value is None:
-        return "unbounded (no damaging cycle)"
-    if value == 0:
-        return f"0 {unit} (fails at first loading)"
-    return f"{value:.3g} {unit}"
-
-
 def summary_table(result: LifeResult, display: Display = SI) -> Table:
     """The run's figures as a two-column table (quantity, value with its unit; inch-pound with SI beside when
-    ``display`` is inch-pound)."""
-    d, c, s = result.design, result.critical, result.summary()
-    ply = d.beam.plies[c.ply - 1]
-    where = from_where(d.beam.support)
-    t = Table(box=box.SIMPLE_HEAD, show_edge=False, pad_edge=False)
-    t.add_column("quantity", no_wrap=True)
-    t.add_column("value")
-    verdict = verdict_of(result)
-    if verdict is not None:
-        t.add_row("required life", f"{format_number(verdict.required_life_blocks)} blocks"
-                  + (f" ({d.required_life_text})" if d.required_life_text else "")
-                  + (", met" if verdict.meets_requirement else ", NOT met")
-                  + ("" if verdict.life_margin is None else f", margin {format_number(verdict.life_margin, 3)}"))
-    t.add_row("life, cycles", _life(result.life_cycles, "cycles"))
-    t.add_row("life, blocks", _life(result.life_blocks, "blocks of the duty"))
-    if d.duty.blocks_per_day:
-        t.add_row("life, days", _life(result.life_days, "days") + f" at {per_day(d.duty.blocks_per_day)}")
-    t.add_row("damage", f"{result.damage_per_block:.3g} per block (Miner limit {d.miner_limit:g})")
-    t.add_row("rule", f"mean stress {d.mean_stress}, stress factor {d.stress_factor:g}")
-    t.add_row("critical mode", c.mode)
-    t.add_row("critical ply", f"ply {c.ply} ({ply.material.name}, {ply.angle:g}°), {c.face} face")
-    t.add_row("critical place", f"x = {display.both(c.x_m, 'position')} {where}, "
-                                f"z = {display.both(c.z_m, 'position', signed=True)}")
-    t.add_row("stiffness", f"{display.both(s['stiffness_n_per_m'], 'stiffness')} at the load point")
-    t.add_row("mass", display.both(s["mass_kg"], "mass"))
-    t.add_row("peak strain", f"{s['peak_strain'] * 100:.3g} % along the fibres")
-    t.add_row("peak energy", f"{display.both(s['peak_energy_j'], 'energy')} at peak drive")
-    t.add_row("cycle energy", f"{display.both(s['cycle_energy_j'], 'energy')} in the largest cycle")
-    t.add_row("specific energy", f"{display.both(s['specific_energy_j_per_kg'], 'specific_energy')}, "
-                                 f"storage efficiency {s['energy_efficiency']:.3f}")
-    if s.get("first_mode_hz") is not None:
-        t.add_row("first frequency", f"{s['first_mode_hz']:.4g} Hz, first bending mode of the part alone")
-    reserve = "not checked" if s["static_reserve"] is None else f"{s['static_reserve']:.3g}"
-    t.add_row("static reserve", f"{reserve} ({result.static.criterion}) at x = "
-                                f"{display.both(result.static.x_m, 'position')} {where}, ply {result.static.ply}")
-    return t
+    ``display`` is inch-pound): the headline rows of `flexcycle.views.headline_rows`."""
+    table = Table(box=box.SIMPLE_HEAD, show_edge=False, pad_edge=False)
+    table.add_column("quantity", no_wrap=True)
+    table.add_column("value")
+    for quantity, value in headline_rows(result, display):
+        table.add_row(quantity, value)
+    return table
 
 
 def summary_text(result: LifeResult, example: bool = False, display: Display | None = None) -> str:
