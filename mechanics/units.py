@@ -8,14 +8,13 @@ percent sign (``"2.1 %"``).
 """
 from __future__ import annotations
 
-import difflib
 import math
 import re
 import tokenize
 
 import pint
 
-from .errors import InputError
+from .errors import InputError, did_you_mean
 
 
 def _registry() -> pint.UnitRegistry:
@@ -125,8 +124,9 @@ def _case_hint(value: object, kind: str) -> str:
     unit = match.group("unit").strip().replace(" ", "")
     common = COMMON_UNITS[kind]
     same = [c for c in common if c.lower() == unit.lower() and c != unit]
-    close = same or difflib.get_close_matches(unit, [c for c in common if c != unit], n=1, cutoff=0.6)
-    return f"did you mean {close[0]!r}? " if close else ""
+    if same:
+        return f"did you mean {same[0]!r}? "
+    return did_you_mean(unit, [c for c in common if c != unit])
 
 
 def parse_quantity(value: object, kind: str, where: str) -> float:
