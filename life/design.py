@@ -6,17 +6,16 @@ would be right. Nothing is guessed.
 """
 from __future__ import annotations
 
-import difflib
 import re
 import tomllib
-from collections.abc import Callable, Mapping, Sequence
+from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
 import numpy as np
 
-from flexcycle.errors import InputError
+from flexcycle.errors import InputError, MechanicsInputError, did_you_mean, input_errors
 from flexcycle.fatigue.meanstress import RULES
 from flexcycle.measured import (
     PSD_KEYS,
@@ -27,14 +26,12 @@ from flexcycle.measured import (
     gauge_of,
     psd_duty,
 )
-from flexcycle.mechanics import errors as mechanics_errors
 from flexcycle.mechanics.beam import DEFAULT_STATIONS, SUPPORTS, Beam, Ply, segments, validate
 from flexcycle.mechanics.energy import DRIVES
 from flexcycle.mechanics.gauge import Gauge, GaugeMap
 from flexcycle.mechanics.laminate import SECTIONS
 from flexcycle.mechanics.materials import Material, resolve_materials
 from flexcycle.mechanics.units import dimension_name, parse_quantity, unit_factor
-from flexcycle.spectra import errors as spectra_errors
 from flexcycle.spectra.cycles import Cycles
 from flexcycle.spectra.profiles import block_table, bundled_profile, refuse_headerless
 from flexcycle.spectra.rainflow import RESIDUE_MODES
@@ -69,14 +66,14 @@ class Duty:
         (the block as one of an endless repetition: the history closed on its largest reversal, full cycles)
     profile_path : Path | None — the time-history file read (for "bundled:NAME", the shipped file); None
         for a block table
-    trace : Envelope | None — a time history's min/max per bin of samples, for plots (also when ``signal`` is
-        None) [N or m]
+    envelope : Envelope | None — a time history's min/max per bin of samples, the counted history's
+        ``envelope``, for plots (also when ``signal`` is None) [N or m]
     profile_sha256 : str | None — SHA-256 of the time-history file's bytes as read (hex); None for a block table
     spectral : SpectralDuty | None — for a PSD duty: the spectrum and its range distribution, in the drive as
         measured (strain for a gauge) [SI]
     sample_rate : float | None — the time history's sampling rate, when given [Hz]
     measured : str — the drive as measured: ``drive``, or ``"strain"`` for a gauge (then ``drive`` is
-        ``"force"``: the cycles, signal and trace are the load-point force the gauge strain implies)
+        ``"force"``: the cycles, signal and envelope are the load-point force the gauge strain implies)
     gauge : Gauge | None — where the strain was measured
     gauge_map : GaugeMap | None — the force → gauge strain map used to turn the strain into force
     peaks : tuple[float, float] | None — a PSD duty's expected lowest and highest drive in one block
@@ -90,7 +87,7 @@ class Duty:
     blocks_per_day: float | None
     residue: str = "half"
     profile_path: Path | None = None
-    trace: Envelope | None = None
+    envelope: Envelope | None = None
     profile_sha256: str | None = None
     spectral: SpectralDuty | None = None
     sample_rate: float | None = None
@@ -146,9 +143,8 @@ class Design:
 def _unknown(table: Mapping, allowed: set, where: str) -> None:
     for key in table:
         if key not in allowed:
-            close = difflib.get_close_matches(str(key), sorted(allowed), n=1)
-            hint = f"; did you mean {close[0]!r}?" if close else f"; allowed: {', '.join(sorted(allowed))}"
-            raise InputError(f"{where}: unknown key {key!r}{hint}")
+            hint = did_you_mean(str(key), allowed) or f"allowed: {', '.join(sorted(allowed))}"
+            raise InputError(f"{where}: unknown key {key!r}; {hint.rstrip()}")
 
 
 def _table(doc: Mapping, key: str, where: str, required: bool = True) -> Mapping:
@@ -187,15 +183,9 @@ def _number(value: Any, where: str, positive: bool = True) -> float:
     return value
 
 
-def _suggest(value: Any, names: Sequence[str]) -> str:
-    """``"did you mean 'x'? "`` for the nearest of ``names`` (difflib), or ``""`` when none is near."""
-    close = difflib.get_close_matches(str(value), list(names), n=1, cutoff=0.6) if isinstance(value, str) else []
-    return f"did you mean {close[0]!r}? " if close else ""
-
-
 def _choice(value: Any, choices: tuple, where: str) -> str:
     if not isinstance(value, str) or value not in choices:
-        raise InputError(f"{where}: unknown name {value!r}; {_suggest(value, choices)}"
+        raise InputError(f"{where}: unknown name {value!r}; {did_you_mean(value, choices)}"
                          f"must be one of {', '.join(map(repr, choices))}")
     return value
 
@@ -223,10 +213,8 @@ def _beam(doc: Mapping, plies: tuple[Ply, ...], name: str, notes: list[str]) -> 
     if isinstance(stations, bool) or not isinstance(stations, int) or not 2 <= stations <= 2000:
         raise InputError(f"{name} [beam] stations: must be a whole number from 2 to 2000, got {stations!r}")
     beam = Beam(support, span, root, tip, plies, spacing, section, stations)
-    try:
+    with input_errors(f"{name} "):  # mechanics names the key, not the file
         validate(beam)
-    except mechanics_errors.InputError as exc:
-        raise InputError(f"{name} {exc}") from None
     # the [[ply]] row each ply of the expanded stack comes from (rows already checked by _plies)
     row_of = [row_no for row_no, row in enumerate(doc["ply"], start=1) for _ in range(row.get("count", 1))]
     for k, p in enumerate(plies, start=1):
@@ -235,10 +223,8 @@ def _beam(doc: Mapping, plies: tuple[Ply, ...], name: str, notes: list[str]) -> 
                 f"{name} [[ply]] #{row_of[k - 1]} ends_at: {p.ends_at * 1e3:g} mm (ply {k} of the stack) lies "
                 f"beyond the beam's {beam.length * 1e3:g} mm from the root; leave ends_at out for a full-length ply"
             )
-    try:
+    with input_errors(f"{name} "):
         segments(beam)  # every stretch of the beam keeps at least one ply and has bending stiffness
-    except mechanics_errors.InputError as exc:
-        raise InputError(f"{name} {exc}") from None
     return beam
 
 
@@ -258,8 +244,7 @@ def _plies(doc: Mapping, materials: Mapping[str, Material], name: str, notes: li
         if not isinstance(mat_name, str):
             raise InputError(f"{where} material: a material name as a string, e.g. \"e-glass-epoxy\", got {mat_name!r}")
         if mat_name not in materials:
-            close = difflib.get_close_matches(str(mat_name), sorted(materials), n=1)
-            hint = f"did you mean {close[0]!r}?" if close else "see `flexcycle materials`"
+            hint = did_you_mean(mat_name, materials).rstrip() or "see `flexcycle materials`"
             raise InputError(f"{where} material: unknown material {mat_name!r}; {hint}")
         mat = materials[mat_name]
         angle = row.get("angle", 0)
@@ -297,7 +282,7 @@ def _unit_of_drive(unit: str, drive: str, where: str) -> None:
     wanted = KIND_OF_DRIVE[drive]
     try:
         parse_quantity(f"1 {unit}", wanted, where)
-    except mechanics_errors.InputError:
+    except MechanicsInputError:
         got = dimension_name(unit)
         raise InputError(f"{where}: {unit!r} measures {got}, but drive = {drive!r} needs a unit of {wanted}, "
                          f"e.g. {DRIVE_UNIT[drive]}") from None
@@ -327,10 +312,8 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
     if "sample_rate" in t:
         if not has_profile:
             raise InputError(f"{where} sample_rate: only for a time history (profile); leave it out here")
-        try:
+        with input_errors():
             sample_rate = parse_quantity(t["sample_rate"], "frequency", f"{where} sample_rate")
-        except mechanics_errors.InputError as exc:
-            raise InputError(str(exc)) from None
         if not sample_rate > 0:
             raise InputError(f"{where} sample_rate: must be > 0 Hz, got {t['sample_rate']!r}")
     spectral = peaks = None
@@ -340,7 +323,7 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
     if residue != "half" and not has_profile:
         raise InputError(f"{where} residue: only a time history has a residue to count; leave it out for a block table "
                          "or a PSD")
-    try:
+    with input_errors():  # units (mechanics), the profile, the spectrum and the counting (spectra)
         if has_psd:
             spectral = psd_duty(t, where, base_dir, drive)
             cycles = spectral.spectral.cycles
@@ -348,7 +331,7 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
             source = (f"vibration spectrum {t['psd']} [{spectral.unit}], {spectral.spectral.method} ranges about the "
                       f"mean, rms {moments.rms:.4g} (SI), irregularity {moments.irregularity:.3f}, "
                       f"{spectral.spectral.duration:g} s per block")
-            signal = trace = digest = path = None
+            signal = envelope = digest = path = None
             peaks = spectral.spectral.extremes
             notes.append(f"{where}: a stationary Gaussian process; the static check, the peak strain and the "
                          f"peak energy are taken at the expected largest excursion of one block (Davenport 1964), "
@@ -368,10 +351,8 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
             scale = unit_factor(unit, f"{where} unit")
             _unit_of_drive(unit, drive, f"{where} unit")
             if profile.startswith(BUNDLED_PREFIX):
-                try:
+                with input_errors(f"{where} profile: "):
                     path = bundled_profile(profile[len(BUNDLED_PREFIX):])
-                except spectra_errors.InputError as exc:
-                    raise InputError(f"{where} profile: {exc}") from None
             else:
                 path = (base_dir / profile).resolve()
             if not isinstance(column, str) or not column.strip():
@@ -383,7 +364,7 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
             cycles = history.cycles
             source = (f"time history {profile} column {column!r} [{unit}], {history.samples} samples, "
                       + ("residue as half cycles" if residue == "half" else "counted as a repeating block"))
-            signal, trace, digest = history.signal, history.envelope, history.sha256
+            signal, envelope, digest = history.signal, history.envelope, history.sha256
         else:
             rows = t["cycles"]
             if not isinstance(rows, list) or not rows:
@@ -404,23 +385,21 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
                 notes.append(f"{where} cycles rows {', '.join(map(str, steady))}: min = max, a steady load with no "
                              "cycle; left out of the fatigue count")
             source = f"block table, {len(rows)} row{'s' if len(rows) != 1 else ''}"
-            signal = trace = digest = None
+            signal = envelope = digest = None
             path = None
-    except (mechanics_errors.InputError, spectra_errors.InputError) as exc:
-        raise InputError(str(exc)) from None
     measured = drive
     if mapping is not None:  # gauge strain → load-point force through the inverse map (flexcycle.measured)
         cycles = force_cycles(cycles, mapping)
         if peaks is not None:
             peaks = tuple(sorted(float(v) for v in mapping.drive(np.array(peaks))))
         signal = None if signal is None else mapping.drive(signal)
-        trace = force_envelope(trace, mapping)
+        envelope = force_envelope(envelope, mapping)
         where_gauge = f"x = {gauge.x * 1e3:g} mm, {gauge.face} face" + (f", ply {gauge.ply}" if gauge.ply else "")
         source += f"; strain at a gauge ({where_gauge}) as load-point force"
         drive = "force"
     if cycles.lo.size == 0 or (np.abs(cycles.lo).max() == 0 and np.abs(cycles.hi).max() == 0):
         raise InputError(f"{where}: the duty never loads the part (no cycles, or every drive is zero)")
-    return Duty(drive, cycles, source, signal, per_day, residue, path, trace, digest, spectral, sample_rate,
+    return Duty(drive, cycles, source, signal, per_day, residue, path, envelope, digest, spectral, sample_rate,
                 measured, gauge, mapping, peaks)
 
 
@@ -442,15 +421,10 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     if not isinstance(title, str):
         raise InputError(f"{name} title: must be a string, got {title!r}")
     user = _table(doc, "material", name, required=False)
-    try:
+    with input_errors():  # a library or user material, a missing unit or a wrong dimension (mechanics)
         materials = resolve_materials(user, name)
-    except mechanics_errors.InputError as exc:
-        raise InputError(str(exc)) from None
-    try:
         plies = _plies(doc, materials, name, notes)
         beam = _beam(doc, plies, name, notes)
-    except mechanics_errors.InputError as exc:  # a missing unit or wrong dimension (flexcycle.mechanics.units)
-        raise InputError(str(exc)) from None
     duty = _duty(doc, duty_name or name, base_dir, notes, progress, beam)
     fat = _table(doc, "fatigue", name, required=False)
     _unknown(fat, FATIGUE_KEYS, f"{name} [fatigue]")

@@ -20,7 +20,6 @@ from dataclasses import dataclass
 from pathlib import Path
 
 import numpy as np
-from scipy import integrate, special
 
 from .cycles import Cycles
 from .errors import InputError
@@ -146,6 +145,8 @@ def spectral_moments(spec: Spectrum) -> SpectralMoments:
     as straight lines between its rows, as a table of a spectrum is usually read.
     """
     f, g = spec.frequency, spec.density
+    from scipy import integrate  # here: a design that is only checked needs no scipy (lean start)
+
     m = [float(integrate.trapezoid(f**n * g, f)) for n in (0, 1, 2, 4)]
     if not m[0] > 0 or not m[2] > 0:
         raise InputError(f"{spec.source or 'PSD'}: the spectrum has no energy above 0 Hz (m0 or m2 is zero); a "
@@ -242,6 +243,8 @@ def _exceedance(Z: np.ndarray, moments: SpectralMoments, method: str) -> np.ndar
 def _tail_moment(z: float, k: float, moments: SpectralMoments, method: str) -> float:
     """E[Z^k; Z > z] / E[Z^k] for the range distribution, from the regularised upper incomplete gamma
     function (each term: ∫ Z^k e^(−Z/Q) dZ and ∫ Z^(k+1) e^(−Z²/2R²) dZ are incomplete gamma functions)."""
+    from scipy import special  # here: lean start, as above
+
     def rayleigh(scale: float) -> tuple[float, float]:  # (whole, tail) of E[Z^k] for Z/scale Rayleigh
         whole = (math.sqrt(2.0) * scale) ** k * math.gamma(1.0 + k / 2.0)
         return whole, whole * float(special.gammaincc(1.0 + k / 2.0, 0.5 * (z / scale) ** 2))
@@ -351,6 +354,8 @@ def spectral_cycles(spec: Spectrum, mean: float, duration: float, method: str = 
 
 def energy_above(spec: Spectrum, frequency: float) -> float:
     """Share of the variance m0 that lies above ``frequency`` [Hz] (trapezoidal, the PSD linear between rows) [-]."""
+    from scipy import integrate  # here: lean start, as above
+
     f, g = spec.frequency, spec.density
     total = float(integrate.trapezoid(g, f))
     if frequency <= f[0]:

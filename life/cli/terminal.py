@@ -12,15 +12,16 @@ from rich.console import Console
 from rich.markup import escape
 from rich.table import Table
 
+from flexcycle.caution import CAUTION
 from flexcycle.design import Design
 from flexcycle.display import SI, Display, display_for
-from flexcycle.estimate import CAUTION, LifeResult
 from flexcycle.mechanics.materials import Material
 from flexcycle.requirement import verdict_text
 from flexcycle.spectra.cycles import Cycles
 from flexcycle.views import headline_rows
 
-if TYPE_CHECKING:  # flexcycle.sizing loads scipy.optimize: only when a sizing answer is printed
+if TYPE_CHECKING:  # flexcycle.sizing loads scipy.optimize, the estimate scipy's modal and spectral modules
+    from flexcycle.estimate import LifeResult
     from flexcycle.sizing import SizingAnswer
 
 
