@@ -66,10 +66,12 @@ class ResultViews:
         return FIGURE_MAKERS[name](self, self.cycle_table, self.location_table)
 
     def figures(self) -> dict[str, Figure]:
-        """Every figure of the report, by name, in the report's order (new matplotlib Figures)."""
-        from flexcycle.report.figures import FIGURES
+        """Every figure the report draws for this result, by name, in the report's order (new matplotlib
+        Figures); a figure made for some duties only (``FIGURE_APPLIES``, e.g. the spectrum) when it applies."""
+        from flexcycle.report.figures import FIGURE_APPLIES, FIGURES
 
-        return {name: self.figure(name) for name in FIGURES}
+        return {name: self.figure(name) for name in FIGURES
+                if name not in FIGURE_APPLIES or FIGURE_APPLIES[name](self)}
 
     def _repr_html_(self) -> str:
         """The headline table for a notebook: title, the headline figures, the warnings' count, the caution."""
