@@ -254,7 +254,10 @@ def main() -> None:
         sys.exit(exc.exit_code)
     except typer.Abort:
         sys.exit(1)
-    except typer.TyperException as exc:  # a wrong option or argument (or no command: the help was shown)
+    except typer.TyperException as exc:  # a wrong option or argument; or no command at all
+        if type(exc).__name__ == "NoArgsIsHelpError":  # the help, on stdout as --help shows it (typer's own click)
+            typer.echo(exc.format_message())
+            sys.exit(exc.exit_code)
         if exc.format_message():
             typer.echo(f"flexcycle: {exc.format_message()}", err=True)
         sys.exit(exc.exit_code)
