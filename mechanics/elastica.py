@@ -36,19 +36,22 @@ below what the end can reach (the span, approached only as P → ∞).
 from __future__ import annotations
 
 from collections.abc import Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 from scipy.integrate import solve_ivp
 from scipy.interpolate import PchipInterpolator
 from scipy.optimize.elementwise import find_root
 
-from .beam import Beam, Segment
+from .beam import Beam, BeamResponse, Segment, segments
 from .errors import InputError
+from .laminate import ply_field
 
+THEORIES = ("linear", "large-deflection")
 LARGE_SUPPORTS = ("cantilever", "guided")
-RTOL = 1e-10  # solve_ivp's relative tolerance: the shapes to ~1e-9, far inside the 0.1 % the tables keep
+RTOL = 1e-9  # solve_ivp's relative tolerance: the shapes to ~1e-8, far inside the 0.1 % the tables keep
 ATOL = 1e-12  # absolute tolerance on the dimensionless states (angles [rad], positions per span)
+SHOOTING_TOLERANCES = {"xatol": 1e-12, "xrtol": 1e-11}  # the unknown (an angle [rad] or a ratio [-]) to ~1e-11
 TABLE_TOLERANCE = 1e-3  # interpolated section loads within 0.1 % of their largest value at that station
 DRIVE_MATCH = 1e-8  # a deflection extreme's level is solved to this share of the span (3 nm on 300 mm)
 MAX_LEVELS = 400  # drive levels a table may take before the refinement gives up (a snap or a kink)
@@ -93,18 +96,22 @@ class Elastica:
         return self.bending_ref / self.length**2
 
 
+def refuse_unsolved(support: str) -> None:
+    """Three- and four-point bending are not solved under large deflection: say so (an InputError)."""
+    if support not in LARGE_SUPPORTS:
+        raise InputError(
+            f'[beam] theory = "large-deflection" solves support = {" or ".join(map(repr, LARGE_SUPPORTS))}; '
+            f"{support!r} (rolling supports and load noses whose contact points move as the beam bends) is not "
+            'solved under large deflection: use theory = "linear" (ASTM D790 and D6272 keep the deflection small)'
+        )
+
+
 def prepare(beam: Beam, segs: Sequence[Segment]) -> Elastica:
     """The beam's pieces for the elastica; refuses supports it does not solve.
 
     segs : the beam's segments (``flexcycle.mechanics.beam.segments``)
     """
-    if beam.support not in LARGE_SUPPORTS:
-        raise InputError(
-            f'[beam] theory = "large-deflection" solves support = {" or ".join(map(repr, LARGE_SUPPORTS))}; '
-            f"{beam.support!r} (rolling supports and load noses whose contact points move) is not solved under "
-            'large deflection: use theory = "linear" (ASTM D790/D6272 keep the deflection small) or a cantilever '
-            "model of the half span"
-        )
+    refuse_unsolved(beam.support)
     L = beam.length
     pieces = tuple(Piece(s.x0 / L, s.x1 / L, s.bending.flexural_compliance, s.shear_stiffness) for s in segs)
     return Elastica(beam, pieces, beam.width_root / pieces[0].flexural_compliance)
@@ -224,8 +231,19 @@ def _guided_residual(model: Elastica, load: np.ndarray, ratio: np.ndarray) -> np
     return end[0]
 
 
-def _shoot(model: Elastica, load: np.ndarray) -> np.ndarray:
+def _full_bracket(model: Elastica, load: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Bounds of the shooting unknown that hold for any load (see ``_shoot``)."""
+    if model.beam.support == "cantilever":
+        edge = np.sign(load) * np.pi / 2
+        return np.minimum(0.0, edge), np.maximum(0.0, edge)
+    return np.zeros_like(load), np.full_like(load, 1.05)
+
+
+def _shoot(model: Elastica, load: np.ndarray, bracket: tuple[np.ndarray, np.ndarray] | None = None) -> np.ndarray:
     """The shooting unknown at every level: θ_L (cantilever) or M̃₀/P̃ (guided), load ≠ 0.
+
+    bracket : optional narrower bounds of the unknown per level (from neighbouring solved levels); a level whose
+        bounds do not hold the root is solved again within the full bounds
 
     Notes
     -----
@@ -233,32 +251,65 @@ def _shoot(model: Elastica, load: np.ndarray) -> np.ndarray:
     (``scipy.optimize.elementwise.find_root``; each call integrates all levels at once).
     Cantilever: with θ_L = 0 the clamp rotation comes out negative; with θ_L = π/2·sign P the end section
     lies along the load, carries no moment and no normal shear, and the beam stays straight at that angle:
-    the clamp rotation is π/2 — the root lies between (θ_L turns past 90° under no dead end load).
+    the clamp rotation is π/2 — the root lies between.
     Guided: with M̃₀ = 0 the moment −P̃·ξ bends the end back (θ(L) ≤ 0); with M̃₀ = 1.05·P̃ the moment P̃·(1.05 −
     ξ) stays positive (ξ ≤ 1, the inextensible axis), θ(L) > 0.
     """
     if model.beam.support == "cantilever":
-        sign = np.sign(load)
-        bracket = (np.zeros_like(load), sign * np.pi / 2)
-        lo, hi = np.minimum(*bracket), np.maximum(*bracket)
-        result = find_root(lambda t, p: _tip_residual(model, p, t), (lo, hi), args=(load,),
-                           tolerances={"xatol": 1e-14, "xrtol": 1e-13})
+        def residual(t, p):
+            return _tip_residual(model, p, t)
     else:
-        result = find_root(lambda r, p: _guided_residual(model, p, r), (np.zeros_like(load), np.full_like(load, 1.05)),
-                           args=(load,), tolerances={"xatol": 1e-14, "xrtol": 1e-13})
-    if not np.all(result.success):
-        worst = float(np.max(np.abs(load[~result.success])))
+        def residual(r, p):
+            return _guided_residual(model, p, r)
+
+    full = _full_bracket(model, load)
+    lo, hi = full if bracket is None else bracket
+    result = find_root(residual, (lo, hi), args=(load,), tolerances=SHOOTING_TOLERANCES)
+    unknown, success = result.x, result.success
+    again = ~success
+    if bracket is not None and again.any():
+        retry = find_root(residual, (full[0][again], full[1][again]), args=(load[again],),
+                          tolerances=SHOOTING_TOLERANCES)
+        unknown[again], success[again] = retry.x, retry.success
+    if not np.all(success):
+        worst = float(np.max(np.abs(load[~success])))
         raise InputError(f"the elastica's end condition could not be met at an end load of {worst:.3g} EI/L² (the "
                          "shooting did not converge): the load lies beyond what this model solves")
-    return result.x
+    return unknown
 
 
-def solve(model: Elastica, forces: np.ndarray, stations: np.ndarray, piece_of: np.ndarray) -> Shapes:
+def _unknown_of(model: Elastica, shapes: Shapes) -> np.ndarray:
+    """The shooting unknown of solved levels: θ_L (cantilever) or M₀/(P·L) (guided; the small-load limit at P = 0)."""
+    if model.beam.support == "cantilever":
+        return shapes.tip_rotation
+    root = int(np.argmin(shapes.s))
+    with np.errstate(invalid="ignore", divide="ignore"):
+        ratio = shapes.moment[:, root] / (shapes.force * model.length)
+    return ratio
+
+
+def _bracket_between(model: Elastica, shapes: Shapes, forces: np.ndarray):
+    """Bounds of the unknown at loads inside the solved range, from the two solved levels around each, padded."""
+    unknown = _unknown_of(model, shapes)
+    j = np.clip(np.searchsorted(shapes.force, forces) - 1, 0, shapes.force.size - 2)
+    a, b = unknown[j], unknown[j + 1]
+    full_lo, full_hi = _full_bracket(model, forces / model.load_scale())
+    bad = ~(np.isfinite(a) & np.isfinite(b))
+    low, high = np.minimum(a, b), np.maximum(a, b)
+    pad = 1e-3 * (high - low) + 1e-12
+    low, high = np.maximum(low - pad, full_lo), np.minimum(high + pad, full_hi)
+    return np.where(bad, full_lo, low), np.where(bad, full_hi, high)
+
+
+def solve(model: Elastica, forces: np.ndarray, stations: np.ndarray, piece_of: np.ndarray,
+          near: Shapes | None = None) -> Shapes:
     """The elastica at each end load, sampled at the stations.
 
     forces : np.ndarray — end loads P [N], any sign, shape (J,)
     stations : np.ndarray — arc length of each station from the clamp [m], shape (n,) (a discontinuity twice)
     piece_of : np.ndarray — the segment (piece) index of each station, shape (n,)
+    near : Shapes | None — solved levels, ascending in force, whose range holds every force here: the shooting
+        starts between the two levels around each force (the unknown is monotonic in the load)
     """
     forces = np.asarray(forces, float)
     L = model.length
@@ -266,7 +317,10 @@ def solve(model: Elastica, forces: np.ndarray, stations: np.ndarray, piece_of: n
     unknown = np.zeros_like(load)
     loaded = load != 0.0
     if loaded.any():
-        unknown[loaded] = _shoot(model, load[loaded])
+        bracket = None
+        if near is not None and near.force.size > 1:
+            bracket = _bracket_between(model, near, forces[loaded])
+        unknown[loaded] = _shoot(model, load[loaded], bracket)
     from_tip = model.beam.support == "cantilever"
     start = np.zeros((5, load.size))
     if from_tip:
@@ -346,9 +400,10 @@ class DriveTable:
         return PchipInterpolator(self.drive, self.shapes.energy)(np.atleast_1d(np.asarray(drive, float)))
 
 
-def _levels(model: Elastica, forces: np.ndarray, stations: np.ndarray, piece_of: np.ndarray) -> Shapes:
-    """``solve`` at the given end loads, sorted ascending."""
-    return solve(model, np.sort(forces), stations, piece_of)
+def _levels(model: Elastica, forces: np.ndarray, stations: np.ndarray, piece_of: np.ndarray,
+            near: Shapes | None = None) -> Shapes:
+    """``solve`` at the given end loads, sorted ascending (``near``: solved levels around them)."""
+    return solve(model, np.sort(forces), stations, piece_of, near)
 
 
 def _merge(a: Shapes, b: Shapes) -> Shapes:
@@ -416,7 +471,7 @@ def tabulate(model: Elastica, kind: str, lowest: float, highest: float, stations
         trial = shapes
         for _ in range(8):  # secant-like: each solved guess joins the table the next guess interpolates
             guess = PchipInterpolator(trial.deflection, trial.force)(wanted)
-            fresh = _levels(model, guess, stations, piece_of)
+            fresh = _levels(model, guess, stations, piece_of, trial)
             trial = _merge(trial, fresh)
             if np.all(np.abs(fresh.deflection - wanted) <= DRIVE_MATCH * L):
                 break
@@ -433,7 +488,7 @@ def tabulate(model: Elastica, kind: str, lowest: float, highest: float, stations
                              "loads within 0.1 %: a snap or a kink in the response; check the drive and the design")
         lo_index = np.flatnonzero(check)
         middle = 0.5 * (shapes.force[lo_index] + shapes.force[lo_index + 1])
-        fresh = _levels(model, middle, stations, piece_of)
+        fresh = _levels(model, middle, stations, piece_of, shapes)
         drive = _drive_of(shapes, kind)
         d_mid = _drive_of(fresh, kind)
         t = ((d_mid - drive[lo_index]) / (drive[lo_index + 1] - drive[lo_index]))[:, None]
@@ -505,3 +560,41 @@ def _mirror(shapes: Shapes) -> Shapes:
             part = value[positive][::-1]
             flipped[name] = np.concatenate([-part if name in odd else part, value])
     return Shapes(**flipped)
+
+
+
+def per_section_load(resp: BeamResponse) -> BeamResponse:
+    """The response map per unit section load instead of per unit drive force.
+
+    In-plane ply strains and stresses, εx and the curvature per unit bending moment M = 1 N·m at each station;
+    τxz per unit shear force V = 1 N normal to the section. ``moment`` and ``shear`` become 1. Under large
+    deflection each station's section loads come from the elastica and scale these (the section law is linear).
+
+    Notes
+    -----
+    As in ``flexcycle.mechanics.beam.respond``: moment per width Mx = −M/b (the first ply in tension under a
+    positive moment), shear per width V/b; ply fields from classical laminate theory (Kaw, 2nd ed., Eq. 4.16).
+    """
+    beam = resp.beam
+    strain_12 = np.zeros_like(resp.strain_12)
+    stress_12 = np.zeros_like(resp.stress_12)
+    strain_x = np.zeros_like(resp.strain_x)
+    tau_xz = np.zeros_like(resp.tau_xz)
+    tau_peak = np.zeros_like(resp.tau_xz_peak)
+    curvature = np.zeros_like(resp.curvature)
+    Mx = -1.0 / resp.width  # per unit moment [N·m/m per N·m]
+    Vx = 1.0 / resp.width  # per unit shear force [N/m per N]
+    for k, seg in enumerate(segments(beam)):
+        rows = np.flatnonzero(resp.segment == k)
+        field = ply_field(seg.lam, seg.bending.eps0, seg.bending.kappa)
+        r, c = np.ix_(rows, np.array(seg.active))
+        strain_12[r, c] = Mx[rows, None, None, None] * field.strain_12[None]
+        stress_12[r, c] = Mx[rows, None, None, None] * field.stress_12[None]
+        strain_x[r, c] = Mx[rows, None, None] * field.strain_xy[None, :, :, 0]
+        faces = np.stack([seg.shear.tau_interfaces[:-1], seg.shear.tau_interfaces[1:]], axis=1)
+        tau_xz[r, c] = Vx[rows, None, None] * faces[None]
+        tau_peak[r, c] = Vx[rows, None] * seg.shear.tau_peak[None]
+        curvature[rows] = Mx[rows] * seg.bending.kappa[0]
+    ones = np.ones_like(resp.moment)
+    return replace(resp, moment=ones, shear=ones, strain_12=strain_12, stress_12=stress_12, strain_x=strain_x,
+                   tau_xz=tau_xz, tau_xz_peak=tau_peak, curvature=curvature)
