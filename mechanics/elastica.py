@@ -52,6 +52,8 @@ LARGE_SUPPORTS = ("cantilever", "guided")
 RTOL = 1e-9  # solve_ivp's relative tolerance: the shapes to ~1e-8, far inside the 0.1 % the tables keep
 ATOL = 1e-12  # absolute tolerance on the dimensionless states (angles [rad], positions per span)
 SHOOTING_TOLERANCES = {"xatol": 1e-12, "xrtol": 1e-11}  # the unknown (an angle [rad] or a ratio [-]) to ~1e-11
+UNIQUE_LOAD = 10.0  # load index P·L²/EI below which the shooting bounds hold one root (see ``_unknowns``)
+MAX_LOAD = 1000.0  # load index P·L²/EI beyond which the elastica is not solved (no real part gets there)
 TABLE_TOLERANCE = 1e-3  # interpolated section loads within 0.1 % of their largest value at that station
 DRIVE_MATCH = 1e-8  # a deflection extreme's level is solved to this share of the span (3 nm on 300 mm)
 MAX_LEVELS = 400  # drive levels a table may take before the refinement gives up (a snap or a kink)
@@ -301,6 +303,60 @@ def _bracket_between(model: Elastica, shapes: Shapes, forces: np.ndarray):
     return np.where(bad, full_lo, low), np.where(bad, full_hi, high)
 
 
+def _flexibility(model: Elastica) -> float:
+    """The largest EI_ref/EI along the beam [-]: P̃ times this is the load index of the most flexible section."""
+    beam = model.beam
+    least_width = min(beam.width_root, beam.width_tip) / beam.width_root
+    c_root = model.pieces[0].flexural_compliance
+    return max(p.flexural_compliance / c_root for p in model.pieces) / least_width
+
+
+def _unknowns(model: Elastica, load: np.ndarray, near: Shapes | None) -> np.ndarray:
+    """The shooting unknown at every load (0 at no load), by continuation where the load is heavy.
+
+    Notes
+    -----
+    The residual has one root in the full bounds while the load index P·L²/EI stays below UNIQUE_LOAD anywhere
+    (checked on a uniform cantilever: at 80 the shooting also finds looped, unstable shapes). Heavier levels
+    are solved in batches, each up to twice the last solved load, bounded by the last solved unknown (θ_L rises
+    and M₀/(P·L) falls with the load). The problem is odd in the load: |P| is solved, θ_L takes its sign.
+    """
+    unknown = np.zeros_like(load)
+    size = np.abs(load)
+    if size.max() * _flexibility(model) > MAX_LOAD:
+        raise InputError(
+            f"an end load of {size.max() * _flexibility(model):.3g} EI/L² (EI of the most flexible section) is beyond "
+            f"what the elastica here solves ({MAX_LOAD:g}); no structural part strains so little under such a load — "
+            "check the drive values and their unit"
+        )
+    odd = -1.0 if model.beam.support == "cantilever" else 1.0
+    if near is not None and near.force.size > 1 and np.all(np.abs(load) * model.load_scale() <= near.force.max()):
+        loaded = size > 0
+        unknown[loaded] = _shoot(model, size[loaded], _bracket_between(model, near, size[loaded] * model.load_scale()))
+        return np.where(load < 0, odd * unknown, unknown)
+    order = np.argsort(size)
+    order = order[size[order] > 0]
+    safe = UNIQUE_LOAD / _flexibility(model)
+    done = order[size[order] <= safe]
+    if done.size:
+        unknown[done] = _shoot(model, size[done])
+    while done.size < order.size:
+        last = done[-1] if done.size else None
+        reach = 2.0 * (size[last] if last is not None else safe)
+        batch = order[done.size:][size[order[done.size:]] <= reach]
+        if not batch.size:
+            batch = order[done.size:done.size + 1]
+        low, high = _full_bracket(model, size[batch])
+        if last is not None:  # beyond the last solved level: between its unknown and the bound it moves toward
+            if model.beam.support == "cantilever":
+                low = np.full_like(low, unknown[last])
+            else:
+                high = np.full_like(high, unknown[last])
+        unknown[batch] = _shoot(model, size[batch], (low, high))
+        done = order[:done.size + batch.size]
+    return np.where(load < 0, odd * unknown, unknown)
+
+
 def solve(model: Elastica, forces: np.ndarray, stations: np.ndarray, piece_of: np.ndarray,
           near: Shapes | None = None) -> Shapes:
     """The elastica at each end load, sampled at the stations.
@@ -314,13 +370,7 @@ def solve(model: Elastica, forces: np.ndarray, stations: np.ndarray, piece_of: n
     forces = np.asarray(forces, float)
     L = model.length
     load = forces / model.load_scale()
-    unknown = np.zeros_like(load)
-    loaded = load != 0.0
-    if loaded.any():
-        bracket = None
-        if near is not None and near.force.size > 1:
-            bracket = _bracket_between(model, near, forces[loaded])
-        unknown[loaded] = _shoot(model, load[loaded], bracket)
+    unknown = _unknowns(model, load, near)
     from_tip = model.beam.support == "cantilever"
     start = np.zeros((5, load.size))
     if from_tip:
