@@ -92,14 +92,19 @@ class ResponseMap:
             return float(self.table.interpolate(self.table.shapes.bending_energy, np.array([drive]))[0])
         return float(stored_energy(self.beam.bending_compliance, drive * self.force_per_drive))
 
-    def cycle_energy(self, lo: float, hi: float) -> float:
-        """Energy taken in and given back over the drive cycle lo → hi [J]: from the lowest-energy point the cycle
-        passes to its highest (U is smallest, zero, at zero drive and grows with |drive| either way)."""
+    def cycle_energies(self, lo: np.ndarray, hi: np.ndarray) -> np.ndarray:
+        """Energy taken in and given back over each drive cycle lo → hi [J]: from the lowest-energy point the
+        cycle passes to its highest (U is smallest, zero, at zero drive and grows with |drive| either way)."""
+        lo, hi = np.asarray(lo, float), np.asarray(hi, float)
         if not self.large:
-            return float(cycle_energy(self.beam.compliance, lo * self.force_per_drive, hi * self.force_per_drive))
-        u_lo, u_hi = self.energy(np.array([lo, hi]))
-        low = 0.0 if lo <= 0.0 <= hi else min(u_lo, u_hi)
-        return float(max(u_lo, u_hi) - low)
+            return cycle_energy(self.beam.compliance, lo * self.force_per_drive, hi * self.force_per_drive)
+        u_lo, u_hi = self.energy(lo), self.energy(hi)
+        low = np.where((lo <= 0.0) & (hi >= 0.0), 0.0, np.minimum(u_lo, u_hi))
+        return np.maximum(u_lo, u_hi) - low
+
+    def cycle_energy(self, lo: float, hi: float) -> float:
+        """``cycle_energies`` of one cycle [J]."""
+        return float(self.cycle_energies(np.array([lo]), np.array([hi]))[0])
 
     def section_loads(self, drive: float) -> tuple[np.ndarray, np.ndarray]:
         """Bending moment [N·m] and shear force normal to the section [N] at every station, at one drive."""

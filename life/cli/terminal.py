@@ -69,7 +69,15 @@ def summary_table(result: LifeResult, display: Display = SI) -> Table:
     t.add_row("critical ply", f"ply {c.ply} ({ply.material.name}, {ply.angle:g}°), {c.face} face")
     t.add_row("critical place", f"x = {display.both(c.x_m, 'position')} {where}, "
                                 f"z = {display.both(c.z_m, 'position', signed=True)}")
-    t.add_row("stiffness", f"{display.both(s['stiffness_n_per_m'], 'stiffness')} at the load point")
+    t.add_row("theory", "large deflection (the elastica)" if s["theory"] == "large-deflection"
+              else "linear, small deflection")
+    t.add_row("stiffness", f"{display.both(s['stiffness_n_per_m'], 'stiffness')} at the load point"
+              + ("" if s["theory"] == "linear" else
+                 f" (small loads); secant {display.both(s['secant_stiffness_n_per_m'], 'stiffness')} at the peak drive"))
+    t.add_row("peak drive", f"{display.both(s['peak_force_n'], 'force')}, "
+                            f"{display.both(s['peak_deflection_m'], 'deflection')} at the load point"
+              + ("" if s["tip_rotation_deg"] is None else
+                 f"; end turned {s['tip_rotation_deg']:.3g}°, pulled in {display.both(s['pull_in_m'], 'deflection')}"))
     t.add_row("mass", display.both(s["mass_kg"], "mass"))
     t.add_row("peak strain", f"{s['peak_strain'] * 100:.3g} % along the fibres")
     t.add_row("peak energy", f"{display.both(s['peak_energy_j'], 'energy')} at peak drive")
