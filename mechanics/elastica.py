@@ -56,6 +56,7 @@ UNIQUE_LOAD = 10.0  # load index P·L²/EI below which the shooting bounds hold 
 MAX_LOAD = 1000.0  # load index P·L²/EI beyond which the elastica is not solved (no real part gets there)
 TABLE_TOLERANCE = 1e-3  # interpolated section loads within 0.1 % of their largest value at that station
 DRIVE_MATCH = 1e-8  # a deflection extreme's level is solved to this share of the span (3 nm on 300 mm)
+TABLE_FLOOR = 1e-3  # a station's section loads are kept to the tolerance of at least this share of the part's peak
 MAX_LEVELS = 400  # drive levels a table may take before the refinement gives up (a snap or a kink)
 REACH = 0.995  # a deflection drive beyond this share of the span is refused: it needs P → ∞ (strains unbounded)
 
@@ -477,7 +478,8 @@ def _drive_of(shapes: Shapes, kind: str) -> np.ndarray:
 def tabulate(model: Elastica, kind: str, lowest: float, highest: float, stations: np.ndarray,
              piece_of: np.ndarray, tolerance: float = TABLE_TOLERANCE) -> DriveTable:
     """Solve the elastica on drive levels covering [lowest, highest] and zero, refined until linear interpolation
-    of every station's moment and normal shear force is within ``tolerance`` of that station's largest value.
+    of every station's moment and normal shear force is within ``tolerance`` of that station's largest value
+    (or of TABLE_FLOOR of the part's largest, where a station carries almost none).
 
     kind : str — ``"force"`` (end load [N]) or ``"deflection"`` (load-point deflection along the load [m])
     lowest, highest : float — the duty's extreme drives [N or m]
@@ -543,8 +545,12 @@ def tabulate(model: Elastica, kind: str, lowest: float, highest: float, stations
         d_mid = _drive_of(fresh, kind)
         t = ((d_mid - drive[lo_index]) / (drive[lo_index + 1] - drive[lo_index]))[:, None]
         miss = 0.0
-        scale_m = np.maximum(np.abs(shapes.moment).max(axis=0), 1e-300)
-        scale_v = np.maximum(np.abs(shapes.shear).max(axis=0), 1e-300)
+        # each station's largest value, but no less than TABLE_FLOOR of the part's (a station at the inflection of
+        # a guided beam carries round-off only)
+        scale_m = np.abs(shapes.moment).max(axis=0)
+        scale_m = np.maximum(scale_m, TABLE_FLOOR * scale_m.max() + 1e-300)
+        scale_v = np.abs(shapes.shear).max(axis=0)
+        scale_v = np.maximum(scale_v, TABLE_FLOOR * scale_v.max() + 1e-300)
         guess_m = shapes.moment[lo_index] * (1 - t) + shapes.moment[lo_index + 1] * t
         guess_v = shapes.shear[lo_index] * (1 - t) + shapes.shear[lo_index + 1] * t
         miss = np.maximum(np.abs(guess_m - fresh.moment) / scale_m, np.abs(guess_v - fresh.shear) / scale_v).max(axis=1)
