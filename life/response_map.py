@@ -164,7 +164,7 @@ def response_map(design: Design, resp: BeamResponse) -> ResponseMap:
     name = design.path.name if design.path else "the design"
     try:
         model = prepare(design.beam, segments(design.beam))
-        table = tabulate(model, drive, min(lo, 0.0), max(hi, 0.0), resp.x, resp.segment)
+        table = tabulate(model, drive, min(lo, 0.0), max(hi, 0.0), resp.x, resp.segment, stiffness=resp.stiffness)
     except mechanics_errors.InputError as exc:
         raise InputError(f"{name}: {exc}") from None
     return ResponseMap("large-deflection", drive, resp, per_drive, table, per_section_load(resp))
@@ -189,6 +189,8 @@ def mapped_locations(response: ResponseMap, models: ModelSet, dominant_drive: fl
     sign = np.where(moment < 0, -1.0, 1.0)[:, None, None]  # the sign of each station's moment at that extreme
     unit = locations(response.unit, models, sign)
     table = response.table
-    by_shear = unit.family == "interlaminar"
-    loads = np.where(by_shear[:, None], table.shapes.shear[:, unit.station].T, table.shapes.moment[:, unit.station].T)
-    return replace(linear, mode=unit.mode, drive_map=DriveMap(table.drive, unit.response[:, None] * loads))
+    n = response.beam.x.size
+    # channels: each station's moment (0 … n−1), then its normal shear force (n … 2n−1)
+    loads = np.concatenate([table.shapes.moment.T, table.shapes.shear.T])
+    channel = unit.station + np.where(unit.family == "interlaminar", n, 0)
+    return replace(linear, mode=unit.mode, drive_map=DriveMap(table.drive, loads, channel, unit.response))

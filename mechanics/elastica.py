@@ -51,11 +51,12 @@ THEORIES = ("linear", "large-deflection")
 LARGE_SUPPORTS = ("cantilever", "guided")
 RTOL = 1e-9  # solve_ivp's relative tolerance: the shapes to ~1e-8, far inside the 0.1 % the tables keep
 ATOL = 1e-12  # absolute tolerance on the dimensionless states (angles [rad], positions per span)
-SHOOTING_TOLERANCES = {"xatol": 1e-12, "xrtol": 1e-11}  # the unknown (an angle [rad] or a ratio [-]) to ~1e-11
+SHOOTING_TOLERANCES = {"xatol": 1e-11, "xrtol": 1e-10}  # the unknown (an angle [rad] or a ratio [-]) to ~1e-10
 UNIQUE_LOAD = 10.0  # load index P·L²/EI below which the shooting bounds hold one root (see ``_unknowns``)
 MAX_LOAD = 1000.0  # load index P·L²/EI beyond which the elastica is not solved (no real part gets there)
 TABLE_TOLERANCE = 1e-3  # interpolated section loads within 0.1 % of their largest value at that station
-DRIVE_MATCH = 1e-8  # a deflection extreme's level is solved to this share of the span (3 nm on 300 mm)
+DRIVE_MATCH = 1e-7  # a deflection extreme's level is solved to this share of the span (30 nm on 300 mm)
+INITIAL_LEVELS = 7  # levels from zero to the peak before the refinement
 TABLE_FLOOR = 1e-3  # a station's section loads are kept to the tolerance of at least this share of the part's peak
 MAX_LEVELS = 400  # drive levels a table may take before the refinement gives up (a snap or a kink)
 REACH = 0.995  # a deflection drive beyond this share of the span is refused: it needs P → ∞ (strains unbounded)
@@ -476,7 +477,7 @@ def _drive_of(shapes: Shapes, kind: str) -> np.ndarray:
 
 
 def tabulate(model: Elastica, kind: str, lowest: float, highest: float, stations: np.ndarray,
-             piece_of: np.ndarray, tolerance: float = TABLE_TOLERANCE) -> DriveTable:
+             piece_of: np.ndarray, tolerance: float = TABLE_TOLERANCE, stiffness: float | None = None) -> DriveTable:
     """Solve the elastica on drive levels covering [lowest, highest] and zero, refined until linear interpolation
     of every station's moment and normal shear force is within ``tolerance`` of that station's largest value
     (or of TABLE_FLOOR of the part's largest, where a station carries almost none).
@@ -484,6 +485,7 @@ def tabulate(model: Elastica, kind: str, lowest: float, highest: float, stations
     kind : str — ``"force"`` (end load [N]) or ``"deflection"`` (load-point deflection along the load [m])
     lowest, highest : float — the duty's extreme drives [N or m]
     stations, piece_of : as in ``solve``
+    stiffness : float | None — the small-deflection stiffness at the load point, if known [N/m] (else solved)
 
     Notes
     -----
@@ -504,33 +506,47 @@ def tabulate(model: Elastica, kind: str, lowest: float, highest: float, stations
             f"without bound; keep the deflection below {REACH:.1%} of the span"
         )
     if kind == "force":
-        levels = np.append(peak * np.linspace(0.0, 1.0, 9), min(abs(lowest), abs(highest)))
+        levels = np.append(peak * np.linspace(0.0, 1.0, INITIAL_LEVELS), min(abs(lowest), abs(highest)))
         shapes = _levels(model, np.unique(levels), stations, piece_of)
     else:
-        # the small-deflection force underestimates the force at a deflection (the elastica stiffens in this
-        # sense: the moment arm shortens, but the deflection per force falls faster): grow until it is passed
-        stiffness = _small_load_stiffness(model, stations, piece_of)
-        top = peak * stiffness
-        shapes = _levels(model, top * np.linspace(0.0, 1.0, 9), stations, piece_of)
+        # the small-deflection force underestimates the force at a deflection (the cantilever stiffens under a
+        # load of fixed direction: the deflection per force falls faster than the moment arm shortens); start a
+        # quarter above it and grow until the deflection is passed
+        if stiffness is None:
+            stiffness = _small_load_stiffness(model, stations, piece_of)
+        top = 1.25 * peak * stiffness
+        shapes = _levels(model, top * np.linspace(0.0, 1.0, INITIAL_LEVELS), stations, piece_of)
         while shapes.deflection[-1] < peak:
-            if top > 1e4 * model.load_scale():
-                raise InputError(f"[duty] a load-point deflection of {peak * 1e3:.4g} mm needs an end load beyond "
-                                 "10⁴ EI/L²: beyond what the part can reach")
             top *= 1.5
             shapes = _merge(shapes, _levels(model, np.array([top]), stations, piece_of))
-        # the exact levels of the duty's extremes: the force at each by inverse interpolation, then solved
+        beyond = int(np.argmax(shapes.deflection >= peak))  # the first level past the peak closes the table
+        shapes = _take(shapes, np.arange(beyond + 1))
+    shapes, worst = _refine(model, shapes, kind, stations, piece_of, tolerance)
+    if kind == "deflection":  # the duty's extreme deflections as solved levels (force by inverse interpolation)
         wanted = np.unique([d for d in (abs(lowest), abs(highest)) if d > 0])
-        trial = shapes
-        for _ in range(8):  # secant-like: each solved guess joins the table the next guess interpolates
-            guess = PchipInterpolator(trial.deflection, trial.force)(wanted)
-            fresh = _levels(model, guess, stations, piece_of, trial)
-            trial = _merge(trial, fresh)
+        guess = PchipInterpolator(shapes.deflection, shapes.force)(wanted)
+        for _ in range(4):
+            fresh = _levels(model, guess, stations, piece_of, shapes)
             if np.all(np.abs(fresh.deflection - wanted) <= DRIVE_MATCH * L):
                 break
+            slope = PchipInterpolator(shapes.deflection, shapes.force).derivative()(fresh.deflection)
+            guess = fresh.force + slope * (wanted - fresh.deflection)
         shapes = _merge(shapes, fresh)
-        keep = shapes.deflection <= shapes.deflection[np.argmin(np.abs(shapes.deflection - peak))]
-        shapes = Shapes(**{name: getattr(shapes, name) if name == "s" else getattr(shapes, name)[keep]
-                           for name in Shapes.__dataclass_fields__})
+        shapes = _take(shapes, np.flatnonzero(shapes.deflection <= fresh.deflection.max()))  # the peak closes it
+    _refuse_reversals(shapes, kind)
+    mirrored = _mirror(shapes) if lowest < 0 else shapes
+    return DriveTable(_drive_of(mirrored, kind), kind, mirrored, worst)
+
+
+def _take(shapes: Shapes, index: np.ndarray) -> Shapes:
+    """The levels ``index`` of a set of solutions."""
+    return Shapes(**{name: getattr(shapes, name) if name == "s" else getattr(shapes, name)[index]
+                     for name in Shapes.__dataclass_fields__})
+
+
+def _refine(model: Elastica, shapes: Shapes, kind: str, stations: np.ndarray, piece_of: np.ndarray,
+            tolerance: float) -> tuple[Shapes, float]:
+    """Mid-levels added until linear interpolation meets the tolerance (see ``tabulate``); the largest miss found."""
     # refine: the intervals still to check, by index pairs of the sorted levels
     check = np.ones(shapes.force.size - 1, bool)
     worst = 0.0
@@ -563,9 +579,7 @@ def tabulate(model: Elastica, kind: str, lowest: float, highest: float, stations
         new_check[position[failing] - 1] = True
         new_check[position[failing]] = True
         check = new_check
-    _refuse_reversals(shapes, kind)
-    mirrored = _mirror(shapes) if lowest < 0 else shapes
-    return DriveTable(_drive_of(mirrored, kind), kind, mirrored, worst)
+    return shapes, worst
 
 
 def _small_load_stiffness(model: Elastica, stations: np.ndarray, piece_of: np.ndarray) -> float:

@@ -47,23 +47,39 @@ BRACKET_RULES = ("goodman", "gerber", "none")  # rules whose lives fall when a l
 
 @dataclass(frozen=True)
 class DriveMap:
-    """Every location's local quantity tabulated against the drive (large deflection), linear between levels.
+    """Every location's local quantity as a function of the drive (large deflection), through the section loads.
+
+    A location's local quantity is its response per unit section load times that load (the section law stays
+    linear): the bending moment at its station for the in-plane modes, the shear force normal to the section for
+    the interlaminar one. The section loads are tabulated against the drive, linear between levels.
 
     drive : np.ndarray — drive levels, ascending, shape (J,) [N or m]
-    local : np.ndarray — the local quantity at each level, in the basis of the location's model, shape (k, J)
-        [Pa or -]; monotonic in the drive (``flexcycle.mechanics.elastica.tabulate`` checks the section loads)
+    loads : np.ndarray — the section loads ("channels": each station's moment [N·m] and shear force [N]) at each
+        level, shape (c, J); monotonic in the drive (``flexcycle.mechanics.elastica.tabulate`` checks them)
+    channel : np.ndarray — the channel of each location, shape (k,)
+    unit : np.ndarray — each location's local quantity per unit load of its channel, shape (k,) [Pa or - per N·m or N]
     """
 
     drive: np.ndarray
-    local: np.ndarray
+    loads: np.ndarray
+    channel: np.ndarray
+    unit: np.ndarray
 
-    def at(self, rows: np.ndarray, drive: np.ndarray) -> np.ndarray:
-        """Local quantity of the locations ``rows`` at the drives, shape (len(rows), len(drive)) [Pa or -]."""
+    @property
+    def local(self) -> np.ndarray:
+        """The local quantity of every location at every level, shape (k, J) [Pa or -]."""
+        return self.unit[:, None] * self.loads[self.channel]
+
+    def loads_at(self, drive: np.ndarray) -> np.ndarray:
+        """The section loads at the drives, shape (c, len(drive)), linear between levels."""
         d = np.asarray(drive, float)
         j = np.clip(np.searchsorted(self.drive, d, side="right") - 1, 0, self.drive.size - 2)
         t = (d - self.drive[j]) / (self.drive[j + 1] - self.drive[j])
-        table = self.local[rows]
-        return table[:, j] * (1.0 - t) + table[:, j + 1] * t
+        return self.loads[:, j] * (1.0 - t) + self.loads[:, j + 1] * t
+
+    def at(self, rows: np.ndarray, drive: np.ndarray) -> np.ndarray:
+        """Local quantity of the locations ``rows`` at the drives, shape (len(rows), len(drive)) [Pa or -]."""
+        return self.unit[rows, None] * self.loads_at(drive)[self.channel[rows]]
 
 
 @dataclass(frozen=True)
@@ -321,10 +337,24 @@ def miner_damage(locations: Locations, cycles: Cycles, force_per_drive: float, s
     def local(rows, drive):
         return locations.local(rows, drive, force_per_drive, stress_factor)
 
-    if locations.drive_map is None:
+    drive_map = locations.drive_map
+    if drive_map is None:
         keys = locations.response * force_per_drive * stress_factor
+
+        def prepare(drive):  # the drives themselves
+            return drive
+
+        def values(rows, drive):
+            return keys[rows, None] * drive[None, :]
     else:
-        keys = locations.drive_map.local * stress_factor
+        keys = np.stack([drive_map.channel, drive_map.unit * stress_factor], axis=1)  # equal channel and unit
+
+        def prepare(drive):  # the section loads at the drives, once per chunk of cycles
+            return drive_map.loads_at(drive)
+
+        def values(rows, loads):
+            return (drive_map.unit[rows] * stress_factor)[:, None] * loads[drive_map.channel[rows]]
+    local_map = (prepare, values)
     dlo, dhi = cycles.lo, cycles.hi
     nc = dlo.size
     # the largest local amplitude is that of the largest drive range (a monotonic map)
@@ -353,15 +383,15 @@ def miner_damage(locations: Locations, cycles: Cycles, force_per_drive: float, s
     bracket = rows.size * cycles.lo.size > EXACT_PAIRS and cycles.hi.max() > cycles.lo.min() and all(
         locations.models[m].rule in BRACKET_RULES for m in np.unique(locations.model[rows]))
     if not bracket:
-        damage, failed = _damage(locations, rows, keys, local, cycles)
+        damage, failed = _damage(locations, rows, keys, local_map, cycles)
         return DamageResult(damage, failed, amp, mean, utilisation, None, aggregation)
-    upper, failed_wide = _damage(locations, rows, keys, local, _widened(cycles))
+    upper, failed_wide = _damage(locations, rows, keys, local_map, _widened(cycles))
     top = rows[[int(np.argmax(upper[rows]))]]
-    damage_top, failed_top = _damage(locations, top, keys, local, cycles)
+    damage_top, failed_top = _damage(locations, top, keys, local_map, cycles)
     reached = damage_top[top[0]]  # D* <= the largest damage of all
     exact = rows[(upper[rows] >= reached) | failed_wide[rows]]
     rest = exact[exact != top[0]]  # the top location is evaluated already
-    damage_exact, failed = _damage(locations, rest, keys, local, cycles)
+    damage_exact, failed = _damage(locations, rest, keys, local_map, cycles)
     damage_exact[top], failed[top] = damage_top[top], failed_top[top]
     upper[exact] = damage_exact[exact]
     evaluated = np.zeros(k, bool)
@@ -385,14 +415,16 @@ def _widened(cycles: Cycles) -> Cycles:
     return merge_identical(Cycles(np.minimum(grid(i_lo), cycles.lo), np.maximum(grid(i_hi), cycles.hi), cycles.count))
 
 
-def _damage(locations: Locations, rows: np.ndarray, keys: np.ndarray, local, cycles: Cycles
+def _damage(locations: Locations, rows: np.ndarray, keys: np.ndarray, local_map, cycles: Cycles
             ) -> tuple[np.ndarray, np.ndarray]:
     """Miner damage and static-failure flags at the locations ``rows`` (others 0 and False), cycle by cycle.
 
     keys : np.ndarray — what makes two locations' local histories equal: the local quantity per unit drive
-        (k,), or its table against the drive (k, J)
-    local : callable(rows, drive) -> the local quantity, shape (len(rows), len(drive)) [Pa or -]
+        (k,), or the channel and the quantity per unit section load (k, 2)
+    local_map : (prepare, values) — prepare(drives) once per chunk of cycles, values(rows, prepared) the local
+        quantity of the locations ``rows`` there, shape (len(rows), len(drives)) [Pa or -]
     """
+    prepare, values = local_map
     k = locations.response.size
     damage = np.zeros(k)
     failed = np.zeros(k, bool)
@@ -400,26 +432,30 @@ def _damage(locations: Locations, rows: np.ndarray, keys: np.ndarray, local, cyc
     nc = dlo.size
     if nc == 0 or rows.size == 0:
         return damage, failed
+    groups = []
     for m, model in enumerate(locations.models):
         mine = rows[locations.model[rows] == m]
         if not mine.size:
             continue
         # equal map, equal damage: one location of each
         _, first, back = np.unique(keys[mine], axis=0, return_index=True, return_inverse=True)
-        back = back.reshape(-1)
-        unique = mine[first]
-        d = np.zeros(unique.size)
-        f = np.zeros(unique.size, bool)
-        rows_at_once, cycles_at_once = max(1, CHUNK // nc), min(nc, CHUNK)
-        for r0 in range(0, unique.size, rows_at_once):
-            some = unique[r0 : r0 + rows_at_once]
-            for c0 in range(0, nc, cycles_at_once):
-                c = slice(c0, c0 + cycles_at_once)
-                a, b = local(some, dlo[c]), local(some, dhi[c])
+        groups.append((model, mine, mine[first], back.reshape(-1)))
+    sums = [np.zeros(unique.size) for _, _, unique, _ in groups]
+    flags = [np.zeros(unique.size, bool) for _, _, unique, _ in groups]
+    cycles_at_once = min(nc, CHUNK)
+    for c0 in range(0, nc, cycles_at_once):
+        c = slice(c0, c0 + cycles_at_once)
+        at_lo, at_hi = prepare(dlo[c]), prepare(dhi[c])
+        for (model, _, unique, _), d, f in zip(groups, sums, flags):
+            rows_at_once = max(1, CHUNK // nc)
+            for r0 in range(0, unique.size, rows_at_once):
+                some = unique[r0 : r0 + rows_at_once]
+                a, b = values(some, at_lo), values(some, at_hi)
                 N = model.cycles_to_failure(np.minimum(a, b), np.maximum(a, b))
                 zero = N <= 0
                 f[r0 : r0 + rows_at_once] |= zero.any(axis=1)
                 d[r0 : r0 + rows_at_once] += (count[None, c] / np.where(zero, FIRST_LOAD_FAILURE, N)).sum(axis=1)
+    for (_, mine, _, back), d, f in zip(groups, sums, flags):
         damage[mine] = d[back]
         failed[mine] = f[back]
     return damage, failed
