@@ -115,7 +115,7 @@ FIGURES = {  # figure number: what its axes say (issue 4, figures a–f, plus th
     "1": ["stack along the span", "planform", "distance from the root x [mm]"],
     "2": ["rainflow matrix", "cycle range [", "cycle mean ["],
     "3": ["load-point deflection δ [mm]", "load-point force F [N]", "stored at the peak drive"],
-    "4": ["deflected line to scale", "along the load y [mm]", "along the unloaded beam x [mm]"],  # linear cases
+    "4": ["to scale", "along the load y [mm]", "along the unloaded beam x [mm]"],
     "5": ["fibre strain ε1 [%]", "bottom face", "top face", "critical:"],
     "6": ["ply-axis strain [%]", "ply-axis stress [MPa]", "z from the mid-plane [mm]"],
     "7": ["critical location"],
