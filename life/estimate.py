@@ -295,7 +295,7 @@ def _range_notes(design: Design, mapping: ResponseMap, dominant_drive: float, pe
         return list(range_warnings(mapping.beam, max(abs(v) for v in design.duty.extremes) * mapping.force_per_drive))
     moment, _ = mapping.section_loads(dominant_drive)
     at_peak = replace(mapping.unit, curvature=mapping.unit.curvature * moment, compliance=0.0)
-    notes = list(range_warnings(at_peak, 1.0))
+    notes = list(range_warnings(at_peak, 1.0)) + list(mapping.table.notes)
     rotation = abs(mapping.tip_rotation(dominant_drive))
     if rotation > math.radians(60):
         notes.append(f"the load-point section turns by {math.degrees(rotation):.0f}° at the largest drive: the end load "

@@ -57,6 +57,7 @@ MAX_LOAD = 1000.0  # load index P·L²/EI beyond which the elastica is not solve
 TABLE_TOLERANCE = 1e-3  # interpolated section loads within 0.1 % of their largest value at that station
 DRIVE_MATCH = 1e-7  # a deflection extreme's level is solved to this share of the span (30 nm on 300 mm)
 INITIAL_LEVELS = 7  # levels from zero to the peak before the refinement
+REVERSAL_LIMIT = 1e-2  # a section load turning back by more than this share of the part's largest is refused
 TABLE_FLOOR = 1e-3  # a station's section loads are kept to the tolerance of at least this share of the part's peak
 MAX_LEVELS = 400  # drive levels a table may take before the refinement gives up (a snap or a kink)
 REACH = 0.995  # a deflection drive beyond this share of the span is refused: it needs P → ∞ (strains unbounded)
@@ -419,6 +420,7 @@ class DriveTable:
     shapes : Shapes — the solution at each level (same order)
     interpolation_error : float — the largest error of linear interpolation between levels found by the last
         refinement, as a share of each station's largest section load [-]
+    notes : tuple[str, ...] — what the user should know (a section load that turns back a little)
     """
 
     drive: np.ndarray
@@ -426,6 +428,7 @@ class DriveTable:
     shapes: Shapes
 
     interpolation_error: float = 0.0
+    notes: tuple[str, ...] = ()
 
     def _weights(self, drive: np.ndarray):
         d = np.asarray(drive, float)
@@ -480,7 +483,8 @@ def tabulate(model: Elastica, kind: str, lowest: float, highest: float, stations
              piece_of: np.ndarray, tolerance: float = TABLE_TOLERANCE, stiffness: float | None = None) -> DriveTable:
     """Solve the elastica on drive levels covering [lowest, highest] and zero, refined until linear interpolation
     of every station's moment and normal shear force is within ``tolerance`` of that station's largest value
-    (or of TABLE_FLOOR of the part's largest, where a station carries almost none).
+    (or of TABLE_FLOOR of the part's largest, where a station carries almost none); section loads that turn back
+    are refused or noted (``_reversals``).
 
     kind : str — ``"force"`` (end load [N]) or ``"deflection"`` (load-point deflection along the load [m])
     lowest, highest : float — the duty's extreme drives [N or m]
@@ -533,9 +537,9 @@ def tabulate(model: Elastica, kind: str, lowest: float, highest: float, stations
             guess = fresh.force + slope * (wanted - fresh.deflection)
         shapes = _merge(shapes, fresh)
         shapes = _take(shapes, np.flatnonzero(shapes.deflection <= fresh.deflection.max()))  # the peak closes it
-    _refuse_reversals(shapes, kind)
+    notes = _reversals(shapes, kind)
     mirrored = _mirror(shapes) if lowest < 0 else shapes
-    return DriveTable(_drive_of(mirrored, kind), kind, mirrored, worst)
+    return DriveTable(_drive_of(mirrored, kind), kind, mirrored, worst, notes)
 
 
 def _take(shapes: Shapes, index: np.ndarray) -> Shapes:
@@ -589,8 +593,15 @@ def _small_load_stiffness(model: Elastica, stations: np.ndarray, piece_of: np.nd
     return probe / float(shapes.deflection[0])
 
 
-def _refuse_reversals(shapes: Shapes, kind: str) -> None:
-    """Section loads and, for a deflection drive, the deflection must not turn back as the load grows."""
+def _reversals(shapes: Shapes, kind: str) -> tuple[str, ...]:
+    """Section loads and, for a deflection drive, the deflection must not turn back as the load grows.
+
+    A deflection that turns back, or a section load that turns back by more than REVERSAL_LIMIT of the part's
+    largest such load, is refused; a smaller turn (beyond the table's tolerance) is returned as a note: there the
+    cycle extremes are still mapped from the drive's extremes and may miss up to that share of the local range.
+    Under heavy loads the outer part turns into the load's direction and the moment or the normal shear force
+    near the end falls again (the shapes of Bisshopp & Drucker's table past P·L²/EI ≈ 5).
+    """
     step = np.diff(shapes.deflection)
     if kind == "deflection" and np.any(step <= 0):
         j = int(np.argmax(step <= 0))
@@ -599,6 +610,7 @@ def _refuse_reversals(shapes: Shapes, kind: str) -> None:
             "or a limit point): a deflection drive cannot be mapped to one shape there; use a force drive or a "
             "smaller deflection"
         )
+    notes = []
     for name, values in (("bending moment", shapes.moment), ("normal shear force", shapes.shear)):
         top = np.abs(values).max()
         if top == 0.0:
@@ -608,13 +620,20 @@ def _refuse_reversals(shapes: Shapes, kind: str) -> None:
         falls = values - np.minimum.accumulate(values, axis=0)
         increasing = values[-1] >= values[0]
         back = np.where(increasing[None, :], rises, falls)
-        if back.max() > TABLE_TOLERANCE * top:
-            j, i = np.unravel_index(int(np.argmax(back)), back.shape)
+        j, i = np.unravel_index(int(np.argmax(back)), back.shape)
+        share = float(back[j, i] / top)
+        where = (f"the {name} at {shapes.s[i] * 1e3:.4g} mm from the root turns back as the end load grows past "
+                 f"{shapes.force[int(np.argmax(np.abs(values[:, i])))]:.4g} N")
+        if share > REVERSAL_LIMIT:
             raise InputError(
-                f"the {name} at {shapes.s[i] * 1e3:.4g} mm from the root turns back as the end load grows (near "
-                f"{shapes.force[j]:.4g} N): the local stresses are not a monotonic function of the drive there, so "
-                "the cycle extremes cannot be mapped through it; reduce the duty's largest drive"
+                f"{where}, by {share:.1%} of the part's largest: the local stresses are not a monotonic function of "
+                "the drive there, so the cycle extremes cannot be mapped through it; reduce the duty's largest drive"
             )
+        if share > TABLE_TOLERANCE:
+            notes.append(f"{where}, by {share:.2%} of the part's largest (the end turning into the load's direction): "
+                         "the local cycles there are mapped from the drive's extremes and may miss up to that share "
+                         "of their range")
+    return tuple(notes)
 
 
 def _mirror(shapes: Shapes) -> Shapes:
