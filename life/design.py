@@ -29,11 +29,11 @@ from flexcycle.measured import (
 )
 from flexcycle.mechanics import errors as mechanics_errors
 from flexcycle.mechanics.beam import DEFAULT_STATIONS, SUPPORTS, Beam, Ply, segments, validate
-from flexcycle.mechanics.elastica import THEORIES, refuse_unsolved
 from flexcycle.mechanics.energy import DRIVES
 from flexcycle.mechanics.gauge import Gauge, GaugeMap
 from flexcycle.mechanics.laminate import SECTIONS
 from flexcycle.mechanics.materials import Material, resolve_materials
+from flexcycle.mechanics.theory import THEORIES, refuse_unsolved
 from flexcycle.mechanics.units import dimension_name, parse_quantity, unit_factor
 from flexcycle.spectra import errors as spectra_errors
 from flexcycle.spectra.cycles import Cycles

@@ -28,9 +28,9 @@ from flexcycle.fatigue.damage import (
 from flexcycle.fatigue.meanstress import model_warnings
 from flexcycle.fatigue.static import Critical, StaticCheck, static_check
 from flexcycle.mechanics.beam import BeamResponse, core_warnings, range_warnings, respond
-from flexcycle.mechanics.elastica import LARGE_SUPPORTS
 from flexcycle.mechanics.energy import StorageFigures, storage_figures
 from flexcycle.mechanics.modal import Mode, first_mode
+from flexcycle.mechanics.theory import LARGE_SUPPORTS
 from flexcycle.requirement import verdict_of
 from flexcycle.resonance import resonance_warnings
 from flexcycle.response_map import ResponseMap, mapped_locations, response_map

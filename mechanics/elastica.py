@@ -46,9 +46,8 @@ from scipy.optimize.elementwise import find_root
 from .beam import Beam, BeamResponse, Segment, segments
 from .errors import InputError
 from .laminate import ply_field
+from .theory import LARGE_SUPPORTS, THEORIES, refuse_unsolved  # noqa: F401 — THEORIES re-exported
 
-THEORIES = ("linear", "large-deflection")
-LARGE_SUPPORTS = ("cantilever", "guided")
 RTOL = 1e-9  # solve_ivp's relative tolerance: the shapes to ~1e-8, far inside the 0.1 % the tables keep
 ATOL = 1e-12  # absolute tolerance on the dimensionless states (angles [rad], positions per span)
 SHOOTING_TOLERANCES = {"xatol": 1e-11, "xrtol": 1e-10}  # the unknown (an angle [rad] or a ratio [-]) to ~1e-10
@@ -99,16 +98,6 @@ class Elastica:
     def load_scale(self) -> float:
         """EI_ref/L², the force that makes P̃ = 1 [N]."""
         return self.bending_ref / self.length**2
-
-
-def refuse_unsolved(support: str) -> None:
-    """Three- and four-point bending are not solved under large deflection: say so (an InputError)."""
-    if support not in LARGE_SUPPORTS:
-        raise InputError(
-            f'[beam] theory = "large-deflection" solves support = {" or ".join(map(repr, LARGE_SUPPORTS))}; '
-            f"{support!r} (rolling supports and load noses whose contact points move as the beam bends) is not "
-            'solved under large deflection: use theory = "linear" (ASTM D790 and D6272 keep the deflection small)'
-        )
 
 
 def prepare(beam: Beam, segs: Sequence[Segment]) -> Elastica:
