@@ -31,6 +31,7 @@ from flexcycle.mechanics.energy import DRIVES
 from flexcycle.mechanics.gauge import Gauge, GaugeMap
 from flexcycle.mechanics.laminate import SECTIONS
 from flexcycle.mechanics.materials import Material, resolve_materials
+from flexcycle.mechanics.theory import THEORIES, refuse_unsolved
 from flexcycle.mechanics.units import dimension_name, parse_quantity, unit_factor
 from flexcycle.spectra.cycles import Cycles
 from flexcycle.spectra.profiles import block_table, bundled_profile, refuse_headerless
@@ -40,7 +41,7 @@ from flexcycle.spectra.streaming import Envelope, count_history, refuse_constant
 BUNDLED_PREFIX = "bundled:"  # profile = "bundled:NAME" reads a demo profile shipped with flexcycle
 
 TOP_KEYS = {"title", "beam", "ply", "duty", "fatigue", "material", "report"}
-BEAM_KEYS = {"support", "span", "width", "load_spacing", "section", "stations"}
+BEAM_KEYS = {"support", "span", "width", "load_spacing", "section", "stations", "theory"}
 PLY_KEYS = {"material", "angle", "thickness", "count", "ends_at"}
 DUTY_KEYS = {"drive", "profile", "column", "unit", "cycles", "blocks_per_day", "residue", "sample_rate", "gauge"} | PSD_KEYS
 FATIGUE_KEYS = {"mean_stress", "miner_limit", "stress_factor", "required_life"}
@@ -123,6 +124,7 @@ class Design:
         required_life); None: no requirement
     required_life_text : str | None — the requirement as written (``"5 years"``, ``"20000"``)
     units : str | None — the display units the file asks for ([report] units: "si" or "us"); None: not given
+    theory : str — ``"linear"`` (small deflection) or ``"large-deflection"`` (the elastica), [beam] theory
     """
 
     title: str
@@ -138,6 +140,7 @@ class Design:
     required_life_blocks: float | None = None
     required_life_text: str | None = None
     units: str | None = None
+    theory: str = "linear"
 
 
 def _unknown(table: Mapping, allowed: set, where: str) -> None:
@@ -425,6 +428,10 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
         materials = resolve_materials(user, name)
         plies = _plies(doc, materials, name, notes)
         beam = _beam(doc, plies, name, notes)
+    theory = _choice(doc["beam"].get("theory", "linear"), THEORIES, f"{name} [beam] theory")
+    if theory == "large-deflection":
+        with input_errors(f"{name} "):  # three- and four-point bending are not solved under the elastica
+            refuse_unsolved(beam.support)
     duty = _duty(doc, duty_name or name, base_dir, notes, progress, beam)
     fat = _table(doc, "fatigue", name, required=False)
     _unknown(fat, FATIGUE_KEYS, f"{name} [fatigue]")
@@ -442,7 +449,7 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     _unknown(report, REPORT_KEYS, f"{name} [report]")
     units = None if "units" not in report else _choice(report["units"], DISPLAY_SYSTEMS, f"{name} [report] units")
     return Design(title, path, beam, duty, rule, miner, factor, used, dict(doc), tuple(notes),
-                  required, None if required is None else str(fat["required_life"]), units)
+                  required, None if required is None else str(fat["required_life"]), units, theory)
 
 
 DISPLAY_SYSTEMS = ("si", "us")  # [report] units: SI or inch-pound display (flexcycle.display.SYSTEMS)

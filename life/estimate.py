@@ -1,13 +1,15 @@
 """The life estimate: design → response map → counted cycles → damage → LifeResult.
 
-The one orchestrator of flexcycle (docs/design.md, data flow). Mechanics gives every location's response per
-unit drive force; the duty's cycles are counted once; ``flexcycle.fatigue.damage`` maps each cycle's extremes to every
-location; Miner's sum per block gives the life; mechanics gives stiffness, mass, static reserve and energy.
+The one orchestrator of flexcycle (docs/design.md, data flow). Mechanics gives every location's local stress or
+strain as a function of the drive (``flexcycle.response_map``: a straight line under linear theory, the
+elastica's tabulated map under large deflection); the duty's cycles are counted once;
+``flexcycle.fatigue.damage`` maps each cycle's extremes to every location; Miner's sum per block gives the
+life; the same map gives stiffness, static reserve and energy.
 """
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -21,19 +23,21 @@ from flexcycle.fatigue.damage import (
     Locations,
     build_models,
     cycle_lives,
-    locations,
     miner_damage,
 )
 from flexcycle.fatigue.meanstress import model_warnings
 from flexcycle.fatigue.static import Critical, StaticCheck, static_check
 from flexcycle.mechanics.beam import BeamResponse, core_warnings, range_warnings, respond
-from flexcycle.mechanics.energy import StorageFigures, cycle_energy, force_per_drive, storage_figures
+from flexcycle.mechanics.energy import StorageFigures, storage_figures
 from flexcycle.mechanics.modal import Mode, first_mode
+from flexcycle.mechanics.theory import LARGE_SUPPORTS
 from flexcycle.requirement import verdict_of
 from flexcycle.resonance import resonance_warnings
+from flexcycle.response_map import ResponseMap, mapped_locations, response_map
 from flexcycle.views import ResultViews
 
 IMPLAUSIBLE_STRAIN = 0.2  # a fibre strain no structural composite or wood reaches (common practice): an input slip
+PAST_LINEAR = "passes 10 % of the span"  # the phrase of the linear range warning (flexcycle.mechanics.beam)
 
 
 
@@ -43,6 +47,13 @@ class LifeResult(ResultViews):
 
     Its tables (``station_table``, ``location_table``, ``cycle_table``: DataFrames), figures (``figure(name)``)
     and notebook display come from `flexcycle.views.ResultViews`, computed when first asked for.
+
+    response : BeamResponse — the linear response per unit drive force (stations, plies, mass, stiffness)
+    drive_response : ResponseMap | None — the drive → response map the estimate used (linear or large deflection)
+    peak_force : float — load-point force at the duty's largest drive [N]
+    peak_deflection : float — load-point deflection along the load there [m]
+    tip_rotation : float | None — large deflection: rotation of the load-point section there [rad]
+    pull_in : float | None — large deflection: the load point's travel toward the clamp there [m]
     """
 
     design: Design
@@ -62,13 +73,25 @@ class LifeResult(ResultViews):
     force_per_drive: float
     warnings: tuple[str, ...]
     first_mode: Mode | None = None  # the part's first bending mode (flexcycle.mechanics.modal)
+    drive_response: ResponseMap | None = None
+    peak_force: float = math.nan
+    peak_deflection: float = math.nan
+    tip_rotation: float | None = None
+    pull_in: float | None = None
+
+    @property
+    def theory(self) -> str:
+        """``"linear"`` or ``"large-deflection"``."""
+        return self.design.theory
 
     def summary(self) -> dict:
         """The summary.json object (docs/design.md, outputs contract): SI numbers, strict JSON."""
         d, r = self.design, self.response
         c = self.critical
+        secant = self.peak_force / self.peak_deflection if self.peak_deflection else r.stiffness
         return {
             "title": d.title,
+            "theory": d.theory,
             "life_cycles": _finite(self.life_cycles),
             "life_blocks": _finite(self.life_blocks),
             "life_days": _finite(self.life_days),
@@ -76,8 +99,13 @@ class LifeResult(ResultViews):
             "damage_per_block": _finite(self.damage_per_block),
             "critical": {"x_m": c.x_m, "ply": c.ply, "z_m": c.z_m, "mode": c.mode, "face": c.face},
             "stiffness_n_per_m": r.stiffness,
+            "secant_stiffness_n_per_m": _finite(secant),
             "mass_kg": r.mass,
             "peak_strain": self.peak_strain,
+            "peak_force_n": _finite(self.peak_force),
+            "peak_deflection_m": _finite(self.peak_deflection),
+            "tip_rotation_deg": None if self.tip_rotation is None else _finite(math.degrees(self.tip_rotation)),
+            "pull_in_m": _finite(self.pull_in),
             "peak_energy_j": self.storage.energy,
             "cycle_energy_j": self.cycle_energy,
             "specific_energy_j_per_kg": self.storage.specific_energy,
@@ -137,15 +165,19 @@ def _finite(value: float | None) -> float | None:
 def estimate(design: Design) -> LifeResult:
     """Run the whole estimate for a validated design."""
     beam = design.beam
-    resp = respond(beam)
-    fpd = force_per_drive(resp.compliance, design.duty.drive)
+    response = respond(beam)
+    mapping = response_map(design, response)
+    force_per_drive = mapping.force_per_drive
     cycles = design.duty.cycles
     lo, hi = design.duty.extremes
-    dominant = 1.0 if abs(hi) >= abs(lo) else -1.0
+    dominant_drive = hi if abs(hi) >= abs(lo) else lo
     peak_drive = max(abs(lo), abs(hi))
-    peak_force = peak_drive * fpd
+    peak_force = peak_drive * force_per_drive
 
-    peak_strain = float(np.abs(resp.strain_12[..., 0]).max()) * peak_force
+    if mapping.large:
+        peak_strain = max(float(np.abs(mapping.fields(d).strain_12[..., 0]).max()) for d in (lo, hi))
+    else:
+        peak_strain = float(np.abs(response.strain_12[..., 0]).max()) * peak_force
     if not peak_strain <= IMPLAUSIBLE_STRAIN:
         name = design.path.name if design.path else "the design"
         raise InputError(
@@ -156,16 +188,17 @@ def estimate(design: Design) -> LifeResult:
         )
 
     models = build_models(list(design.materials.values()), design.mean_stress)
-    locs = locations(resp, models, dominant)
-    dmg = miner_damage(locs, cycles, fpd, design.stress_factor)
-    static, static_notes = static_check(design, resp, fpd)
+    locations = mapped_locations(mapping, models, dominant_drive)
+    damage = miner_damage(locations, cycles, force_per_drive, design.stress_factor)
+    static, static_notes = static_check(design, response, force_per_drive,
+                                        mapping.fields if mapping.large else None)
 
-    warnings = (list(design.notes) + list(range_warnings(resp, peak_force)) + core_warnings(beam)
+    warnings = (list(design.notes) + _range_notes(design, mapping, dominant_drive, peak_strain) + core_warnings(beam)
                 + list(models.warnings) + static_notes)
     for (material, family), m in models.index.items():
         warnings += model_warnings(models.models[m], f"{material} {family} curve")
-    d_block = float(dmg.damage.max()) if dmg.damage.size else 0.0
-    fatigue_failure = bool(dmg.static_failure.any())
+    d_block = float(damage.damage.max()) if damage.damage.size else 0.0
+    fatigue_failure = bool(damage.static_failure.any())
     failed = static.reserve < 1.0 or fatigue_failure
     unbounded = not failed and d_block == 0.0
     if failed:
@@ -183,39 +216,39 @@ def estimate(design: Design) -> LifeResult:
         critical = static.place  # the first load fails the part there
     else:
         if fatigue_failure:  # the fatigue data put a cycle past the strength: the most utilised such location
-            k = int(np.argmax(np.where(dmg.static_failure, dmg.utilisation, -np.inf)))
+            k = int(np.argmax(np.where(damage.static_failure, damage.utilisation, -np.inf)))
             warnings.append(
-                f"a cycle of the duty exceeds the static strength ({locs.mode[k]}, ply {locs.ply[k] + 1}, "
-                f"x = {resp.x[locs.station[k]] * 1e3:.0f} mm): life is zero"
+                f"a cycle of the duty exceeds the static strength ({locations.mode[k]}, ply {locations.ply[k] + 1}, "
+                f"x = {response.x[locations.station[k]] * 1e3:.0f} mm): life is zero"
             )
         elif unbounded:  # the most utilised fatigue-checked location
-            k = int(np.argmax(np.where(locs.model >= 0, dmg.utilisation, -np.inf)))
+            k = int(np.argmax(np.where(locations.model >= 0, damage.utilisation, -np.inf)))
         else:
-            k = int(np.argmax(dmg.damage))
-            warnings += _extrapolation_notes(locs, k, cycles, fpd, design.stress_factor)
-        warnings += _below_limit_notes(locs, k, cycles, fpd, design.stress_factor)
+            k = int(np.argmax(damage.damage))
+            warnings += _extrapolation_notes(locations, k, cycles, force_per_drive, design.stress_factor)
+        warnings += _below_limit_notes(locations, k, cycles, force_per_drive, design.stress_factor)
         critical = Critical(
-            x_m=float(resp.x[locs.station[k]]),
-            ply=int(locs.ply[k]) + 1,
-            z_m=float(locs.z[k]),
-            mode=str(locs.mode[k]),
-            face=FACES[int(locs.face[k])],
-            station=int(locs.station[k]),
+            x_m=float(response.x[locations.station[k]]),
+            ply=int(locations.ply[k]) + 1,
+            z_m=float(locations.z[k]),
+            mode=str(locations.mode[k]),
+            face=FACES[int(locations.face[k])],
+            station=int(locations.station[k]),
         )
-    storage = storage_figures(resp, peak_force)
+    storage = _storage(mapping, dominant_drive, peak_force)
     if design.duty.peaks is not None:  # a PSD duty: the largest cycle expected in a block, from peak to peak
         big_lo, big_hi = lo, hi
     else:
         big = _largest_cycle(cycles)
         big_lo, big_hi = cycles.lo[big], cycles.hi[big]
-    e_cycle = float(cycle_energy(resp.compliance, big_lo * fpd, big_hi * fpd))
+    e_cycle = mapping.cycle_energy(float(big_lo), float(big_hi))
     mode = first_mode(beam)
     warnings += resonance_warnings(design.duty, mode.frequency)
-    return LifeResult(
+    result = LifeResult(
         design=design,
-        response=resp,
-        locations=locs,
-        damage=dmg,
+        response=response,
+        locations=locations,
+        damage=damage,
         life_cycles=life_cycles,
         life_blocks=life_blocks,
         life_days=life_days,
@@ -226,10 +259,72 @@ def estimate(design: Design) -> LifeResult:
         storage=storage,
         peak_strain=peak_strain,
         cycle_energy=e_cycle,
-        force_per_drive=fpd,
+        force_per_drive=force_per_drive,
         warnings=tuple(dict.fromkeys(warnings)),
         first_mode=mode,
+        drive_response=mapping,
+        peak_force=float(mapping.force(dominant_drive)[0]),
+        peak_deflection=float(mapping.deflection(dominant_drive)[0]),
+        tip_rotation=mapping.tip_rotation(dominant_drive) if mapping.large else None,
+        pull_in=mapping.pull_in(dominant_drive) if mapping.large else None,
     )
+    if not mapping.large and any(PAST_LINEAR in w for w in result.warnings) and beam.support in LARGE_SUPPORTS:
+        result = replace(result, warnings=_with_comparison(result))
+    return result
+
+
+def _storage(mapping: ResponseMap, dominant_drive: float, peak_force: float) -> StorageFigures:
+    """Energy, specific energy, peak axial strain and storage efficiency at the duty's largest drive.
+
+    Under large deflection U = ∫F dδ from the elastica, the efficiency its bending energy ∫M²/(2EI) ds over the
+    reference ½·Σ E_x·ε_max²·V (as ``flexcycle.mechanics.energy.storage_figures`` for the linear beam).
+    """
+    if not mapping.large:
+        return storage_figures(mapping.beam, peak_force)
+    energy = float(mapping.energy(dominant_drive)[0])
+    eps_max = float(np.abs(mapping.fields(dominant_drive).strain_x).max())
+    reference = mapping.beam.reference_energy * eps_max**2
+    bending = mapping.bending_energy(dominant_drive)
+    return StorageFigures(energy=energy, specific_energy=energy / mapping.beam.mass, peak_strain_x=eps_max,
+                          efficiency=float(bending / reference) if 0 < reference < np.inf else 0.0)
+
+
+def _range_notes(design: Design, mapping: ResponseMap, dominant_drive: float, peak_strain: float) -> list[str]:
+    """The beam model's range warnings at the largest drive (flexcycle.mechanics.beam.range_warnings).
+
+    Under large deflection the deflection is no longer a limit of the model, and the curvature for the Searle
+    parameter is the elastica's; a note says what the elastica assumed.
+    """
+    if not mapping.large:
+        return list(range_warnings(mapping.beam, max(abs(v) for v in design.duty.extremes) * mapping.force_per_drive))
+    moment, _ = mapping.section_loads(dominant_drive)
+    at_peak = replace(mapping.unit, curvature=mapping.unit.curvature * moment, compliance=0.0)
+    notes = list(range_warnings(at_peak, 1.0)) + list(mapping.table.notes)
+    rotation = abs(mapping.tip_rotation(dominant_drive))
+    if rotation > math.radians(60):
+        notes.append(f"the load-point section turns by {math.degrees(rotation):.0f}° at the largest drive: the end load "
+                     "is taken to keep its direction (a dead load); a linkage whose force turns with the part "
+                     "loads it differently")
+    return notes
+
+
+def _with_comparison(result: LifeResult) -> tuple[str, ...]:
+    """The linear range warning with how much the large-deflection answer differs (peak strain and life)."""
+    design = result.design
+    try:
+        other = estimate(replace(design, theory="large-deflection"))
+    except InputError as exc:
+        addition = f'; theory = "large-deflection" could not solve this duty ({exc})'
+    else:
+        change = other.peak_strain / result.peak_strain - 1.0
+        if other.life_blocks and result.life_blocks:
+            life = (f"the life {other.life_blocks:.4g} blocks ({other.life_blocks / result.life_blocks:.3g} times "
+                    "this one)")
+        else:
+            life = f"the life {other.life_blocks} blocks"
+        addition = (f'; under theory = "large-deflection" (the elastica) the peak strain is {other.peak_strain:.4g} '
+                    f"({change:+.1%}) and {life}: set [beam] theory = \"large-deflection\"")
+    return tuple(w + addition if PAST_LINEAR in w else w for w in result.warnings)
 
 
 def _largest_cycle(cycles) -> int:
@@ -246,9 +341,10 @@ def _largest_cycle(cycles) -> int:
 EXTRAPOLATED_SHARE = 0.1  # warn when more than this share of the critical damage is read past the data
 
 
-def _extrapolation_notes(locs: Locations, k: int, cycles, fpd: float, stress_factor: float) -> list[str]:
+def _extrapolation_notes(locations: Locations, k: int, cycles, force_per_drive: float, stress_factor: float
+                         ) -> list[str]:
     """A warning when much of the critical location's damage comes from lives beyond typical test data."""
-    N = cycle_lives(locs, k, cycles, fpd, stress_factor)
+    N = cycle_lives(locations, k, cycles, force_per_drive, stress_factor)
     d = np.where(np.isfinite(N) & (N > 0), cycles.count / np.where(N > 0, N, 1.0), 0.0)
     total = float(d.sum())
     if total <= 0:
@@ -263,12 +359,13 @@ def _extrapolation_notes(locs: Locations, k: int, cycles, fpd: float, stress_fac
     ]
 
 
-def _below_limit_notes(locs: Locations, k: int, cycles, fpd: float, stress_factor: float) -> list[str]:
+def _below_limit_notes(locations: Locations, k: int, cycles, force_per_drive: float, stress_factor: float
+                       ) -> list[str]:
     """A warning naming how many cycles per block the fatigue limit leaves out at the critical location."""
-    m = int(locs.model[k])
-    if m < 0 or not any(c.limit for c in locs.models[m].curves):
+    m = int(locations.model[k])
+    if m < 0 or not any(c.limit for c in locations.models[m].curves):
         return []
-    N = cycle_lives(locs, k, cycles, fpd, stress_factor)
+    N = cycle_lives(locations, k, cycles, force_per_drive, stress_factor)
     ignored = float(cycles.count[np.isinf(N) & (cycles.hi > cycles.lo)].sum())
     if ignored == 0.0:
         return []

@@ -71,8 +71,11 @@ def cycle_table(result: LifeResult) -> tuple[pd.DataFrame, str]:
         note += ("; damage: bounded above by the cycles widened to a grid of the drive, and exact at the critical "
                  "location and every location that could be as damaged (locations.csv gives the upper bound "
                  "elsewhere)")
-    force_per_drive = result.force_per_drive
-    energy = cycle_energy(result.response.compliance, cycles.lo * force_per_drive, cycles.hi * force_per_drive)
+    if result.drive_response is not None:  # linear or large deflection, as the estimate used
+        energy = result.drive_response.cycle_energies(cycles.lo, cycles.hi)
+    else:
+        force_per_drive = result.force_per_drive
+        energy = cycle_energy(result.response.compliance, cycles.lo * force_per_drive, cycles.hi * force_per_drive)
     table = pd.DataFrame({"min": cycles.lo, "max": cycles.hi, "count": cycles.count, "energy_j": energy})
     return table, note
 
@@ -110,11 +113,16 @@ def station_table(result: LifeResult) -> pd.DataFrame:
     """The beam along the span: geometry, moment and shear per unit drive force, and the peak figures there.
 
     Columns: station, x_m, width_m, thickness_m, plies (present), moment_per_n [N·m/N], shear_per_n [N/N],
-    curvature_per_n [1/(m·N)], peak_strain (largest |ε1| there at the largest drive), damage_per_block (largest
-    of the station's locations).
+    curvature_per_n [1/(m·N)] (linear theory, per unit force), peak_strain (largest |ε1| there at the largest
+    drive; under large deflection from the elastica), damage_per_block (largest of the station's locations).
     """
     response, locations, damage = result.response, result.locations, result.damage
     peak_force = max(abs(v) for v in result.design.duty.extremes) * result.force_per_drive
+    peak_strain = np.abs(response.strain_12[..., 0]).max(axis=(1, 2)) * peak_force
+    mapping = result.drive_response
+    if mapping is not None and mapping.large:
+        peak_strain = np.max([np.abs(mapping.fields(d).strain_12[..., 0]).max(axis=(1, 2))
+                              for d in result.design.duty.extremes], axis=0)
     worst = np.zeros(response.x.size)
     np.maximum.at(worst, locations.station, damage.damage)
     return pd.DataFrame(
@@ -127,7 +135,7 @@ def station_table(result: LifeResult) -> pd.DataFrame:
             "moment_per_n": response.moment,
             "shear_per_n": response.shear,
             "curvature_per_n": response.curvature,
-            "peak_strain": np.abs(response.strain_12[..., 0]).max(axis=(1, 2)) * peak_force,
+            "peak_strain": peak_strain,
             "damage_per_block": worst,
         }
     )

@@ -97,8 +97,9 @@ def life_text(value: float | None, unit: str) -> str:
 
 def headline_rows(result: LifeResult, display: Display | None = None) -> list[tuple[str, str]]:
     """The run's headline figures as (quantity, value with its unit) rows, the same in the terminal and in a
-    notebook: the verdict against a required life, life, damage, rule, critical mode, ply and place, stiffness,
-    mass, strain, energies, static reserve.
+    notebook: the verdict against a required life, life, damage, rule, critical mode, ply and place, theory,
+    stiffness (and the secant one under large deflection), peak drive (with the end's rotation and pull-in under
+    large deflection), mass, strain, energies, static reserve.
 
     display : the units shown (inch-pound with SI beside, or SI); None: SI
     """
@@ -128,7 +129,17 @@ def headline_rows(result: LifeResult, display: Display | None = None) -> list[tu
         ("critical ply", f"ply {critical.ply} ({ply.material.name}, {ply.angle:g}°), {critical.face} face"),
         ("critical place", f"x = {display.both(critical.x_m, 'position')} {where}, "
                            f"z = {display.both(critical.z_m, 'position', signed=True)}"),
-        ("stiffness", f"{display.both(summary['stiffness_n_per_m'], 'stiffness')} at the load point"),
+        ("theory", "large deflection (the elastica)" if summary["theory"] == "large-deflection"
+         else "linear, small deflection"),
+        ("stiffness", f"{display.both(summary['stiffness_n_per_m'], 'stiffness')} at the load point"
+         + ("" if summary["theory"] == "linear" else
+            f" (small loads); secant {display.both(summary['secant_stiffness_n_per_m'], 'stiffness')} "
+            "at the peak drive")),
+        ("peak drive", f"{display.both(summary['peak_force_n'], 'force')}, "
+                       f"{display.both(summary['peak_deflection_m'], 'deflection')} at the load point"
+         + ("" if summary["tip_rotation_deg"] is None else
+            f"; end turned {summary['tip_rotation_deg']:.3g}°, "
+            f"pulled in {display.both(summary['pull_in_m'], 'deflection')}")),
         ("mass", display.both(summary["mass_kg"], "mass")),
         ("peak strain", f"{summary['peak_strain'] * 100:.3g} % along the fibres"),
         ("peak energy", f"{display.both(summary['peak_energy_j'], 'energy')} at peak drive"),

@@ -115,10 +115,11 @@ FIGURES = {  # figure number: what its axes say (the six result and input figure
     "1": ["stack along the span", "planform", "distance from the root x [mm]"],
     "2": ["rainflow matrix", "cycle range [", "cycle mean ["],
     "3": ["load-point deflection δ [mm]", "load-point force F [N]", "stored at the peak drive"],
-    "4": ["fibre strain ε1 [%]", "bottom face", "top face", "critical:"],
-    "5": ["ply-axis strain [%]", "ply-axis stress [MPa]", "z from the mid-plane [mm]"],
-    "6": ["critical location"],
-    "7": ["damage per block", "damage by cycle range", "share of the damage [%]"],
+    "4": ["to scale", "along the load y [mm]", "along the unloaded beam x [mm]"],
+    "5": ["fibre strain ε1 [%]", "bottom face", "top face", "critical:"],
+    "6": ["ply-axis strain [%]", "ply-axis stress [MPa]", "z from the mid-plane [mm]"],
+    "7": ["critical location"],
+    "8": ["damage per block", "damage by cycle range", "share of the damage [%]"],
 }
 
 
@@ -128,7 +129,7 @@ def figures(page: str) -> dict[str, str]:
 
 
 def test_an_inline_svg_per_figure(case):
-    """Seven figures, each one inline <svg> with its caption, axes labelled with units."""
+    """Eight figures, each one inline <svg> with its caption, axes labelled with units."""
     _, page = case
     found = figures(page)
     assert sorted(found) == sorted(FIGURES)
@@ -137,18 +138,18 @@ def test_an_inline_svg_per_figure(case):
         assert body.count("<svg") == 1 and "<figcaption><b>Figure " + number in body
         for w in words:
             assert html.escape(w) in body or w in body, (number, w)
-    assert page.count("<svg") == 7 and page.count("</svg>") == 7
+    assert page.count("<svg") == 8 and page.count("</svg>") == 8
     assert "<?xml" not in page  # the SVG's XML prologue is cut: it is not allowed inside HTML
 
 
-FIGURE_NUMBERS = {"layup": "1", "duty": "2", "force-deflection": "3", "strain-envelope": "4",
-                  "through-thickness": "5", "fatigue-curve": "6", "damage": "7",
+FIGURE_NUMBERS = {"layup": "1", "duty": "2", "force-deflection": "3", "deformed-shapes": "4", "strain-envelope": "5",
+                  "through-thickness": "6", "fatigue-curve": "7", "damage": "8",
                   "spectrum": "2b"}  # 2b: a PSD duty only (tests/test_measured.py draws it)
 
 
 def test_every_figure_maker_returns_a_matplotlib_figure(wide):
     """Each maker of the registry returns a matplotlib Figure (no SVG text) of the small hand case, with the
-    words its report figure shows among the Figure's own texts; the registry holds the seven report figures."""
+    words its report figure shows among the Figure's own texts; the registry holds the eight report figures."""
     from matplotlib.figure import Figure
     from matplotlib.text import Text
 
@@ -171,9 +172,9 @@ def test_every_figure_maker_returns_a_matplotlib_figure(wide):
 
 
 def test_fatigue_figure_names_the_critical_curve(wide):
-    """Figure 6 of the hand case: the one R = −1 power curve of report-glass (Goodman; S1 800 MPa, m = 10)."""
+    """Figure 7 of the hand case: the one R = −1 power curve of report-glass (Goodman; S1 800 MPa, m = 10)."""
     _, page = wide
-    body = figures(page)["6"]
+    body = figures(page)["7"]
     assert "power curve at R = -1" in body
     assert "amplitude at R = -1 [MPa]" in body  # a stress-basis curve, drawn in MPa
 

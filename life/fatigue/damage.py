@@ -1,10 +1,12 @@
 """Damage at every location: cycle extremes mapped to local stresses, cycles to failure, Miner sums.
 
-A location is one (station, ply, face, mode). Mechanics is linear, so each location's local quantity
+A location is one (station, ply, face, mode). Under linear mechanics each location's local quantity
 (σ1 or ε1 for the fibre direction, σ2 or ε2 transverse, τ12 or γ12 in-plane shear, τxz interlaminar)
-is ``response × drive``. The drive is counted once; each counted cycle (min, max) is mapped to every
-location by its extremes — on the compression side the sign flips, so the local minimum comes from the
-drive maximum (docs/design.md, data flow).
+is ``response × drive``. Under large deflection (the elastica) it is a monotonic, tabulated function of the
+drive (``DriveMap``): the section's moment and normal shear force grow less than in proportion with it.
+Either way the drive is counted once; each counted cycle (min, max) is mapped to every location by its
+extremes — on the compression side the sign flips, so the local minimum comes from the drive maximum
+(docs/design.md, data flow); a monotonic map sends the drive's extremes to the local extremes.
 
 Palmgren–Miner: D = Σ nᵢ/Nᵢ per block of the duty, failure when D reaches the Miner limit
 (Miner 1945, J. Appl. Mech. 12; the limit 1, or 0.1–0.5 in design practice: common practice).
@@ -44,6 +46,43 @@ BRACKET_RULES = ("goodman", "gerber", "none")  # rules whose lives fall when a l
 
 
 @dataclass(frozen=True)
+class DriveMap:
+    """Every location's local quantity as a function of the drive (large deflection), through the section loads.
+
+    A location's local quantity is its response per unit section load times that load (the section law stays
+    linear): the bending moment at its station for the in-plane modes, the shear force normal to the section for
+    the interlaminar one. The section loads are tabulated against the drive, linear between levels.
+
+    drive : np.ndarray — drive levels, ascending, shape (J,) [N or m]
+    loads : np.ndarray — the section loads ("channels": each station's moment [N·m] and shear force [N]) at each
+        level, shape (c, J); monotonic in the drive (``flexcycle.mechanics.elastica.tabulate`` checks them)
+    channel : np.ndarray — the channel of each location, shape (k,)
+    unit : np.ndarray — each location's local quantity per unit load of its channel, shape (k,) [Pa or - per N·m or N]
+    """
+
+    drive: np.ndarray
+    loads: np.ndarray
+    channel: np.ndarray
+    unit: np.ndarray
+
+    @property
+    def local(self) -> np.ndarray:
+        """The local quantity of every location at every level, shape (k, J) [Pa or -]."""
+        return self.unit[:, None] * self.loads[self.channel]
+
+    def loads_at(self, drive: np.ndarray) -> np.ndarray:
+        """The section loads at the drives, shape (c, len(drive)), linear between levels."""
+        d = np.asarray(drive, float)
+        j = np.clip(np.searchsorted(self.drive, d, side="right") - 1, 0, self.drive.size - 2)
+        t = (d - self.drive[j]) / (self.drive[j + 1] - self.drive[j])
+        return self.loads[:, j] * (1.0 - t) + self.loads[:, j + 1] * t
+
+    def at(self, rows: np.ndarray, drive: np.ndarray) -> np.ndarray:
+        """Local quantity of the locations ``rows`` at the drives, shape (len(rows), len(drive)) [Pa or -]."""
+        return self.unit[rows, None] * self.loads_at(drive)[self.channel[rows]]
+
+
+@dataclass(frozen=True)
 class Locations:
     """Flat table of the locations that are checked, k entries.
 
@@ -58,6 +97,8 @@ class Locations:
         (stress [Pa/N] or strain [1/N]), shape (k,)
     model : np.ndarray — index into ``models`` (−1: no curve, checked statically only), shape (k,)
     models : tuple[FatigueModel, ...]
+    drive_map : DriveMap | None — large deflection: the local quantities against the drive, which then govern
+        (``response`` stays the small-deflection slope); None under linear theory
     """
 
     station: np.ndarray
@@ -69,6 +110,19 @@ class Locations:
     response: np.ndarray
     model: np.ndarray
     models: tuple[FatigueModel, ...]
+    drive_map: DriveMap | None = None
+
+    def local(self, rows: np.ndarray, drive: np.ndarray, force_per_drive: float, stress_factor: float) -> np.ndarray:
+        """Local quantity of the locations ``rows`` at the drives, shape (len(rows), len(drive)) [Pa or -].
+
+        force_per_drive : float — linear theory: drive force per unit drive [N per drive unit]; unused with a map
+        stress_factor : float — partial factor on every local stress or strain [-]
+        """
+        rows = np.asarray(rows)
+        drive = np.asarray(drive, float)
+        if self.drive_map is None:
+            return (self.response[rows] * force_per_drive * stress_factor)[:, None] * drive[None, :]
+        return self.drive_map.at(rows, drive) * stress_factor
 
 
 def _strengths(material: Material, family: str, basis: str) -> tuple[float, float] | None:
@@ -133,8 +187,9 @@ def build_models(materials: Sequence[Material], rule: str) -> ModelSet:
 def locations(resp: BeamResponse, models: ModelSet, dominant_sign: float) -> Locations:
     """Every (station, ply, face, mode) of the response map, with its local response per unit drive force.
 
-    dominant_sign : float — sign of the drive extreme of largest magnitude; names the fibre mode of a
-        location tension or compression by the sign of its stress at that extreme
+    dominant_sign : float | np.ndarray — sign of the drive extreme of largest magnitude; names the fibre mode of
+        a location tension or compression by the sign of its stress at that extreme (an array of shape (n, 1, 1):
+        per station, for a response per unit section load whose sign at that extreme varies along the span)
     """
     n, p = resp.present.shape
     st, pl, fc = np.meshgrid(np.arange(n), np.arange(p), np.arange(2), indexing="ij")
@@ -245,17 +300,20 @@ class DamageResult:
     aggregation: str = "each cycle"
 
 
-def miner_damage(locs: Locations, cycles: Cycles, force_per_drive: float, stress_factor: float) -> DamageResult:
+def miner_damage(locations: Locations, cycles: Cycles, force_per_drive: float, stress_factor: float) -> DamageResult:
     """Damage per block at every location for the counted drive cycles.
 
-    force_per_drive : float — drive force per unit drive (1, or the stiffness for a deflection drive) [N per drive unit]
+    force_per_drive : float — drive force per unit drive (1, or the stiffness for a deflection drive) [N per drive unit];
+        unused when the locations carry a large-deflection ``drive_map``
     stress_factor : float — partial factor on every local stress or strain [-]
 
     Notes
     -----
-    Local extremes of a cycle (dlo, dhi): r·dlo and r·dhi, sorted (r < 0 flips them), r = response × force per
-    drive × stress factor; N from the location's fatigue model; D = Σ count/N (Palmgren–Miner). Every location
-    and cycle is evaluated in numpy, in blocks of CHUNK pairs; no Python loop runs over cycles.
+    Local extremes of a cycle (dlo, dhi): q(dlo) and q(dhi), sorted (a falling map flips them), with q the
+    location's local quantity as a function of the drive — r·d under linear theory, r = response × force per
+    drive × stress factor; the tabulated, monotonic map under large deflection. N from the location's fatigue
+    model; D = Σ count/N (Palmgren–Miner). Every location and cycle is evaluated in numpy, in blocks of CHUNK
+    pairs; no Python loop runs over cycles.
 
     At scale (more than EXACT_PAIRS location × cycle pairs) the cycles are aggregated, exactly first:
     identical extremes are merged (counts summed), which changes no damage beyond round-off. If that is still
@@ -263,51 +321,77 @@ def miner_damage(locs: Locations, cycles: Cycles, force_per_drive: float, stress
     widened to the grid of BRACKET_LEVELS drive levels across the duty's span (min rounded down, max up) and
     the widened cycles merged on the grid. Under these rules a local cycle whose interval contains another's
     has no more cycles to failure (the tests check it on every rule and library material), and the map from
-    drive to local stress is linear, so at every location D <= D(widened). The location of the largest upper
+    drive to local stress is monotonic, so at every location D <= D(widened). The location of the largest upper
     bound is then evaluated exactly, cycle by cycle; its damage D* is at most the largest damage of all, so
     every location whose upper bound reaches D* — the critical one among them — and every location where a
     widened cycle passes the static strength is evaluated exactly too: the life, the critical location and
     the static-failure flags are exact. The others report the upper bound (conservative); ``exact`` says which.
 
-    Locations with the same model and the same response have the same damage: each is evaluated once.
+    Locations with the same model and the same map have the same damage: each is evaluated once.
     """
-    k = locs.response.size
+    k = locations.response.size
     amp = np.zeros(k)
     mean = np.zeros(k)
-    scale = locs.response * force_per_drive * stress_factor
+    every = np.arange(k)
+
+    def local(rows, drive):
+        return locations.local(rows, drive, force_per_drive, stress_factor)
+
+    drive_map = locations.drive_map
+    if drive_map is None:
+        keys = locations.response * force_per_drive * stress_factor
+
+        def prepare(drive):  # the drives themselves
+            return drive
+
+        def values(rows, drive):
+            return keys[rows, None] * drive[None, :]
+    else:
+        keys = np.stack([drive_map.channel, drive_map.unit * stress_factor], axis=1)  # equal channel and unit
+
+        def prepare(drive):  # the section loads at the drives, once per chunk of cycles
+            return drive_map.loads_at(drive)
+
+        def values(rows, loads):
+            return (drive_map.unit[rows] * stress_factor)[:, None] * loads[drive_map.channel[rows]]
+    local_map = (prepare, values)
     dlo, dhi = cycles.lo, cycles.hi
     nc = dlo.size
-    # the largest local amplitude is that of the largest drive range (linearity)
+    # the largest local amplitude is that of the largest drive range (a monotonic map)
     if nc:
         big = int(np.argmax(dhi - dlo))
-        amp = np.abs(scale) * (dhi[big] - dlo[big]) / 2.0
-        mean = scale * (dhi[big] + dlo[big]) / 2.0 + 0.0  # + 0.0: no "-0" in the outputs
-    peak_drive = max(float(np.abs(dlo).max()), float(np.abs(dhi).max())) if nc else 0.0
+        at_lo, at_hi = local(every, dlo[[big]])[:, 0], local(every, dhi[[big]])[:, 0]
+        amp = np.abs(at_hi - at_lo) / 2.0
+        mean = (at_hi + at_lo) / 2.0 + 0.0  # + 0.0: no "-0" in the outputs
+    peak = np.zeros(k)
+    if nc:
+        ends = local(every, np.array([dlo.min(), dhi.max(), min(dlo.min(), 0.0), max(dhi.max(), 0.0)]))
+        peak = np.abs(ends).max(axis=1)
     utilisation = np.zeros(k)
     rows = np.zeros(k, bool)  # locations with a curve and a stress that is not round-off
-    for m, model in enumerate(locs.models):
-        mine = locs.model == m
+    for m, model in enumerate(locations.models):
+        mine = locations.model == m
         if nc:
-            ends = scale[mine, None] * np.array([dlo.min(), dhi.max()])[None, :]
-            utilisation[mine] = np.maximum(ends.max(axis=1) / model.Xt, -ends.min(axis=1) / model.Xc)
-        rows |= mine & ~(np.abs(scale) * peak_drive < NEGLIGIBLE * min(model.Xt, model.Xc))
+            extremes = ends[mine][:, :2]
+            utilisation[mine] = np.maximum(extremes.max(axis=1) / model.Xt, -extremes.min(axis=1) / model.Xc)
+        rows |= mine & ~(peak < NEGLIGIBLE * min(model.Xt, model.Xc))
     rows = np.flatnonzero(rows)
     aggregation = "each cycle"
     if rows.size * nc > EXACT_PAIRS:
         cycles = merge_identical(cycles)
         aggregation = "identical cycles merged"
-    bracket = rows.size * cycles.lo.size > EXACT_PAIRS and cycles.hi.max() > cycles.lo.min() and all(locs.models[m].rule in BRACKET_RULES
-                                                               for m in np.unique(locs.model[rows]))
+    bracket = rows.size * cycles.lo.size > EXACT_PAIRS and cycles.hi.max() > cycles.lo.min() and all(
+        locations.models[m].rule in BRACKET_RULES for m in np.unique(locations.model[rows]))
     if not bracket:
-        damage, failed = _damage(locs, rows, scale, cycles)
+        damage, failed = _damage(locations, rows, keys, local_map, cycles)
         return DamageResult(damage, failed, amp, mean, utilisation, None, aggregation)
-    upper, failed_wide = _damage(locs, rows, scale, _widened(cycles))
+    upper, failed_wide = _damage(locations, rows, keys, local_map, _widened(cycles))
     top = rows[[int(np.argmax(upper[rows]))]]
-    damage_top, failed_top = _damage(locs, top, scale, cycles)
+    damage_top, failed_top = _damage(locations, top, keys, local_map, cycles)
     reached = damage_top[top[0]]  # D* <= the largest damage of all
     exact = rows[(upper[rows] >= reached) | failed_wide[rows]]
     rest = exact[exact != top[0]]  # the top location is evaluated already
-    damage_exact, failed = _damage(locs, rest, scale, cycles)
+    damage_exact, failed = _damage(locations, rest, keys, local_map, cycles)
     damage_exact[top], failed[top] = damage_top[top], failed_top[top]
     upper[exact] = damage_exact[exact]
     evaluated = np.zeros(k, bool)
@@ -331,42 +415,61 @@ def _widened(cycles: Cycles) -> Cycles:
     return merge_identical(Cycles(np.minimum(grid(i_lo), cycles.lo), np.maximum(grid(i_hi), cycles.hi), cycles.count))
 
 
-def _damage(locs: Locations, rows: np.ndarray, scale: np.ndarray, cycles: Cycles) -> tuple[np.ndarray, np.ndarray]:
-    """Miner damage and static-failure flags at the locations ``rows`` (others 0 and False), cycle by cycle."""
-    k = locs.response.size
+def _damage(locations: Locations, rows: np.ndarray, keys: np.ndarray, local_map, cycles: Cycles
+            ) -> tuple[np.ndarray, np.ndarray]:
+    """Miner damage and static-failure flags at the locations ``rows`` (others 0 and False), cycle by cycle.
+
+    keys : np.ndarray — what makes two locations' local histories equal: the local quantity per unit drive
+        (k,), or the channel and the quantity per unit section load (k, 2)
+    local_map : (prepare, values) — prepare(drives) once per chunk of cycles, values(rows, prepared) the local
+        quantity of the locations ``rows`` there, shape (len(rows), len(drives)) [Pa or -]
+    """
+    prepare, values = local_map
+    k = locations.response.size
     damage = np.zeros(k)
     failed = np.zeros(k, bool)
     dlo, dhi, count = cycles.lo, cycles.hi, cycles.count
     nc = dlo.size
     if nc == 0 or rows.size == 0:
         return damage, failed
-    for m, model in enumerate(locs.models):
-        mine = rows[locs.model[rows] == m]
+    groups = []
+    for m, model in enumerate(locations.models):
+        mine = rows[locations.model[rows] == m]
         if not mine.size:
             continue
-        unique, back = np.unique(scale[mine], return_inverse=True)  # equal response, equal damage
-        d = np.zeros(unique.size)
-        f = np.zeros(unique.size, bool)
-        rows_at_once, cycles_at_once = max(1, CHUNK // nc), min(nc, CHUNK)
-        for r0 in range(0, unique.size, rows_at_once):
-            s = unique[r0 : r0 + rows_at_once, None]
-            for c0 in range(0, nc, cycles_at_once):
-                c = slice(c0, c0 + cycles_at_once)
-                a, b = s * dlo[None, c], s * dhi[None, c]
+        # equal map, equal damage: one location of each
+        _, first, back = np.unique(keys[mine], axis=0, return_index=True, return_inverse=True)
+        groups.append((model, mine, mine[first], back.reshape(-1)))
+    sums = [np.zeros(unique.size) for _, _, unique, _ in groups]
+    flags = [np.zeros(unique.size, bool) for _, _, unique, _ in groups]
+    cycles_at_once = min(nc, CHUNK)
+    for c0 in range(0, nc, cycles_at_once):
+        c = slice(c0, c0 + cycles_at_once)
+        at_lo, at_hi = prepare(dlo[c]), prepare(dhi[c])
+        for (model, _, unique, _), d, f in zip(groups, sums, flags):
+            rows_at_once = max(1, CHUNK // nc)
+            for r0 in range(0, unique.size, rows_at_once):
+                some = unique[r0 : r0 + rows_at_once]
+                a, b = values(some, at_lo), values(some, at_hi)
                 N = model.cycles_to_failure(np.minimum(a, b), np.maximum(a, b))
                 zero = N <= 0
                 f[r0 : r0 + rows_at_once] |= zero.any(axis=1)
                 d[r0 : r0 + rows_at_once] += (count[None, c] / np.where(zero, FIRST_LOAD_FAILURE, N)).sum(axis=1)
+    for (_, mine, _, back), d, f in zip(groups, sums, flags):
         damage[mine] = d[back]
         failed[mine] = f[back]
     return damage, failed
 
 
-def cycle_lives(locs: Locations, k: int, cycles: Cycles, force_per_drive: float, stress_factor: float) -> np.ndarray:
-    """Cycles to failure of every counted cycle at location ``k`` (inf without a curve) [-]."""
-    m = int(locs.model[k])
+def cycle_lives(locations: Locations, k: int, cycles: Cycles, force_per_drive: float, stress_factor: float
+                ) -> np.ndarray:
+    """Cycles to failure of every counted cycle at location ``k`` (inf without a curve) [-].
+
+    force_per_drive : float — as in ``miner_damage`` (unused with a large-deflection map)
+    """
+    m = int(locations.model[k])
     if m < 0:
         return np.full(cycles.lo.size, np.inf)
-    s = locs.response[k] * force_per_drive * stress_factor
-    a, b = s * cycles.lo, s * cycles.hi
-    return locs.models[m].cycles_to_failure(np.minimum(a, b), np.maximum(a, b))
+    a = locations.local(np.array([k]), cycles.lo, force_per_drive, stress_factor)[0]
+    b = locations.local(np.array([k]), cycles.hi, force_per_drive, stress_factor)[0]
+    return locations.models[m].cycles_to_failure(np.minimum(a, b), np.maximum(a, b))

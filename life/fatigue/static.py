@@ -7,6 +7,7 @@ here, and the estimate's first failure (``flexcycle.estimate``).
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass, replace
 
 import numpy as np
@@ -73,12 +74,15 @@ class StaticCheck:
 
 
 
-def static_check(design: Design, response: BeamResponse, force_per_drive: float) -> tuple[StaticCheck, list[str]]:
+def static_check(design: Design, response: BeamResponse, force_per_drive: float,
+                 fields_at: Callable | None = None) -> tuple[StaticCheck, list[str]]:
     """Max-stress, Tsai-Wu, fibre max-strain and interlaminar reserves at both extremes of the duty.
 
     design : Design — the validated design (its plies, duty extremes and stress factor)
     response : BeamResponse — every location's stress and strain per unit drive force [Pa/N, 1/N]
     force_per_drive : float — drive force per unit of the duty's drive [N/m or N/N]
+    fields_at : callable(drive) -> flexcycle.response_map.SectionFields, or None — large deflection: the ply
+        fields at a drive (the response per unit force is then used for the places only)
     Returns the smallest reserve with where it is, and the notes for the warnings (a check left out, a
     reserve below 1).
 
@@ -104,10 +108,16 @@ def static_check(design: Design, response: BeamResponse, force_per_drive: float)
         force = drive * force_per_drive * design.stress_factor
         if force == 0.0:
             continue
-        stress = response.stress_12 * force  # (n, p, 2, 3)
+        if fields_at is None:
+            stress = response.stress_12 * force  # (n, p, 2, 3)
+            tau = np.concatenate([response.tau_xz, response.tau_xz_peak[..., None]], axis=2) * force  # (n, p, 3)
+            eps1 = response.strain_12[..., 0] * force
+        else:
+            fields, factor = fields_at(drive), design.stress_factor
+            stress = fields.stress_12 * factor
+            tau = np.concatenate([fields.tau_xz, fields.tau_xz_peak[..., None]], axis=2) * factor
+            eps1 = fields.strain_12[..., 0] * factor
         max_stress = max_stress_reserve(stress, strengths)
-        tau = np.concatenate([response.tau_xz, response.tau_xz_peak[..., None]], axis=2) * force  # (n, p, 3)
-        eps1 = response.strain_12[..., 0] * force
         with np.errstate(divide="ignore"):  # maximum strain along the fibres (Jones, 2nd ed., sec. 2.9.3)
             strain_reserve = np.where(eps1 > 0, eps1t / eps1, np.where(eps1 < 0, eps1c / -eps1, np.inf))
         per = {

@@ -23,8 +23,11 @@ def drop_positions(result: LifeResult) -> list[float]:
 
 
 def peak_force(result: LifeResult) -> float:
-    """Drive force at the duty extreme of largest magnitude, with its sign [N]."""
+    """Drive force at the duty extreme of largest magnitude, with its sign [N] (under large deflection, the
+    elastica's)."""
     lo, hi = result.design.duty.extremes
+    if result.drive_response is not None:
+        return float(result.drive_response.force(hi if abs(hi) >= abs(lo) else lo)[0])
     return (hi if abs(hi) >= abs(lo) else lo) * result.force_per_drive
 
 
@@ -48,13 +51,20 @@ class SpanEnvelope:
 
 
 def span_envelope(result: LifeResult) -> SpanEnvelope:
-    """ε1 = (ε1 per unit force) × force at each duty extreme; linear, so the extremes bound the whole duty."""
+    """ε1 at each duty extreme: (ε1 per unit force) × force under linear theory, the elastica's fields under large
+    deflection; the map is monotonic in the drive, so the extremes bound the whole duty."""
     response = result.response
     lo, hi = result.design.duty.extremes
-    forces = np.array([lo, hi]) * result.force_per_drive
     n = response.x.size
     first = np.argmax(response.present, axis=1)
     last = response.present.shape[1] - 1 - np.argmax(response.present[:, ::-1], axis=1)
+    mapping = result.drive_response
+    if mapping is not None and mapping.large:
+        fields = [mapping.fields(d).strain_12 for d in (lo, hi)]
+        bottom = np.sort(np.stack([f[np.arange(n), first, 0, 0] for f in fields], axis=1), axis=1)
+        top = np.sort(np.stack([f[np.arange(n), last, 1, 0] for f in fields], axis=1), axis=1)
+        return SpanEnvelope(response.x, bottom, top)
+    forces = np.array([lo, hi]) * result.force_per_drive
     per_n_bottom = response.strain_12[np.arange(n), first, 0, 0]
     per_n_top = response.strain_12[np.arange(n), last, 1, 0]
     bottom = np.sort(per_n_bottom[:, None] * forces[None, :], axis=1)
@@ -74,10 +84,18 @@ class ForceDeflection:
     force: np.ndarray
 
 
-def force_deflection(result: LifeResult, points: int = 50) -> ForceDeflection:
-    """F = δ/C over the duty's range (linear theory; C the load-point compliance, bending + shear)."""
+def force_deflection(result: LifeResult, points: int = 50, linear: bool = False) -> ForceDeflection:
+    """The load-point curve over the duty's range: F = δ/C under linear theory (C the load-point compliance,
+    bending + shear), the elastica's under large deflection; ``linear``: the small-deflection line regardless."""
     lo, hi = result.design.duty.extremes
-    f = np.linspace(min(lo, 0.0), max(hi, 0.0), points) * result.force_per_drive
+    drive = np.linspace(min(lo, 0.0), max(hi, 0.0), points)
+    mapping = result.drive_response
+    if mapping is not None and mapping.large and not linear:
+        return ForceDeflection(mapping.deflection(drive), mapping.force(drive))
+    if mapping is not None and mapping.large:  # the small-deflection line over the same deflections
+        deflection = mapping.deflection(drive)
+        return ForceDeflection(deflection, deflection / result.response.compliance)
+    f = drive * result.force_per_drive
     return ForceDeflection(f * result.response.compliance, f)
 
 

@@ -1,6 +1,6 @@
 """The design-review report's figures, each a function of the estimate that returns a matplotlib Figure.
 
-Read top to bottom: layup, force–deflection, strain envelope, through-thickness, duty, fatigue curve, damage,
+Read top to bottom: layup, force–deflection, deformed shapes, strain envelope, through-thickness, duty, fatigue curve, damage,
 then the registry ``FIGURE_MAKERS`` (name → maker of (result, cycles, locations)) in the report's order. Each
 figure is drawn in the shared style (``flexcycle.report.style``) with fixed margins; turning it into SVG is the
 page's business (``flexcycle.report.page``).
@@ -107,28 +107,83 @@ def figure_layup(result: LifeResult, display: Display = SI) -> Figure:
 
 
 def figure_force_deflection(result: LifeResult, display: Display = SI) -> Figure:
-    """(a) Force against load-point deflection over the duty's range, the energy at the peak drive shaded."""
+    """(a) Force against load-point deflection over the duty's range, the energy at the peak drive shaded; under
+    large deflection the elastica's curve with the small-deflection line beside it."""
     fd = force_deflection(result)
     lo, hi = result.design.duty.extremes
-    force_per_drive, C = result.force_per_drive, result.response.compliance
+    large = result.theory == "large-deflection"
     peak = peak_force(result)
+    mapping = result.drive_response
     with matplotlib.rc_context(STYLE):
         fig, ax = figure_with_axes((6.2, 3.6))
         length, force = display.scale("deflection"), display.scale("force")
-        ax.plot(fd.deflection * length, fd.force * force, color=PALETTE[0],
-                label=f"k = {display.both(result.response.stiffness, 'stiffness')}")
-        f_fill = np.linspace(0.0, peak, 50)
-        ax.fill_between(f_fill * C * length, 0, f_fill * force, color=PALETTE[3], alpha=0.35,
+        label = (f"elastica; secant {display.both(result.summary()['secant_stiffness_n_per_m'], 'stiffness')} at the peak"
+                 if large else f"k = {display.both(result.response.stiffness, 'stiffness')}")
+        ax.plot(fd.deflection * length, fd.force * force, color=PALETTE[0], label=label)
+        if large:
+            line = force_deflection(result, linear=True)
+            ax.plot(line.deflection * length, line.force * force, color=PALETTE[4], ls="--", lw=1.0,
+                    label=f"linear theory, k = {display.both(result.response.stiffness, 'stiffness')}")
+        # the stored energy ∫F dδ: the area under the curve from zero to the peak drive
+        to_peak = (fd.force * np.sign(peak) >= 0) & (np.abs(fd.force) <= abs(peak) * (1 + 1e-12))
+        ax.fill_between(fd.deflection[to_peak] * length, 0, fd.force[to_peak] * force, color=PALETTE[3], alpha=0.35,
                         label=f"stored at the peak drive: U = {display.both(result.storage.energy, 'energy')}")
         for d in sorted({lo, hi}):
-            ax.plot(d * force_per_drive * C * length, d * force_per_drive * force, "o", color=PALETTE[1], ms=5)
+            if mapping is not None:
+                ax.plot(mapping.deflection(d)[0] * length, mapping.force(d)[0] * force, "o", color=PALETTE[1], ms=5)
+            else:
+                force_per_drive, C = result.force_per_drive, result.response.compliance
+                ax.plot(d * force_per_drive * C * length, d * force_per_drive * force, "o", color=PALETTE[1], ms=5)
         ax.plot([], [], "o", color=PALETTE[1], ms=5, label="duty extremes")
         ax.axhline(0, color="#999", lw=0.6), ax.axvline(0, color="#999", lw=0.6)
         ax.set_xlabel(f"load-point deflection δ [{display.unit('deflection')}]")
         ax.set_ylabel(f"load-point force F [{display.unit('force')}]")
-        ax.set_title("force–deflection over the duty (linear theory)")
+        ax.set_title("force–deflection over the duty (" + ("large deflection, the elastica)" if large
+                                                           else "linear theory)"))
         ax.legend(loc="upper left", bbox_to_anchor=(1.01, 1.0))
         return arrange(fig, right=2.4)
+
+
+def figure_deformed_shapes(result: LifeResult, display: Display = SI) -> Figure:
+    """(a′) The deformed part drawn to scale (equal axes) at several drive levels up to the largest of the duty.
+
+    Under large deflection the elastica's shapes (the end moves along the load and toward the clamp); under linear
+    theory the small-deflection line y(x) = ∫∫M/EI dx² scaled to the load-point deflection (no pull-in)."""
+    lo, hi = result.design.duty.extremes
+    top = hi if abs(hi) >= abs(lo) else lo
+    levels = top * np.array([0.25, 0.5, 0.75, 1.0])
+    beam = result.design.beam
+    mapping = result.drive_response
+    length = display.scale("deflection")
+    unit, scale = drive_display(result.design.duty.drive, display)
+    with matplotlib.rc_context(STYLE):
+        fig, ax = figure_with_axes((7.0, 4.2))
+        ax.plot([0, beam.length * length], [0, 0], color="#999", lw=1.0, ls=":", label="unloaded")
+        if mapping is not None and mapping.large:
+            shapes = mapping.shapes(levels)
+            for k, d in enumerate(levels):
+                ax.plot(shapes.x[k] * length, shapes.y[k] * length, color=PALETTE[k % len(PALETTE)], lw=1.6,
+                        label=f"drive {d * scale:.3g} {unit}: F = {display.value(mapping.force(d)[0], 'force')}")
+            title = "deformed shapes to scale (the elastica)"
+        else:
+            response = result.response
+            x = response.x
+            rotation = np.concatenate([[0.0], np.cumsum(0.5 * (response.curvature[1:] + response.curvature[:-1])
+                                                        * np.diff(x))])
+            # κx per unit force is negative for a positive moment (Mx = −m/b): the deflection along the load is −∫∫κ
+            shape = -np.concatenate([[0.0], np.cumsum(0.5 * (rotation[1:] + rotation[:-1]) * np.diff(x))])
+            per_force = response.compliance / shape[-1] if shape[-1] else 1.0  # scaled to the load-point deflection
+            for k, d in enumerate(levels):
+                f = d * result.force_per_drive
+                ax.plot(x * length, shape * per_force * f * length, color=PALETTE[k % len(PALETTE)], lw=1.6,
+                        label=f"F = {display.value(f, 'force')}")
+            title = "deflected line to scale (linear theory: no pull-in)"
+        ax.set_aspect("equal", adjustable="datalim")
+        ax.set_xlabel(f"along the unloaded beam x [{display.unit('deflection')}]")
+        ax.set_ylabel(f"along the load y [{display.unit('deflection')}]")
+        ax.set_title(title)
+        ax.legend(loc="best")
+        return arrange(fig)
 
 
 def figure_strain_envelope(result: LifeResult, display: Display = SI) -> Figure:
@@ -162,20 +217,25 @@ def figure_through_thickness(result: LifeResult, display: Display = SI) -> Figur
     peak = peak_force(result)
     k = c.station
     present = np.flatnonzero(response.present[k])
+    fields, per = response, peak  # linear: the response per unit force times the peak force
+    mapping = result.drive_response
+    if mapping is not None and mapping.large:  # the elastica's fields at the peak drive
+        lo, hi = result.design.duty.extremes
+        fields, per = mapping.fields(hi if abs(hi) >= abs(lo) else lo), 1.0
     with matplotlib.rc_context(STYLE):
         fig, (a1, a2) = figure_with_axes((7.5, 4.6), 1, 2, sharey=True)
         zs = display.scale("position")
         stress = display.scale("stress")
         z = response.z[k, present] * zs  # (ply, face): each ply a straight segment between its faces
-        for ax, field, factor in ((a1, response.strain_12, peak * 100), (a2, response.stress_12, peak * stress)):
+        for ax, field, factor in ((a1, fields.strain_12, per * 100), (a2, fields.stress_12, per * stress)):
             for comp, colour, width in ((0, PALETTE[0], 1.6), (1, PALETTE[3], 1.6), (2, PALETTE[4], 1.0)):
                 values = field[k, present, :, comp] * factor
                 ax.add_collection(LineCollection(np.stack([values, z], axis=-1), colors=colour, linewidths=width))
             ax.autoscale_view()
         # τxz through each ply: bottom face, interior peak (the neutral axis when inside), top face
         tau_z = np.stack([response.z[k, present, 0], response.z_tau_peak[k, present], response.z[k, present, 1]], axis=1) * zs
-        tau = np.stack([response.tau_xz[k, present, 0], response.tau_xz_peak[k, present], response.tau_xz[k, present, 1]],
-                       axis=1) * peak * stress
+        tau = np.stack([fields.tau_xz[k, present, 0], fields.tau_xz_peak[k, present], fields.tau_xz[k, present, 1]],
+                       axis=1) * per * stress
         order = np.argsort(tau_z, axis=1)
         tau_z, tau = np.take_along_axis(tau_z, order, 1), np.take_along_axis(tau, order, 1)
         a2.add_collection(LineCollection(np.stack([tau, tau_z], axis=-1), colors=PALETTE[5], linewidths=1.3,
@@ -268,8 +328,8 @@ def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame, display: Disp
         strain = model.curves[0].basis == "strain"
         ys, yunit = (100.0, "%") if strain else (display.scale("stress"), display.unit("stress"))
         counted = cycles_of_table(cycles)
-        s = locations.response[k] * result.force_per_drive * d.stress_factor
-        a, b = s * counted.lo, s * counted.hi
+        a = locations.local(np.array([k]), counted.lo, result.force_per_drive, d.stress_factor)[0]
+        b = locations.local(np.array([k]), counted.hi, result.force_per_drive, d.stress_factor)[0]
         lo, hi = np.minimum(a, b), np.maximum(a, b)
         sa, sm = 0.5 * (hi - lo), 0.5 * (hi + lo)
         N = cycle_lives(locations, k, counted, result.force_per_drive, d.stress_factor)
@@ -430,6 +490,7 @@ FIGURE_MAKERS: dict[str, Callable[..., Figure]] = {
     "duty": lambda result, cycles, locations, display=SI: figure_duty(result, cycles, display),
     "spectrum": lambda result, cycles, locations, display=SI: figure_spectrum(result, display),
     "force-deflection": lambda result, cycles, locations, display=SI: figure_force_deflection(result, display),
+    "deformed-shapes": lambda result, cycles, locations, display=SI: figure_deformed_shapes(result, display),
     "strain-envelope": lambda result, cycles, locations, display=SI: figure_strain_envelope(result, display),
     "through-thickness": lambda result, cycles, locations, display=SI: figure_through_thickness(result, display),
     "fatigue-curve": lambda result, cycles, locations, display=SI: figure_fatigue_curve(result, cycles, display),

@@ -19,7 +19,7 @@ from flexcycle.display import SI, Display, format_number, from_where, per_day
 from flexcycle.estimate import LifeResult
 from flexcycle.report.data import drop_positions
 from flexcycle.report.figures import drive_display, layup_exaggeration
-from flexcycle.report.texts import CAUTIONS, LIMITS, METHODS, RULE_NAMES
+from flexcycle.report.texts import CAUTIONS, LARGE_DEFLECTION_LIMIT, LIMITS, METHODS, RULE_NAMES, THEORY_TEXT
 from flexcycle.requirement import verdict_of, verdict_text
 
 # ---------------------------------------------------------------------------------------------
@@ -252,6 +252,13 @@ def _curve_text(curve, display: Display = SI) -> str:
     return f"{curve.form}, {basis} basis, R = {curve.R:g}, S1 = {s1}, {slope}{extra}; source: {curve.source}"
 
 
+def _limits(theory: str) -> list[str]:
+    """The models' limits; under large deflection the small-deflection limit gives way to the elastica's."""
+    if theory != "large-deflection":
+        return LIMITS
+    return [LARGE_DEFLECTION_LIMIT] + LIMITS[1:]
+
+
 def section_method(result: LifeResult, display: Display = SI) -> str:
     d = result.design
     locations = result.locations
@@ -268,8 +275,7 @@ def section_method(result: LifeResult, display: Display = SI) -> str:
         for cv in model.curves:
             curves.append((key[0], key[1], model.rule, _curve_text(cv, display)))
     choices = [
-        ("theory", "linear elastic, small deflection (ASTM D790 / D6272 consistent); every local stress is the drive "
-                   "times a response per unit force, so the drive is counted once"),
+        ("theory", THEORY_TEXT["large-deflection"] if d.theory == "large-deflection" else THEORY_TEXT["linear"]),
         ("section model", "narrow beam (free anticlastic curvature, 1/d11)" if d.beam.section == "beam"
          else "plate (cylindrical bending)"),
         ("cycle counting", "rainflow, ASTM E1049-85; residue "
@@ -286,7 +292,7 @@ def section_method(result: LifeResult, display: Display = SI) -> str:
 <h3>Models and their sources</h3>
 {table_html(METHODS, header=("step", "method"))}
 <h3>Limits of the models</h3>
-<ul>{''.join(f"<li>{escape_html(x)}</li>" for x in LIMITS)}</ul>
+<ul>{''.join(f"<li>{escape_html(x)}</li>" for x in _limits(d.theory))}</ul>
 </section>"""
 
 
@@ -330,7 +336,12 @@ def section_results(result: LifeResult, cycles: pd.DataFrame, locations: pd.Data
                "governs" if name == result.static.criterion else "") for name, v in result.static.by_criterion.items()]
     st = result.static
     figures = [
-        ("stiffness at the load point", display.both(s["stiffness_n_per_m"], "stiffness")),
+        ("theory", "large deflection (the elastica)" if s["theory"] == "large-deflection" else "linear, small deflection"),
+        ("stiffness at the load point", display.both(s["stiffness_n_per_m"], "stiffness")
+         + (" (small loads)" if s["theory"] == "large-deflection" else "")),
+        ("secant stiffness at the peak drive", display.both(s["secant_stiffness_n_per_m"], "stiffness")),
+        ("force and deflection at the peak drive", f"{display.both(s['peak_force_n'], 'force')}, "
+                                                   f"{display.both(s['peak_deflection_m'], 'deflection')}"),
         ("mass", display.both(s["mass_kg"], "mass")),
         ("peak fibre strain |ε1|", quantity(s["peak_strain"], "%", scale=100, digits=3)),
         ("energy at the peak drive", display.both(s["peak_energy_j"], "energy")),
@@ -339,6 +350,9 @@ def section_results(result: LifeResult, cycles: pd.DataFrame, locations: pd.Data
         ("energy-storage efficiency", f"{s['energy_efficiency']:.3f}"),
         ("first bending frequency", quantity(s.get("first_mode_hz"), "Hz") + " (the part alone, Euler–Bernoulli)"),
     ]
+    if s["tip_rotation_deg"] is not None:
+        figures.insert(4, ("end rotation and pull-in at the peak drive",
+                           f"{s['tip_rotation_deg']:.3g}°, {display.both(s['pull_in_m'], 'deflection')} toward the clamp"))
     worst = locations.sort_values("damage_per_block", ascending=False).head(10)
     cells, local_unit = _location_cells(worst)
     loc_rows = [(display.pair(r.x_m, "position"), r.ply, r.material, r.face, r["mode"], amplitude, mean,
@@ -354,15 +368,19 @@ def section_results(result: LifeResult, cycles: pd.DataFrame, locations: pd.Data
 <h3>Stiffness, mass and energy</h3>
 {table_html(figures, cls="kv")}
 {figure_html(svg["force-deflection"], "3", "Force against load-point deflection over the duty's range; the shaded area is the "
-         "elastic energy stored at the peak drive, released at once if the part breaks.")}
-{figure_html(svg["strain-envelope"], "4", "Fibre strain along the span at the two outer faces, from the smallest to the largest "
+         "elastic energy stored at the peak drive, released at once if the part breaks"
+         + ("; the dashed line is the small-deflection (linear) answer." if d.theory == "large-deflection" else "."))}
+{figure_html(svg["deformed-shapes"], "4", "The part drawn to scale at a quarter, half, three quarters and all of the "
+         "largest drive of the duty" + (" (the elastica: the end turns and moves toward the clamp)."
+                                        if d.theory == "large-deflection" else " (linear theory: no pull-in)."))}
+{figure_html(svg["strain-envelope"], "5", "Fibre strain along the span at the two outer faces, from the smallest to the largest "
          "drive of the duty; dashed grey lines are ply drops, the red line is the critical station.")}
-{figure_html(svg["through-thickness"], "5", "Ply-axis strains and stresses through the thickness at the critical station at the "
+{figure_html(svg["through-thickness"], "6", "Ply-axis strains and stresses through the thickness at the critical station at the "
          "peak drive; thin lines are ply boundaries, the shaded band is the critical ply; the dashed line is the transverse "
          "shear τxz (interlaminar, or a sandwich core's shear).")}
-{figure_html(svg["fatigue-curve"], "6", "The fatigue curve (or constant-life diagram) of the critical location with the "
+{figure_html(svg["fatigue-curve"], "7", "The fatigue curve (or constant-life diagram) of the critical location with the "
          "duty's cycles there, each moved to the curve's R by the mean-stress rule.")}
-{figure_html(svg["damage"], "7", "Miner damage per block along the span, and the share of the critical "
+{figure_html(svg["damage"], "8", "Miner damage per block along the span, and the share of the critical "
          "location's damage by drive range of the cycles.")}
 <h3>Most damaged locations</h3>
 <p>Amplitude and mean of the largest cycle, in the basis of the location's curve: MPa for a stress-basis

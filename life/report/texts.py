@@ -26,6 +26,12 @@ METHODS = [
      "gauge strain map (ε = ε⁰ + zκ at the gauge's face, Kaw Eq. 4.16)"),
     ("Natural frequency", "first bending mode of the part alone (EI(x) and mass per length from the laminate, "
      "taper and drops) by Euler–Bernoulli Hermite elements, checked against Blevins' λ₁ for uniform beams"),
+    ("Large deflection", "theory = \"large-deflection\": the inextensible elastica in arc length with small strains "
+     "(each section keeps the laminate's linear moment–curvature law, EI varying with taper and ply drops), an end "
+     "load of fixed direction perpendicular to the unloaded beam, shear flexibility as Reissner's beam "
+     "(ZAMP 23, 1972); solved by shooting (scipy solve_ivp, Chandrupatla's bracketed root) and tabulated against "
+     "the drive until interpolated section loads are within 0.1 %; checked against Bisshopp & Drucker, Q. Appl. "
+     "Math. 3 (1945); energy U = ∫F dδ"),
 ]
 
 LIMITS = [
@@ -40,6 +46,19 @@ LIMITS = [
     "fixture compliance); drive content above about a third of it is warned of, as the part's own vibration "
     "changes the stresses there",
 ]
+
+THEORY_TEXT = {
+    "linear": "linear elastic, small deflection (ASTM D790 / D6272 consistent); every local stress is the drive times "
+              "a response per unit force, so the drive is counted once",
+    "large-deflection": "large deflection (the elastica): inextensible, small strains, the section law linear, the end "
+                        "load keeps its direction (cantilever: free end; guided: the end slides along the beam axis "
+                        "and does not rotate); every local stress is a tabulated, monotonic function of the drive, "
+                        "so the drive is counted once and each cycle's extremes are mapped through it",
+}
+
+LARGE_DEFLECTION_LIMIT = ("large deflection: small strains and an inextensible axis; the end load is a dead load of "
+                          "fixed direction (a linkage whose force turns with the part loads it differently); the "
+                          "section's own shape change (anticlastic curvature at large curvature) is not modelled")
 
 RULE_NAMES = {
     "goodman": "Goodman (linear constant-life lines to Xt and Xc)",
