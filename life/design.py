@@ -25,6 +25,7 @@ from flexcycle.measured import (
     gauge_map,
     gauge_of,
     psd_duty,
+    strain_extremes,
 )
 from flexcycle.mechanics.beam import DEFAULT_STATIONS, SUPPORTS, Beam, Ply, segments, validate
 from flexcycle.mechanics.energy import DRIVES
@@ -292,7 +293,8 @@ def _unit_of_drive(unit: str, drive: str, where: str) -> None:
 
 
 def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
-          progress: Callable[[int, int], None] | None = None, beam: Beam | None = None) -> Duty:
+          progress: Callable[[int, int], None] | None = None, beam: Beam | None = None,
+          theory: str = "linear") -> Duty:
     t = _table(doc, "duty", name)
     where = f"{name} [duty]"
     _unknown(t, DUTY_KEYS, where)
@@ -391,6 +393,9 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
             signal = envelope = digest = None
             path = None
     measured = drive
+    if mapping is not None and theory == "large-deflection":  # the elastica's map over the duty's strains
+        mapping = gauge_map(beam, gauge, f"{where} gauge", theory,
+                            strain_extremes(cycles, None if peaks is None else tuple(peaks)))
     if mapping is not None:  # gauge strain → load-point force through the inverse map (flexcycle.measured)
         cycles = force_cycles(cycles, mapping)
         if peaks is not None:
@@ -432,7 +437,7 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     if theory == "large-deflection":
         with input_errors(f"{name} "):  # three- and four-point bending are not solved under the elastica
             refuse_unsolved(beam.support)
-    duty = _duty(doc, duty_name or name, base_dir, notes, progress, beam)
+    duty = _duty(doc, duty_name or name, base_dir, notes, progress, beam, theory)
     fat = _table(doc, "fatigue", name, required=False)
     _unknown(fat, FATIGUE_KEYS, f"{name} [fatigue]")
     rule = _choice(fat.get("mean_stress", "goodman"), RULES, f"{name} [fatigue] mean_stress")

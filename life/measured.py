@@ -5,7 +5,7 @@ The design file's [duty] may give, instead of a time history or a block table, a
 spectral range distribution (`flexcycle.spectra.spectral`). With ``drive = "strain"`` the duty (a history, a
 block table or a PSD) is the axial strain a gauge reads at ``gauge = { x, face, ply }``: its cycles are turned
 into load-point force cycles through the inverse of the monotone map force → gauge strain
-(`flexcycle.mechanics.gauge`), so the damage path, the report and the outputs are those of a force drive.
+(`flexcycle.mechanics.gauge`; under ``theory = "large-deflection"`` the elastica's, `flexcycle.mechanics.large_gauge`), so the damage path, the report and the outputs are those of a force drive.
 Rainflow counting commutes with a monotone map (the reversals and their order are kept; a decreasing map,
 a gauge on the compression face, swaps each cycle's min and max), so counting the strain and mapping the
 cycles' extremes is the same as counting the mapped history.
@@ -121,12 +121,28 @@ def gauge_of(table: Mapping, where: str, beam: Beam) -> Gauge:
     return Gauge(x, face, ply)
 
 
-def gauge_map(beam: Beam, gauge: Gauge, where: str) -> GaugeMap:
-    """The force → gauge strain map of the part (linear theory: a straight line through zero)."""
+def gauge_map(beam: Beam, gauge: Gauge, where: str, theory: str = "linear",
+              strains: tuple[float, float] | None = None) -> GaugeMap:
+    """The force → gauge strain map of the part: under linear theory a straight line through zero; under
+    ``theory = "large-deflection"`` the elastica's tabulated monotone map (`flexcycle.mechanics.large_gauge`),
+    covering the duty's extreme gauge strains ``strains`` = (lowest, highest) [-].
+    """
     try:
-        return linear_gauge_map(beam, gauge)
+        if theory != "large-deflection":
+            return linear_gauge_map(beam, gauge)
+        assert strains is not None  # the duty's strains are read before the large-deflection map is made
+        # the elastica's solvers (scipy.integrate, scipy.optimize) are imported only when needed
+        from flexcycle.mechanics.large_gauge import large_gauge_map
+
+        return large_gauge_map(beam, gauge, *strains)
     except mechanics_errors.InputError as exc:
         raise InputError(f"{where} {exc}") from None
+
+
+def strain_extremes(cycles: Cycles, peaks: tuple[float, float] | None) -> tuple[float, float]:
+    """The lowest and highest gauge strain of the duty: its cycles' extremes and, for a PSD, its expected peaks [-]."""
+    values = [float(cycles.lo.min()), float(cycles.hi.max())] + ([] if peaks is None else list(peaks))
+    return min(values), max(values)
 
 
 def force_cycles(cycles: Cycles, mapping: GaugeMap) -> Cycles:

@@ -39,15 +39,35 @@ class Gauge:
     ply: int | None = None
 
 
-def gauge_strain_per_force(beam: Beam, gauge: Gauge) -> float:
-    """Axial strain at the gauge per unit drive force [1/N] (linear theory).
+@dataclass(frozen=True)
+class GaugeSection:
+    """The section under a gauge and what its strain reads per unit load there.
+
+    piece : int — index of the beam segment (`flexcycle.mechanics.beam.segments`) that holds the gauge
+    strain_per_moment : float — axial strain at the gauge per unit bending moment of the section (positive
+        moment: ply 1 in tension) [1/(N·m)]
+    moment_per_force : float — the section's bending moment per unit drive force, small deflection [m]
+    """
+
+    piece: int
+    strain_per_moment: float
+    moment_per_force: float
+
+    @property
+    def strain_per_force(self) -> float:
+        """Axial strain at the gauge per unit drive force, small deflection [1/N]."""
+        return self.strain_per_moment * self.moment_per_force
+
+
+def gauge_section(beam: Beam, gauge: Gauge) -> GaugeSection:
+    """The gauge's section: its segment, strain per unit moment and moment per unit force (checked placement).
 
     Notes
     -----
-    εx = Mx·(ε⁰x + z·κx) per unit Mx, Mx = −m(x)/b(x) the moment per width per unit drive force (negative:
-    ply 1, at z = −h/2, in tension under positive drive); m(x) from Roark's Formulas for Stress and Strain,
-    7th ed., Table 8.1 (see `flexcycle.mechanics.beam.moment_shear`). At a ply drop the laminate of the stretch
-    toward the end is taken (the dropped ply has ended there).
+    εx = Mx·(ε⁰x + z·κx) per unit Mx (Kaw, Eq. 4.16), Mx = −M/b(x) the moment per width (negative: ply 1, at
+    z = −h/2, in tension under a positive moment); M per unit drive force m(x) from Roark's Formulas for Stress
+    and Strain, 7th ed., Table 8.1 (see `flexcycle.mechanics.beam.moment_shear`). At a ply drop the laminate of
+    the stretch toward the end is taken (the dropped ply has ended there).
     """
     if gauge.face not in GAUGE_FACES:
         raise InputError(f"gauge face: must be one of {', '.join(map(repr, GAUGE_FACES))}, got {gauge.face!r}")
@@ -57,8 +77,8 @@ def gauge_strain_per_force(beam: Beam, gauge: Gauge) -> float:
         raise InputError(f"gauge x: {gauge.x * 1e3:g} mm lies outside the part; the gauge must sit between "
                          f"{where} (0 mm) and {length * 1e3:g} mm from it")
     segs = segments(beam)
-    inside = [s for s in segs if s.x0 <= gauge.x < s.x1] or [segs[-1]]
-    seg = inside[0]
+    piece = next((k for k, s in enumerate(segs) if s.x0 <= gauge.x < s.x1), len(segs) - 1)
+    seg = segs[piece]
     if gauge.ply is not None:
         if not 1 <= gauge.ply <= len(beam.plies):
             raise InputError(f"gauge ply: the stack has plies 1 to {len(beam.plies)}, got {gauge.ply}")
@@ -71,14 +91,18 @@ def gauge_strain_per_force(beam: Beam, gauge: Gauge) -> float:
     side = 0 if gauge.face == "tension" else 1  # the ply's face of smaller z (toward ply 1), or the other
     m0 = guided_end_moment(beam, segs) if beam.support == "guided" else 0.0
     m, _ = moment_shear(beam, np.array([gauge.x]), m0)
-    Mx = -float(m[0]) / float(beam.width(gauge.x))
     field = ply_field(seg.lam, seg.bending.eps0, seg.bending.kappa)
-    strain = Mx * float(field.strain_xy[row, side, 0])
+    per_moment = -float(field.strain_xy[row, side, 0]) / float(beam.width(gauge.x))
     peak = max(abs(float(v)) for v in moment_shear(beam, np.array([0.0, length]), m0)[0])
     if abs(float(m[0])) <= 1e-6 * peak:
         raise InputError(f"gauge x: the bending moment at {gauge.x * 1e3:g} mm is zero, so the gauge reads no strain "
                          "there; place it where the part bends (toward the root)")
-    return strain
+    return GaugeSection(piece, per_moment, float(m[0]))
+
+
+def gauge_strain_per_force(beam: Beam, gauge: Gauge) -> float:
+    """Axial strain at the gauge per unit drive force [1/N] (linear theory; see `gauge_section`)."""
+    return gauge_section(beam, gauge).strain_per_force
 
 
 @dataclass(frozen=True, eq=False)

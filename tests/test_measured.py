@@ -5,8 +5,8 @@ Sources: a strain-driven design equals the force-driven design whose force gives
 with the force worked two independent ways — the closed form of an isotropic cantilever's surface strain
 ε = 6F(L − x)/(E·b·h²) (Roark's Formulas for Stress and Strain, 7th ed., Table 8.1 case 1a, M = F(L − x), and
 σ = 6M/(bh²)), and the beam response map's axial strain at the root station (`flexcycle.mechanics.beam.respond`)
-for a hybrid, off-axis stack. Linear theory only: the large-deflection map is not on this branch (see the
-report). Rainflow counting commutes with a monotone map of the history (ASTM E1049-85 counts reversals, which a
+for a hybrid, off-axis stack. Linear theory here; the large-deflection map (the elastica's) is checked in
+tests/test_large_gauge.py. Rainflow counting commutes with a monotone map of the history (ASTM E1049-85 counts reversals, which a
 monotone map keeps); a decreasing map swaps each cycle's min and max. Semicolon, tab and comma files of the same
 numbers give the same life (the same numbers read). Resonance: a third of the first frequency (common practice).
 """
