@@ -14,7 +14,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from flexcycle.caution import CAUTION
-from flexcycle.design import Design
+from flexcycle.design import Design, parse_design
 from flexcycle.errors import InputError
 from flexcycle.fatigue.curves import DATA_CYCLES_MAX
 from flexcycle.fatigue.damage import (
@@ -308,11 +308,20 @@ def _range_notes(design: Design, mapping: ResponseMap, dominant_drive: float, pe
     return notes
 
 
+def _under_large_deflection(design: Design) -> Design:
+    """The design under theory = "large-deflection"; a strain-gauge duty read again, its strains then turned into
+    force through the elastica's map (flexcycle.measured) rather than the straight line's."""
+    if design.duty.measured != "strain" or design.path is None:
+        return replace(design, theory="large-deflection")
+    document = {**design.document, "beam": {**design.document["beam"], "theory": "large-deflection"}}
+    return parse_design(document, design.path.name, design.path.parent, design.path)
+
+
 def _with_comparison(result: LifeResult) -> tuple[str, ...]:
     """The linear range warning with how much the large-deflection answer differs (peak strain and life)."""
     design = result.design
     try:
-        other = estimate(replace(design, theory="large-deflection"))
+        other = estimate(_under_large_deflection(design))
     except InputError as exc:
         addition = f'; theory = "large-deflection" could not solve this duty ({exc})'
     else:

@@ -77,3 +77,20 @@ def test_the_notebook_display_escapes_the_title(run_and_result):
     odd = replace(result, design=replace(result.design, title="<b>keel</b> & co"))
     assert "&lt;b&gt;keel&lt;/b&gt; &amp; co" in odd._repr_html_()
     assert "<b>keel</b>" not in odd._repr_html_()
+
+
+def test_large_deflection_rows_in_the_terminal_and_the_notebook():
+    """The cargo-bike example runs under the elastica: the headline rows name the theory, the secant stiffness at
+    the peak drive, the end's rotation and pull-in (from the summary), in the terminal table and the notebook alike."""
+    from flexcycle.cli.terminal import summary_text
+
+    result = flexcycle.estimate(flexcycle.load_design(flexcycle.example_path("cargo-bike-rear-spring")))
+    rows = dict(headline_rows(result))
+    summary = result.summary()
+    assert rows["theory"] == "large deflection (the elastica)"
+    assert "secant" in rows["stiffness"] and f"end turned {summary['tip_rotation_deg']:.3g}°" in rows["peak drive"]
+    assert "pulled in" in rows["peak drive"]
+    text, notebook = summary_text(result), result._repr_html_()
+    for quantity, value in rows.items():
+        assert quantity in text and html.escape(value) in notebook
+    assert "deformed-shapes" in result.figures()
