@@ -16,6 +16,7 @@ from typing import Any
 import numpy as np
 
 from flexcycle.errors import InputError, MechanicsInputError, did_you_mean, input_errors
+from flexcycle.fatigue.factors import MaterialFactors, factored, read_factors
 from flexcycle.fatigue.meanstress import RULES
 from flexcycle.measured import (
     PSD_KEYS,
@@ -39,11 +40,12 @@ from flexcycle.spectra.streaming import Envelope, count_history, refuse_constant
 
 BUNDLED_PREFIX = "bundled:"  # profile = "bundled:NAME" reads a demo profile shipped with flexcycle
 
-TOP_KEYS = {"title", "beam", "ply", "duty", "fatigue", "material", "report"}
+TOP_KEYS = {"title", "beam", "ply", "duty", "fatigue", "material", "report", "environment"}
 BEAM_KEYS = {"support", "span", "width", "load_spacing", "section", "stations"}
 PLY_KEYS = {"material", "angle", "thickness", "count", "ends_at"}
 DUTY_KEYS = {"drive", "profile", "column", "unit", "cycles", "blocks_per_day", "residue", "sample_rate", "gauge"} | PSD_KEYS
-FATIGUE_KEYS = {"mean_stress", "miner_limit", "stress_factor", "required_life"}
+FATIGUE_KEYS = {"mean_stress", "miner_limit", "stress_factor", "required_life", "survival", "static_strength_factor",
+                "fatigue_strength_factor"}
 REPORT_KEYS = {"units"}
 CYCLE_KEYS = {"min", "max", "count"}
 
@@ -116,13 +118,16 @@ class Design:
     mean_stress : str — one of flexcycle.fatigue.meanstress.RULES
     miner_limit : float — Miner sum taken as failure [-]
     stress_factor : float — partial factor on every local stress and strain [-]
-    materials : dict[str, Material] — the materials the stack uses
+    materials : dict[str, Material] — the materials the stack uses, at their design values (the factors applied)
     document : dict — the parsed TOML as read (for writing modified designs)
     notes : tuple[str, ...] — what the loader did that the user should know (reported as warnings)
     required_life_blocks : float | None — the life the part must reach, in blocks of the duty ([fatigue]
         required_life); None: no requirement
     required_life_text : str | None — the requirement as written (``"5 years"``, ``"20000"``)
     units : str | None — the display units the file asks for ([report] units: "si" or "us"); None: not given
+    survival : float — probability of survival of the lives given [-], 0 < p < 1 (0.5: median lives)
+    factors : dict[str, MaterialFactors] — the partial factors and knock-downs of each material of the stack
+        (``flexcycle.fatigue.factors``)
     """
 
     title: str
@@ -138,6 +143,8 @@ class Design:
     required_life_blocks: float | None = None
     required_life_text: str | None = None
     units: str | None = None
+    survival: float = 0.5
+    factors: dict[str, MaterialFactors] = field(default_factory=dict)
 
 
 def _unknown(table: Mapping, allowed: set, where: str) -> None:
@@ -423,6 +430,9 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     user = _table(doc, "material", name, required=False)
     with input_errors():  # a library or user material, a missing unit or a wrong dimension (mechanics)
         materials = resolve_materials(user, name)
+        factors = read_factors(_table(doc, "fatigue", name, required=False),
+                               _table(doc, "environment", name, required=False), materials, name)
+        materials = {key: factored(material, factors[key]) for key, material in materials.items()}
         plies = _plies(doc, materials, name, notes)
         beam = _beam(doc, plies, name, notes)
     duty = _duty(doc, duty_name or name, base_dir, notes, progress, beam)
@@ -433,6 +443,10 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     factor = _number(fat.get("stress_factor", 1.0), f"{name} [fatigue] stress_factor")
     if factor < 1.0:
         raise InputError(f"{name} [fatigue] stress_factor: a partial factor is >= 1, got {factor:g}")
+    survival = _number(fat.get("survival", 0.5), f"{name} [fatigue] survival")
+    if not survival < 1.0:
+        raise InputError(f"{name} [fatigue] survival: a probability of survival strictly between 0 and 1 "
+                         f"(0.5 median lives, 0.9 for B10 lives), got {survival:g}")
     used = {p.material.name: p.material for p in plies}
     notes += [note for material in used.values() for note in material.notes]
     required = None
@@ -441,8 +455,12 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     report = _table(doc, "report", name, required=False)
     _unknown(report, REPORT_KEYS, f"{name} [report]")
     units = None if "units" not in report else _choice(report["units"], DISPLAY_SYSTEMS, f"{name} [report] units")
+    unused = sorted(set(_table(doc, "environment", name, required=False)) - set(used))
+    if unused:
+        notes.append(f"{name} [environment]: {', '.join(unused)} not used by any ply; its knock-downs change nothing")
     return Design(title, path, beam, duty, rule, miner, factor, used, dict(doc), tuple(notes),
-                  required, None if required is None else str(fat["required_life"]), units)
+                  required, None if required is None else str(fat["required_life"]), units, survival,
+                  {key: factors[key] for key in used})
 
 
 DISPLAY_SYSTEMS = ("si", "us")  # [report] units: SI or inch-pound display (flexcycle.display.SYSTEMS)

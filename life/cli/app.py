@@ -137,6 +137,41 @@ def size(
 
 
 @app.command()
+def fit(
+    data: Path = typer.Argument(..., help="coupon results (CSV): one row per coupon, a header row, # comments"),
+    cycles: str = typer.Option(..., "--cycles", help="column of the cycles reached"),
+    unit: str = typer.Option(..., "--unit", "-u", help="unit of the level column: MPa, ksi, psi (stress basis) or %, strain (strain basis)"),
+    amplitude: str | None = typer.Option(None, "--amplitude", help="column of the cycle's amplitude"),
+    maximum: str | None = typer.Option(None, "--maximum", help="column of the cycle's peak (largest magnitude); needs R"),
+    runout: str | None = typer.Option(None, "--runout", help="column marking runouts (1/0, true/false, yes/no)"),
+    ratio: float | None = typer.Option(None, "--R", help="stress ratio of every test; without it, the file's R column"),
+    form: str = typer.Option("power", "--form", help="power (a = S1 N^(-1/m)) or log-linear (a = S1 (1 - b log10 N))"),
+    survival: float = typer.Option(0.95, "--survival", help="survival probability of the design curve"),
+    confidence: float = typer.Option(0.95, "--confidence", help="confidence of the design curve (and of the band and test)"),
+    material: str = typer.Option("fitted", "--material", help="material name in curve.toml's [material.NAME.…] table"),
+    mode: str = typer.Option("fibre", "--mode", help="the table curve.toml fills: fibre, transverse, shear or interlaminar"),
+    out: Path = typer.Option(Path("flexcycle-fit"), "--out", "-o", help="folder for fit.json, curve.toml, fit.html"),
+) -> None:
+    """Fit a fatigue curve, its scatter and a design curve to coupon results (ASTM E739; runouts censored)."""
+    from flexcycle.cli import terminal
+    from flexcycle.fatigue.coupons import read_coupons
+    from flexcycle.fatigue.damage import MODE_TABLES
+    from flexcycle.fatigue.fit import fit_coupons
+    from flexcycle.fit_outputs import render_fit
+    from flexcycle.outputs import write_files
+
+    if mode not in MODE_TABLES:
+        raise LifeInputError(f"--mode: must be one of {', '.join(MODE_TABLES)}, got {mode!r}")
+    if not material.strip():
+        raise LifeInputError("--material: a material name, e.g. my-glass")
+    coupons = read_coupons(data, cycles, unit, amplitude=amplitude, maximum=maximum, runout=runout, R=ratio)
+    result = fit_coupons(coupons, form, survival, confidence)
+    written = write_files(render_fit(result, material.strip(), mode), out)
+    typer.echo(terminal.fit_text(result))
+    typer.echo(f"\nwrote {', '.join(p.name for p in written)} to {out}\ncaution: {CAUTION}")
+
+
+@app.command()
 def check(design: Path = typer.Argument(..., help="design file (TOML)")) -> None:
     """Validate a design file without running the estimate."""
     from flexcycle.cli import terminal
