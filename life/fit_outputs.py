@@ -142,8 +142,8 @@ def curve_toml(result: FitResult, material: str = "fitted", mode: str = "fibre")
     lines += [
         f"# The design curve{'s' if several else ''} ({first.survival:.3g} survival with {first.confidence:.3g} "
         "confidence, the same slope,",
-        "# log10 N lowered by k·sd): to use instead of the median table above (replace it), with",
-        "# [fatigue] survival left at 0.5, as the curve is already a lower bound.",
+        "# log10 N lowered by k·sd): to use instead of the median table above (replace it), leaving",
+        "# survival = 0.5 in the design's fatigue table, as the curve is already a lower bound.",
     ]
     lines += ["# " + line if line else "" for line in block(design=True)]
     return "\n".join(lines).rstrip("\n") + "\n"

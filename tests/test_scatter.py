@@ -54,7 +54,8 @@ def test_survival_0_9_lowers_lives_by_1_2816_sd():
     median = curve_from_mapping(raw, "t")
     b10 = curve_from_mapping(curve_at_survival(raw, 0.9, "t"), "t")
     a = np.array([300e6])
-    assert b10.cycles(a)[0] / median.cycles(a)[0] == pytest.approx(10 ** (-1.2816 * 0.25), rel=2e-5)
+    # z printed to 4 decimals (±5e-5) moves the ratio by up to 0.25·5e-5·ln 10 = 2.9e-5
+    assert b10.cycles(a)[0] / median.cycles(a)[0] == pytest.approx(10 ** (-1.2816 * 0.25), rel=3e-5)
 
 
 def test_a_curve_without_scatter_is_left_as_it_is():
