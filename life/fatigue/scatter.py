@@ -25,13 +25,16 @@ curve's equations (algebra in the Notes of ``shift_log_life``).
 """
 from __future__ import annotations
 
+import dataclasses
 import math
-from collections.abc import Mapping
+from collections.abc import Iterable, Mapping
+from dataclasses import dataclass
 from types import MappingProxyType
 
 from scipy import stats
 
 from flexcycle.errors import InputError
+from flexcycle.mechanics.materials import TABLE_LABELS, Material
 
 MEDIAN = 0.5
 LARGE_SCATTER = 1.0  # sd_log10N past a decade: scatter beyond any consistent coupon series (common practice:
@@ -122,6 +125,49 @@ def curve_at_survival(curve: Mapping[str, object], survival: float, where: str) 
     if sd is None or survival == MEDIAN:
         return curve
     return shift_log_life(curve, -survival_z(survival) * float(sd), where)
+
+
+@dataclass(frozen=True)
+class AtSurvival:
+    """Materials whose fatigue curves give lives at a survival probability, and what was done.
+
+    materials : tuple[Material, ...] — the materials, each curve with an sd_log10N moved to the survival
+    notes : tuple[str, ...] — a warning for every curve that has no sd_log10N (its lives stay median lives)
+        when the survival is not 0.5, and for scatter past LARGE_SCATTER
+    """
+
+    materials: tuple[Material, ...]
+    notes: tuple[str, ...]
+
+
+def materials_at_survival(materials: Iterable[Material], survival: float) -> AtSurvival:
+    """Every fatigue curve of the materials at survival p (``curve_at_survival``), per curve.
+
+    Each curve keeps its own scatter, so a hybrid layup's life at survival p is the shortest of its
+    materials' and modes' lives at p, each lowered by its own sd. A curve without ``sd_log10N`` cannot give
+    a life at p ≠ 0.5: it is used as a median curve and a note says so (never silently).
+    """
+    _check_probability(survival, "survival")
+    out, notes = [], []
+    for material in materials:
+        tables = {}
+        for table, curves in material.fatigue.items():
+            if material.kind == "core" and table != "interlaminar_fatigue":
+                tables[table] = curves  # a core's in-plane curves are not used (checked statically)
+                continue
+            where = f"material {material.name} [{table}]"
+            missing = [c for c in curves if c.get("sd_log10N") is None]
+            if missing and survival != MEDIAN:
+                which = ", ".join(f"R = {c['R']:g}" for c in missing)
+                notes.append(f"{material.name}: the {TABLE_LABELS[table]} curve ({which}) has no sd_log10N: its lives "
+                             f"are median lives, not lives at survival {survival:g}; give its scatter to have them")
+            large = [c for c in curves if c.get("sd_log10N") is not None and c["sd_log10N"] > LARGE_SCATTER]
+            if large:
+                notes.append(f"{material.name}: the {TABLE_LABELS[table]} curve has sd_log10N = {large[0]['sd_log10N']:g}, "
+                             f"more than {LARGE_SCATTER:g} decade: scatter beyond a consistent coupon series; check it")
+            tables[table] = tuple(curve_at_survival(c, survival, where) for c in curves)
+        out.append(dataclasses.replace(material, fatigue=MappingProxyType(tables)))
+    return AtSurvival(tuple(out), tuple(notes))
 
 
 def _check_probability(value: float, name: str) -> None:
