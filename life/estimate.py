@@ -25,6 +25,7 @@ from flexcycle.fatigue.damage import (
     miner_damage,
 )
 from flexcycle.fatigue.meanstress import model_warnings
+from flexcycle.fatigue.scatter import MEDIAN, materials_at_survival
 from flexcycle.fatigue.static import Critical, StaticCheck, static_check
 from flexcycle.mechanics.beam import BeamResponse, core_warnings, range_warnings, respond
 from flexcycle.mechanics.energy import StorageFigures, cycle_energy, force_per_drive, storage_figures
@@ -62,6 +63,8 @@ class LifeResult(ResultViews):
     force_per_drive: float
     warnings: tuple[str, ...]
     first_mode: Mode | None = None  # the part's first bending mode (flexcycle.mechanics.modal)
+    survival: float = MEDIAN
+    life_blocks_median: float | None = None
 
     def summary(self) -> dict:
         """The summary.json object (docs/design.md, outputs contract): SI numbers, strict JSON."""
@@ -93,6 +96,12 @@ class LifeResult(ResultViews):
             "mean_stress": d.mean_stress,
             "miner_limit": d.miner_limit,
             "stress_factor": d.stress_factor,
+            "survival": self.survival,
+            "life_blocks_median": _finite(self.life_blocks_median),
+            "static_strength_factor": _first_factor(d, "static_strength_factor"),
+            "fatigue_strength_factor": _first_factor(d, "fatigue_strength_factor"),
+            "material_factors": {name: {"static_strength": f.strength, "fatigue_strength": f.fatigue_strength,
+                                        "stiffness": f.stiffness} for name, f in d.factors.items()},
             "warnings": list(self.warnings),
             "caution": CAUTION,
             **self._requirement(),
@@ -155,13 +164,15 @@ def estimate(design: Design) -> LifeResult:
             "values and their unit"
         )
 
-    models = build_models(list(design.materials.values()), design.mean_stress)
+    # the curves at the design's survival probability, each moved by its own scatter (flexcycle.fatigue.scatter)
+    at_survival = materials_at_survival(design.materials.values(), design.survival)
+    models = build_models(list(at_survival.materials), design.mean_stress)
     locs = locations(resp, models, dominant)
     dmg = miner_damage(locs, cycles, fpd, design.stress_factor)
     static, static_notes = static_check(design, resp, fpd)
 
     warnings = (list(design.notes) + list(range_warnings(resp, peak_force)) + core_warnings(beam)
-                + list(models.warnings) + static_notes)
+                + list(models.warnings) + list(at_survival.notes) + static_notes)
     for (material, family), m in models.index.items():
         warnings += model_warnings(models.models[m], f"{material} {family} curve")
     d_block = float(dmg.damage.max()) if dmg.damage.size else 0.0
@@ -202,6 +213,9 @@ def estimate(design: Design) -> LifeResult:
             face=FACES[int(locs.face[k])],
             station=int(locs.station[k]),
         )
+    life_blocks_median = life_blocks
+    if design.survival != MEDIAN:
+        life_blocks_median = _median_life_blocks(design, resp, dominant, fpd, failed)
     storage = storage_figures(resp, peak_force)
     if design.duty.peaks is not None:  # a PSD duty: the largest cycle expected in a block, from peak to peak
         big_lo, big_hi = lo, hi
@@ -229,7 +243,26 @@ def estimate(design: Design) -> LifeResult:
         force_per_drive=fpd,
         warnings=tuple(dict.fromkeys(warnings)),
         first_mode=mode,
+        survival=design.survival,
+        life_blocks_median=life_blocks_median,
     )
+
+
+def _median_life_blocks(design: Design, resp: BeamResponse, dominant: float, fpd: float, failed: bool) -> float | None:
+    """The life at survival 0.5 [blocks of the duty]: Miner's sum again with the median curves (None: unbounded)."""
+    if failed:
+        return 0.0
+    models = build_models(list(design.materials.values()), design.mean_stress)
+    damage = miner_damage(locations(resp, models, dominant), design.duty.cycles, fpd, design.stress_factor)
+    if damage.static_failure.any():
+        return 0.0
+    worst = float(damage.damage.max()) if damage.damage.size else 0.0
+    return design.miner_limit / worst if worst > 0.0 else None
+
+
+def _first_factor(design: Design, key: str) -> float:
+    """A design-level partial factor (the same on every material): the first material's, or 1."""
+    return next((getattr(f, key) for f in design.factors.values()), 1.0)
 
 
 def _largest_cycle(cycles) -> int:

@@ -161,9 +161,9 @@ def fit(
     from flexcycle.outputs import write_files
 
     if mode not in MODE_TABLES:
-        raise LifeInputError(f"--mode: must be one of {', '.join(MODE_TABLES)}, got {mode!r}")
+        raise InputError(f"--mode: must be one of {', '.join(MODE_TABLES)}, got {mode!r}")
     if not material.strip():
-        raise LifeInputError("--material: a material name, e.g. my-glass")
+        raise InputError("--material: a material name, e.g. my-glass")
     coupons = read_coupons(data, cycles, unit, amplitude=amplitude, maximum=maximum, runout=runout, R=ratio)
     result = fit_coupons(coupons, form, survival, confidence)
     written = write_files(render_fit(result, material.strip(), mode), out)
