@@ -230,7 +230,7 @@ def _parse_curve(curve: object, where: str, path: str, default_source: str | Non
 
     parsed: dict[str, object] = {
         "form": form, "R": R, "basis": basis, "S1": S1,
-        "m": None, "b": None, "limit": None, "knee": None, "m2": None, "b2": None, "sd_log10N": None,
+        "m": None, "b": None, "limit": None, "knee": None, "m2": None, "b2": None,
     }
     slope, other = ("m", "b") if form == "power" else ("b", "m")
     slope2, other2 = ("m2", "b2") if form == "power" else ("b2", "m2")

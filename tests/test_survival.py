@@ -157,3 +157,13 @@ def test_run_prints_both_lives_and_writes_the_summary_keys(tmp_path):
     assert math.isclose(s["life_blocks"] / s["life_blocks_median"], 10 ** (-stats.norm.ppf(0.9) * 0.3), rel_tol=1e-9)
     page = (tmp_path / "out" / "report.html").read_text()
     assert "survival" in page and "median" in page
+
+
+@pytest.mark.parametrize("value, fragment", [("-0.1", "must be >= 0"), ('"0.3"', "bare number")])
+def test_a_bad_scatter_is_refused_with_its_key(tmp_path, value, fragment):
+    from flexcycle.errors import InputError
+
+    text = glass("g", "800 MPa", None, extra=f"sd_log10N = {value}\n")
+    with pytest.raises(InputError) as caught:
+        write(tmp_path, plies("g", "g"), text, 0.9)
+    assert "fatigue.sd_log10N" in str(caught.value) and fragment in str(caught.value)
