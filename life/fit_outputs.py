@@ -9,7 +9,7 @@ import math
 import tomlkit
 
 from flexcycle.fatigue.damage import MODE_TABLES
-from flexcycle.fatigue.fit import CurveFit, FitResult
+from flexcycle.fatigue.fit import LEAST_SQUARES, CurveFit, FitResult
 
 DIGITS = 10  # significant digits of curve.toml's numbers: the life read from it moves by under m·5e-10
 
@@ -41,7 +41,7 @@ def curve_record(fit: CurveFit) -> dict:
         "regression_variable": "log10 amplitude [SI]" if fit.form == "power" else "amplitude [SI]",
         "standard_error_intercept": math.sqrt(fit.covariance[0, 0]),
         "standard_error_slope": math.sqrt(fit.covariance[1, 1]),
-        "sd_degrees_of_freedom": fit.dof if fit.method.startswith("least") else None,
+        "sd_degrees_of_freedom": fit.dof if fit.method == LEAST_SQUARES else None,
         "r_squared": fit.r_squared,
         "log_likelihood": fit.log_likelihood,
         "lack_of_fit": None if fit.lack_of_fit is None else {

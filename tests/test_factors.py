@@ -86,8 +86,12 @@ ageing = { fatigue_strength = 0.9 }
     factors = knocked.factors["my-glass"]
     assert (factors.strength, factors.fatigue_strength, factors.stiffness) == pytest.approx((0.72 / 1.25, 0.765, 0.855))
     k0 = estimate(plain).response.stiffness
-    k1 = estimate(knocked).response.stiffness
-    assert k1 == pytest.approx(k0 * 0.855, rel=1e-9)
+    result = estimate(knocked)
+    assert result.response.stiffness == pytest.approx(k0 * 0.855, rel=1e-9)
+    s = result.summary()
+    assert s["static_strength_factor"] == 1.25 and s["fatigue_strength_factor"] == 1.0
+    assert s["material_factors"]["my-glass"] == pytest.approx(
+        {"static_strength": 0.72 / 1.25, "fatigue_strength": 0.765, "stiffness": 0.855})
 
 
 @pytest.mark.parametrize("fatigue, environment, fragment", [
@@ -105,3 +109,16 @@ def test_bad_factors_are_refused_with_the_key(tmp_path, fatigue, environment, fr
     with pytest.raises(InputError, match=None) as caught:
         design(tmp_path, fatigue, environment)
     assert fragment in str(caught.value) and "d.toml" in str(caught.value)
+
+
+def test_the_report_gives_every_factor_and_their_product(tmp_path):
+    from cli_runner import run_cli
+
+    env = "[environment.my-glass]\ntemperature = { strength = 0.9 }\nmoisture = { strength = 0.8 }\n"
+    design(tmp_path, "static_strength_factor = 1.25", env)
+    ran = run_cli(["run", tmp_path / "d.toml", "--out", tmp_path / "out"])
+    assert ran.code == 0, ran.err
+    page = (tmp_path / "out" / "report.html").read_text()
+    assert "Design values of the materials" in page
+    assert "temperature: strength 0.9; moisture: strength 0.8" in page and "<td>0.576</td>" in page  # 0.72/1.25
+    assert "strengths × 0.576" in ran.out

@@ -148,7 +148,7 @@ def fit(
     form: str = typer.Option("power", "--form", help="power (a = S1 N^(-1/m)) or log-linear (a = S1 (1 - b log10 N))"),
     survival: float = typer.Option(0.95, "--survival", help="survival probability of the design curve"),
     confidence: float = typer.Option(0.95, "--confidence", help="confidence of the design curve (and of the band and test)"),
-    material: str = typer.Option("fitted", "--material", help="material name in curve.toml's [material.NAME.…] table"),
+    material: str = typer.Option("fitted", "--material", help="the material's name in curve.toml (its material.NAME table)"),
     mode: str = typer.Option("fibre", "--mode", help="the table curve.toml fills: fibre, transverse, shear or interlaminar"),
     out: Path = typer.Option(Path("flexcycle-fit"), "--out", "-o", help="folder for fit.json, curve.toml, fit.html"),
 ) -> None:

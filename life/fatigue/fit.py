@@ -226,6 +226,9 @@ def censored_likelihood(x: np.ndarray, y: np.ndarray, runout: np.ndarray) -> tup
         e[j] = step
         hessian[:, j] = (minus_log_l(theta + e)[1] - minus_log_l(theta - e)[1]) / (2.0 * step)
     hessian = 0.5 * (hessian + hessian.T)
+    if not np.isfinite(theta).all() or not np.isfinite(hessian).all() or np.linalg.eigvalsh(hessian).min() <= 0.0:
+        raise InputError("the censored fit found no maximum of the likelihood (the runouts and failures do not pin "
+                         "down a line and its scatter); check the runout column, or test more coupons to failure")
     covariance_u = np.linalg.inv(hessian)[:2, :2]
     # back from (a, b) on u = (x − c)/s to (A, B) on x: B = b/s, A = a − b·c/s
     J = np.array([[1.0, -centre / spread], [0.0, 1.0 / spread]])
@@ -308,7 +311,10 @@ def _fit_one(coupons: Coupons, k: np.ndarray, R: float, form: str, survival: flo
         linearity = lack_of_fit(x, y, A, B, confidence)
         method, log_l = LEAST_SQUARES, None
     else:
-        A, B, sd, covariance, log_l = censored_likelihood(x, y, runout)
+        try:
+            A, B, sd, covariance, log_l = censored_likelihood(x, y, runout)
+        except InputError as exc:
+            raise InputError(f"{where}, column {coupons.runout_column!r}: {exc}") from None
         r_squared, linearity, method = None, None, MAXIMUM_LIKELIHOOD
     source = (f"fitted by flexcycle fit to {name} (SHA-256 {coupons.sha256[:12]}…), R = {R:g}: {method}, "
               f"{n_fail} failures, {n_run} runouts; median curve, sd_log10N = {sd:.4g}")
