@@ -137,6 +137,44 @@ def size(
 
 
 @app.command()
+def sweep(
+    sweep_file: Path = typer.Argument(..., help="sweep file (TOML): design = BASE.toml, [vary], optional [sample], [objectives], [require]"),
+    out: Path = typer.Option(Path("flexcycle-sweep"), "--out", "-o", help="folder for sweep.csv, sweep.html and the rows as they finish"),
+    scheduler: str | None = typer.Option(None, "--scheduler", help="address of a running Dask scheduler, e.g. tcp://host:8786; default: a local cluster"),
+    workers: int | None = typer.Option(None, "--workers", help="worker processes of the local cluster (default: one per core)"),
+    resume: bool = typer.Option(False, "--resume", help="go on from the rows already in --out"),
+    batch: int | None = typer.Option(None, "--batch", help="candidates per Dask task (default: about eight tasks per worker, at most 64)"),
+    candidate: int | None = typer.Option(None, "--candidate", help="write candidate N's design file into --out (no sweep)"),
+) -> None:
+    """Estimate every candidate of a design space on Dask; the Pareto front of life and mass (or the objectives)."""
+    if workers is not None and workers < 1:
+        raise InputError(f"--workers: a number of worker processes >= 1, got {workers}")
+    if batch is not None and batch < 1:
+        raise InputError(f"--batch: a number of candidates per task >= 1, got {batch}")
+    if candidate is not None:
+        from flexcycle.explore.space import candidate_text, read_space
+
+        space = read_space(sweep_file)
+        if not 1 <= candidate <= len(space.candidates):
+            raise InputError(f"--candidate: the sweep has candidates 1 to {len(space.candidates)}, got {candidate}")
+        out.mkdir(parents=True, exist_ok=True)
+        path = out / f"candidate-{candidate}.toml"
+        path.write_text(candidate_text(space, space.candidates[candidate - 1], out, candidate), encoding="utf-8")
+        typer.echo(f"wrote {path}; run it with: flexcycle run {path} --out {out}")
+        return
+    from flexcycle.cli import terminal
+    from flexcycle.explore.sweep import dask_client, prepare, run_sweep
+
+    with _progress() as progress:
+        prepared = prepare(sweep_file, progress)
+    command = "flexcycle sweep " + " ".join(sys.argv[2:]) if sys.argv[1:2] == ["sweep"] else ""
+    with dask_client(scheduler, workers) as client, _count_progress("candidates") as counted:
+        outcome = run_sweep(prepared, out, client, resume, batch, counted, command)
+    typer.echo(terminal.sweep_text(outcome.table, prepared.space))
+    typer.echo(f"\nwrote {', '.join(p.name for p in outcome.files)} to {out}\ncaution: {CAUTION}")
+
+
+@app.command()
 def check(design: Path = typer.Argument(..., help="design file (TOML)")) -> None:
     """Validate a design file without running the estimate."""
     from flexcycle.cli import terminal
@@ -215,6 +253,35 @@ class _progress:
                                 TimeRemainingColumn(), console=Console(stderr=True), transient=True)
             self.bar.start()
             self.task = self.bar.add_task("read", total=total)
+        self.bar.update(self.task, completed=done)
+
+    def __exit__(self, *exc) -> None:
+        if self.bar is not None:
+            self.bar.stop()
+
+
+class _count_progress:
+    """A progress bar on stderr over a count of finished items (rich), as a callback ``(done, total)``; only on
+    a terminal."""
+
+    def __init__(self, what: str) -> None:
+        self.what = what
+
+    def __enter__(self):
+        self.bar = None
+        return self.update
+
+    def update(self, done: int, total: int) -> None:
+        if self.bar is None:
+            if not sys.stderr.isatty():
+                return
+            from rich.console import Console
+            from rich.progress import BarColumn, MofNCompleteColumn, Progress, TimeRemainingColumn
+
+            self.bar = Progress(self.what, BarColumn(), MofNCompleteColumn(), TimeRemainingColumn(),
+                                console=Console(stderr=True), transient=True)
+            self.bar.start()
+            self.task = self.bar.add_task(self.what, total=total)
         self.bar.update(self.task, completed=done)
 
     def __exit__(self, *exc) -> None:
