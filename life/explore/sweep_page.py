@@ -10,11 +10,12 @@ from typing import TYPE_CHECKING
 import matplotlib
 import numpy as np
 import pandas as pd
+from matplotlib.figure import Figure
 
 from flexcycle.caution import CAUTION
 from flexcycle.explore.pareto import as_numbers
 from flexcycle.explore.space import candidate_text
-from flexcycle.report.report import PALETTE, STYLE, _subplots, _svg
+from flexcycle.report.style import PALETTE, STYLE, arrange, figure_with_axes, to_svg
 
 if TYPE_CHECKING:
     from flexcycle.explore.sweep import Prepared
@@ -27,7 +28,7 @@ def _numbers(table: pd.DataFrame, key: str) -> np.ndarray:
     return as_numbers([None if v == "" else v for v in table[key]])
 
 
-def front_figure(table: pd.DataFrame) -> str:
+def front_figure(table: pd.DataFrame) -> Figure:
     """Life in blocks (log) against mass, every valid candidate coloured by its specific energy; the front
     joined and ringed; candidates that miss a requirement in grey."""
     valid = (table["message"] == "").to_numpy()
@@ -40,7 +41,7 @@ def front_figure(table: pd.DataFrame) -> str:
     ceiling = finite.max() * 3 if finite.size else 1.0
     shown = np.where(np.isinf(life), ceiling, np.maximum(life, finite.min() / 3 if finite.size else 1e-3))
     with matplotlib.rc_context(STYLE):
-        fig, ax = _subplots((7.5, 4.2))
+        fig, ax = figure_with_axes((7.5, 4.2))
         miss = valid & ~ok
         ax.scatter(mass[miss], shown[miss], s=10, color="#bbbbbb", label="misses a requirement", zorder=1)
         points = ax.scatter(mass[ok], shown[ok], s=14, c=energy[ok], cmap="viridis", zorder=2,
@@ -56,7 +57,7 @@ def front_figure(table: pd.DataFrame) -> str:
         ax.set_ylabel("life [blocks of the duty]")
         ax.set_title("life against mass")
         ax.legend(loc="lower right", fontsize=7)
-        return _svg(fig, "sweep-front", right=1.1)
+        return arrange(fig, right=1.1)
 
 
 def _levels(values: pd.Series) -> tuple[list[str], np.ndarray]:
@@ -78,7 +79,7 @@ def _levels(values: pd.Series) -> tuple[list[str], np.ndarray]:
     return [str(v) for v in distinct], np.array([position[v] for v in values])
 
 
-def effect_figure(table: pd.DataFrame, keys: tuple[str, ...]) -> str:
+def effect_figure(table: pd.DataFrame, keys: tuple[str, ...]) -> Figure:
     """For each varied key: the median life and mass of the valid candidates at each of its values, with the
     range from the smallest to the largest (the other keys vary underneath)."""
     valid = (table["message"] == "").to_numpy()
@@ -86,7 +87,7 @@ def effect_figure(table: pd.DataFrame, keys: tuple[str, ...]) -> str:
     mass = _numbers(table, "mass_kg") * 1e3
     columns = len(keys)
     with matplotlib.rc_context(STYLE):
-        fig, axes = _subplots((max(3.0 * columns, 6.0), 4.6), 2, columns, squeeze=False)
+        fig, axes = figure_with_axes((max(3.0 * columns, 6.0), 4.6), 2, columns, squeeze=False)
         for j, key in enumerate(keys):
             labels, index = _levels(table[key])
             for row, (figure, colour, name) in enumerate([(life, PALETTE[0], "life [blocks]"),
@@ -108,7 +109,7 @@ def effect_figure(table: pd.DataFrame, keys: tuple[str, ...]) -> str:
                 ax.set_xticks(x, labels, rotation=30 if len(labels) > 3 else 0, fontsize=7)
                 if j == 0:
                     ax.set_ylabel(name)
-        return _svg(fig, "sweep-effect", hspace=0.55, wspace=0.35, bottom=0.8)
+        return arrange(fig, hspace=0.55, wspace=0.35, bottom=0.8)
 
 
 def best_rows(table: pd.DataFrame, prepared: Prepared) -> pd.DataFrame:
@@ -179,10 +180,10 @@ pre {{ background: #f7f7f7; padding: 0.6em; overflow-x: auto; font-size: 0.8em }
 One duty for all: {html.escape(prepared.duty.duty.source)}.</p>
 <p>Command: <code>{html.escape(command or 'flexcycle sweep ' + space.path.name)}</code></p>
 <h2>Pareto front</h2>
-<figure>{front_figure(table)}<figcaption>Life in blocks of the duty (log scale) against mass; colour: specific energy
+<figure>{to_svg(front_figure(table), "sweep-front")}<figcaption>Life in blocks of the duty (log scale) against mass; colour: specific energy
 at the peak drive. Ringed and joined: the Pareto front. Unbounded lives are drawn at the top edge.</figcaption></figure>
 <h2>Effect of each varied key</h2>
-<figure>{effect_figure(table, space.keys)}<figcaption>Median (dots) and range (bars) of life and mass over the valid
+<figure>{to_svg(effect_figure(table, space.keys), "sweep-effect")}<figcaption>Median (dots) and range (bars) of life and mass over the valid
 candidates at each value of a key, the other keys varying underneath.</figcaption></figure>
 <h2>The {len(best)} best designs</h2>
 <p>Those that meet the requirements: the Pareto front first, then by {html.escape(objectives)}.</p>
