@@ -108,8 +108,13 @@ def size(
     design: Path = typer.Argument(..., help="design file (TOML)"),
     life: float = typer.Option(..., "--life", help="target life in blocks of the duty"),
     vary: str = typer.Option("thickness", "--vary", help="thickness (every ply) or width"),
-    rate: str | None = typer.Option(None, "--rate", help='spring rate with its unit, e.g. "30 N/mm" (deflection drive): the width for it, after the thickness for the life'),
+    rate: str | None = typer.Option(None, "--rate", help='spring rate with its unit, e.g. "30 N/mm": under a deflection drive the width for it after the thickness for the life; under a force drive thickness and width together'),
     taper: bool = typer.Option(False, "--taper", help="propose a width taper (sized.toml) and ply drops (sized-drops.toml) that even the strain"),
+    min_width: str | None = typer.Option(None, "--min-width", help='smallest root width you can build, e.g. "20 mm"'),
+    max_width: str | None = typer.Option(None, "--max-width", help='largest root width, e.g. "80 mm"'),
+    min_thickness: str | None = typer.Option(None, "--min-thickness", help='smallest root thickness, e.g. "4 mm"'),
+    max_thickness: str | None = typer.Option(None, "--max-thickness", help='largest root thickness, e.g. "20 mm"'),
+    whole_plies: bool = typer.Option(False, "--whole-plies", help="the thickness a whole number of the design's own plies"),
     out: Path = typer.Option(Path("flexcycle-size"), "--out", "-o", help="folder for sized.toml, sizing.json, report.html"),
     units: str | None = typer.Option(None, "--units", help=UNITS_HELP),
 ) -> None:
@@ -117,14 +122,26 @@ def size(
     from flexcycle.cli import terminal
     from flexcycle.design import load_design
     from flexcycle.display import display_for
+    from flexcycle.mechanics.units import parse_quantity
     from flexcycle.outputs import render, sizing_json, write_files
     from flexcycle.sizing import parse_rate, plan, sizing_rows
+    from flexcycle.sizing.section import Limits
+
+    def length(text: str | None, option: str) -> float | None:
+        if text is None:
+            return None
+        value = parse_quantity(text, "length", option)
+        if not value > 0:
+            raise LifeInputError(f"{option}: a length > 0 with its unit, e.g. \"20 mm\", got {text!r}")
+        return value
 
     _check_units(units)
+    limits = Limits(length(min_width, "--min-width"), length(max_width, "--max-width"),
+                    length(min_thickness, "--min-thickness"), length(max_thickness, "--max-thickness"), whole_plies)
     k = None if rate is None else parse_rate(rate)
     loaded = load_design(design)
     display = display_for(units, loaded.units)
-    answer = plan(loaded, life, vary, k, taper)
+    answer = plan(loaded, life, vary, k, taper, limits)
     files = {"sized.toml": answer.sized.text}
     if answer.drops is not None:
         files["sized-drops.toml"] = answer.drops.text
@@ -133,6 +150,7 @@ def size(
                                   display=display)["report.html"]
     written = write_files(files, out)
     typer.echo(terminal.sizing_text(answer, display))
+    typer.echo(f"\nsized.toml SHA-256 {answer.sha256}")
     typer.echo(f"\nwrote {', '.join(p.name for p in written)} to {out}\ncaution: {CAUTION}")
 
 
