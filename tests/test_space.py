@@ -3,6 +3,7 @@ design files."""
 from __future__ import annotations
 
 import tomllib
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -95,3 +96,12 @@ def test_a_candidate_file_is_the_design_it_describes(tmp_path):
 def test_a_range_in_reverse_is_refused(tmp_path):
     with pytest.raises(InputError, match="below 'from'"):
         read_space(write_case(tmp_path, LHS.replace('to = "350 mm"', 'to = "200 mm"')))
+
+
+def test_the_bundled_demo_sweep_reads():
+    from importlib import resources
+
+    space = read_space(Path(str(resources.files("flexcycle") / "examples" / "cargo-bike-sweep.toml")))
+    assert space.design_path.name == "cargo-bike-rear-spring.toml"
+    assert len(space.candidates) == 3 * 3 * 4 * 4
+    assert [r.key for r in space.requirements] == ["static_reserve", "stiffness_n_per_m", "stiffness_n_per_m"]
