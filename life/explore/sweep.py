@@ -30,7 +30,13 @@ from flexcycle.design import LoadedDuty, load_duty, parse_design
 from flexcycle.errors import InputError
 from flexcycle.estimate import estimate
 from flexcycle.explore.pareto import as_numbers, meets, pareto_front
-from flexcycle.explore.space import SweepSpace, check_summary_keys, format_value, read_space
+from flexcycle.explore.space import (
+    SweepSpace,
+    candidate_document,
+    check_summary_keys,
+    format_value,
+    read_space,
+)
 from flexcycle.mechanics import errors as mechanics_errors
 from flexcycle.spectra import errors as spectra_errors
 
@@ -66,8 +72,6 @@ def columns_of(context: SweepContext) -> list[str]:
 
 def evaluate_candidate(context: SweepContext, duty: LoadedDuty, number: int, values: Sequence) -> dict[str, Any]:
     """One candidate's row: its values as written, its summary figures, or the message that makes it invalid."""
-    from flexcycle.explore.space import candidate_document
-
     row: dict[str, Any] = {key: format_value(v) for key, v in zip(context.keys, values)}
     row["candidate"] = number
     try:
