@@ -109,6 +109,11 @@ def prepare(sweep_file: Path, progress: Callable[[int, int], None] | None = None
     names the keys objectives and requirements may use)."""
     space = read_space(sweep_file)
     name = space.design_path.name
+    drive = space.document.get("duty", {}).get("drive") if isinstance(space.document.get("duty"), Mapping) else None
+    if drive == "strain":
+        raise InputError(f"{space.path.name}: the base design {name} has a strain-gauge duty, which each candidate's "
+                         "section turns into a different force history; a sweep shares one duty: give the base "
+                         "design a force or deflection duty")
     duty = load_duty(space.document, name, space.design_path.parent, progress)
     base = estimate(parse_design(space.document, name, space.design_path.parent, space.design_path, duty=duty))
     summary = base.summary()

@@ -284,8 +284,8 @@ def sizing_rows(answer: SizingAnswer, display: Display = SI) -> list[tuple[str, 
     rows.append(("width / thickness at the root", "", f"{answer.width_to_thickness:.3g}"))
     if answer.lateral is not None and answer.lateral.critical_load is not None:
         rows.append(("lateral-torsional buckling load (uniform cantilever of the root section)", "",
-                     f"{answer.lateral.critical_load:.4g} N ({answer.lateral.critical_load / answer.lateral.peak_force:.3g} "
-                     "× the largest force)"))
+                     f"{display.both(answer.lateral.critical_load, 'force')} "
+                     f"({answer.lateral.critical_load / answer.lateral.peak_force:.3g} × the largest force)"))
     rows.append(("written file", "", f"{answer.sized.name}, SHA-256 {answer.sha256}"))
     if answer.drops is not None:
         alt = _figures_of(answer.drops.result, display)
