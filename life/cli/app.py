@@ -132,7 +132,7 @@ def size(
             return None
         value = parse_quantity(text, "length", option)
         if not value > 0:
-            raise LifeInputError(f"{option}: a length > 0 with its unit, e.g. \"20 mm\", got {text!r}")
+            raise InputError(f"{option}: a length > 0 with its unit, e.g. \"20 mm\", got {text!r}")
         return value
 
     _check_units(units)
