@@ -410,8 +410,29 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
                 measured, gauge, mapping, peaks)
 
 
+@dataclass(frozen=True)
+class LoadedDuty:
+    """A design's duty read and counted once, to be shared by many designs (a sweep's candidates).
+
+    duty : Duty; notes : tuple[str, ...] — what the loader said about the duty (reported as warnings)
+    """
+
+    duty: Duty
+    notes: tuple[str, ...] = ()
+
+
+def load_duty(doc: Mapping, name: str, base_dir: Path, progress: Callable[[int, int], None] | None = None,
+              beam: Beam | None = None) -> LoadedDuty:
+    """Read and count the [duty] of a parsed design document once (``name`` and ``base_dir`` as in
+    `parse_design`; ``beam``: the part, which a strain-gauge duty needs to turn strain into drive force, so
+    that such a duty belongs to its beam and is not shared by others)."""
+    notes: list[str] = []
+    return LoadedDuty(_duty(doc, name, base_dir, notes, progress, beam), tuple(notes))
+
+
 def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = None,
-                 progress: Callable[[int, int], None] | None = None, duty_name: str | None = None) -> Design:
+                 progress: Callable[[int, int], None] | None = None, duty_name: str | None = None,
+                 duty: LoadedDuty | None = None) -> Design:
     """Build a Design from a parsed TOML document.
 
     name : str — the file name used in messages
@@ -420,6 +441,8 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
         is read (for a progress display; the library prints nothing)
     duty_name : str | None — the file the [duty] table came from, for its messages, when not ``name``
         (a common duty given to several designs)
+    duty : LoadedDuty | None — the duty already read and counted (`load_duty`): the document's [duty] is then
+        neither read nor counted again
     """
     _unknown(doc, TOP_KEYS, name)
     _unknown(_table(doc, "beam", name), BEAM_KEYS, f"{name} [beam]")  # before the plies: a stray key says where
@@ -435,7 +458,9 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
         materials = {key: factored(material, factors[key]) for key, material in materials.items()}
         plies = _plies(doc, materials, name, notes)
         beam = _beam(doc, plies, name, notes)
-    duty = _duty(doc, duty_name or name, base_dir, notes, progress, beam)
+    loaded = duty if duty is not None else load_duty(doc, duty_name or name, base_dir, progress, beam)
+    notes.extend(loaded.notes)
+    duty = loaded.duty
     fat = _table(doc, "fatigue", name, required=False)
     _unknown(fat, FATIGUE_KEYS, f"{name} [fatigue]")
     rule = _choice(fat.get("mean_stress", "goodman"), RULES, f"{name} [fatigue] mean_stress")

@@ -220,3 +220,23 @@ def fit_text(result: FitResult) -> str:
             lines.append(f"  R = {fit.R:g}: E739 test of the straight line, F = {test.F:.3g} against "
                          f"F_crit = {test.F_critical:.3g} ({test.dof[0]}, {test.dof[1]} dof, p = {test.p_value:.3g}): {verdict}")
     return "\n".join(lines)
+
+
+def sweep_text(table, space) -> str:
+    """The sweep in a few lines: counts, and the candidates on the Pareto front (up to ten, longest life first)."""
+    valid = int((table["message"] == "").sum())
+    ok = int((table["meets_requirements"] == "true").sum())
+    front = table[table["pareto"] == "true"]
+    lines = [f"flexcycle sweep — {space.path.name} over {', '.join(space.keys)} ({space.method})",
+             f"  {len(table)} candidates, {valid} valid designs, {ok} meet the requirements, {len(front)} on the "
+             "Pareto front"]
+    if len(front):
+        life = front["life_blocks"].replace("", "inf").astype(float)
+        shown = front.assign(_life=life).sort_values("_life", ascending=False).head(10)
+        lines.append("")
+        lines.append("candidate  life [blocks]  mass [g]  " + "  ".join(space.keys))
+        for _, row in shown.iterrows():
+            life_text = "unbounded" if row["life_blocks"] == "" else f"{float(row['life_blocks']):.3g}"
+            lines.append(f"{int(row['candidate']):>9}  {life_text:>13}  {float(row['mass_kg']) * 1e3:>8.1f}  "
+                         + "  ".join(str(row[k]) for k in space.keys))
+    return "\n".join(lines)
