@@ -16,6 +16,7 @@ from typing import Any
 import numpy as np
 
 from flexcycle.errors import InputError, MechanicsInputError, did_you_mean, input_errors
+from flexcycle.fatigue.factors import MaterialFactors, factored, read_factors
 from flexcycle.fatigue.meanstress import RULES
 from flexcycle.measured import (
     PSD_KEYS,
@@ -41,11 +42,12 @@ from flexcycle.spectra.streaming import Envelope, count_history, refuse_constant
 
 BUNDLED_PREFIX = "bundled:"  # profile = "bundled:NAME" reads a demo profile shipped with flexcycle
 
-TOP_KEYS = {"title", "beam", "ply", "duty", "fatigue", "material", "report"}
+TOP_KEYS = {"title", "beam", "ply", "duty", "fatigue", "material", "report", "environment"}
 BEAM_KEYS = {"support", "span", "width", "load_spacing", "section", "stations", "theory"}
 PLY_KEYS = {"material", "angle", "thickness", "count", "ends_at"}
 DUTY_KEYS = {"drive", "profile", "column", "unit", "cycles", "blocks_per_day", "residue", "sample_rate", "gauge"} | PSD_KEYS
-FATIGUE_KEYS = {"mean_stress", "miner_limit", "stress_factor", "required_life"}
+FATIGUE_KEYS = {"mean_stress", "miner_limit", "stress_factor", "required_life", "survival", "static_strength_factor",
+                "fatigue_strength_factor"}
 REPORT_KEYS = {"units"}
 CYCLE_KEYS = {"min", "max", "count"}
 
@@ -118,7 +120,7 @@ class Design:
     mean_stress : str — one of flexcycle.fatigue.meanstress.RULES
     miner_limit : float — Miner sum taken as failure [-]
     stress_factor : float — partial factor on every local stress and strain [-]
-    materials : dict[str, Material] — the materials the stack uses
+    materials : dict[str, Material] — the materials the stack uses, at their design values (the factors applied)
     document : dict — the parsed TOML as read (for writing modified designs)
     notes : tuple[str, ...] — what the loader did that the user should know (reported as warnings)
     required_life_blocks : float | None — the life the part must reach, in blocks of the duty ([fatigue]
@@ -126,6 +128,9 @@ class Design:
     required_life_text : str | None — the requirement as written (``"5 years"``, ``"20000"``)
     units : str | None — the display units the file asks for ([report] units: "si" or "us"); None: not given
     theory : str — ``"linear"`` (small deflection) or ``"large-deflection"`` (the elastica), [beam] theory
+    survival : float — probability of survival of the lives given [-], 0 < p < 1 (0.5: median lives)
+    factors : dict[str, MaterialFactors] — the partial factors and knock-downs of each material of the stack
+        (``flexcycle.fatigue.factors``)
     """
 
     title: str
@@ -142,6 +147,8 @@ class Design:
     required_life_text: str | None = None
     units: str | None = None
     theory: str = "linear"
+    survival: float = 0.5
+    factors: dict[str, MaterialFactors] = field(default_factory=dict)
 
 
 def _unknown(table: Mapping, allowed: set, where: str) -> None:
@@ -411,8 +418,30 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
                 measured, gauge, mapping, peaks)
 
 
+@dataclass(frozen=True)
+class LoadedDuty:
+    """A design's duty read and counted once, to be shared by many designs (a sweep's candidates).
+
+    duty : Duty; notes : tuple[str, ...] — what the loader said about the duty (reported as warnings)
+    """
+
+    duty: Duty
+    notes: tuple[str, ...] = ()
+
+
+def load_duty(doc: Mapping, name: str, base_dir: Path, progress: Callable[[int, int], None] | None = None,
+              beam: Beam | None = None, theory: str = "linear") -> LoadedDuty:
+    """Read and count the [duty] of a parsed design document once (``name`` and ``base_dir`` as in
+    `parse_design`; ``beam``: the part, which a strain-gauge duty needs to turn strain into drive force, so
+    that such a duty belongs to its beam and is not shared by others; ``theory``: the beam theory of that map,
+    ``"linear"`` or ``"large-deflection"``)."""
+    notes: list[str] = []
+    return LoadedDuty(_duty(doc, name, base_dir, notes, progress, beam, theory), tuple(notes))
+
+
 def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = None,
-                 progress: Callable[[int, int], None] | None = None, duty_name: str | None = None) -> Design:
+                 progress: Callable[[int, int], None] | None = None, duty_name: str | None = None,
+                 duty: LoadedDuty | None = None) -> Design:
     """Build a Design from a parsed TOML document.
 
     name : str — the file name used in messages
@@ -421,6 +450,8 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
         is read (for a progress display; the library prints nothing)
     duty_name : str | None — the file the [duty] table came from, for its messages, when not ``name``
         (a common duty given to several designs)
+    duty : LoadedDuty | None — the duty already read and counted (`load_duty`): the document's [duty] is then
+        neither read nor counted again
     """
     _unknown(doc, TOP_KEYS, name)
     _unknown(_table(doc, "beam", name), BEAM_KEYS, f"{name} [beam]")  # before the plies: a stray key says where
@@ -431,13 +462,18 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     user = _table(doc, "material", name, required=False)
     with input_errors():  # a library or user material, a missing unit or a wrong dimension (mechanics)
         materials = resolve_materials(user, name)
+        factors = read_factors(_table(doc, "fatigue", name, required=False),
+                               _table(doc, "environment", name, required=False), materials, name)
+        materials = {key: factored(material, factors[key]) for key, material in materials.items()}
         plies = _plies(doc, materials, name, notes)
         beam = _beam(doc, plies, name, notes)
     theory = _choice(doc["beam"].get("theory", "linear"), THEORIES, f"{name} [beam] theory")
     if theory == "large-deflection":
         with input_errors(f"{name} "):  # three- and four-point bending are not solved under the elastica
             refuse_unsolved(beam.support)
-    duty = _duty(doc, duty_name or name, base_dir, notes, progress, beam, theory)
+    loaded = duty if duty is not None else load_duty(doc, duty_name or name, base_dir, progress, beam, theory)
+    notes.extend(loaded.notes)
+    duty = loaded.duty
     fat = _table(doc, "fatigue", name, required=False)
     _unknown(fat, FATIGUE_KEYS, f"{name} [fatigue]")
     rule = _choice(fat.get("mean_stress", "goodman"), RULES, f"{name} [fatigue] mean_stress")
@@ -445,6 +481,10 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     factor = _number(fat.get("stress_factor", 1.0), f"{name} [fatigue] stress_factor")
     if factor < 1.0:
         raise InputError(f"{name} [fatigue] stress_factor: a partial factor is >= 1, got {factor:g}")
+    survival = _number(fat.get("survival", 0.5), f"{name} [fatigue] survival")
+    if not survival < 1.0:
+        raise InputError(f"{name} [fatigue] survival: a probability of survival strictly between 0 and 1 "
+                         f"(0.5 median lives, 0.9 for B10 lives), got {survival:g}")
     used = {p.material.name: p.material for p in plies}
     notes += [note for material in used.values() for note in material.notes]
     required = None
@@ -453,8 +493,12 @@ def parse_design(doc: Mapping, name: str, base_dir: Path, path: Path | None = No
     report = _table(doc, "report", name, required=False)
     _unknown(report, REPORT_KEYS, f"{name} [report]")
     units = None if "units" not in report else _choice(report["units"], DISPLAY_SYSTEMS, f"{name} [report] units")
+    unused = sorted(set(_table(doc, "environment", name, required=False)) - set(used))
+    if unused:
+        notes.append(f"{name} [environment]: {', '.join(unused)} not used by any ply; its knock-downs change nothing")
     return Design(title, path, beam, duty, rule, miner, factor, used, dict(doc), tuple(notes),
-                  required, None if required is None else str(fat["required_life"]), units, theory)
+                  required, None if required is None else str(fat["required_life"]), units, theory, survival,
+                  {key: factors[key] for key in used})
 
 
 DISPLAY_SYSTEMS = ("si", "us")  # [report] units: SI or inch-pound display (flexcycle.display.SYSTEMS)

@@ -26,6 +26,7 @@ from flexcycle.fatigue.damage import (
     miner_damage,
 )
 from flexcycle.fatigue.meanstress import model_warnings
+from flexcycle.fatigue.scatter import MEDIAN, materials_at_survival
 from flexcycle.fatigue.static import Critical, StaticCheck, static_check
 from flexcycle.mechanics.beam import BeamResponse, core_warnings, range_warnings, respond
 from flexcycle.mechanics.energy import StorageFigures, storage_figures
@@ -78,6 +79,8 @@ class LifeResult(ResultViews):
     peak_deflection: float = math.nan
     tip_rotation: float | None = None
     pull_in: float | None = None
+    survival: float = MEDIAN
+    life_blocks_median: float | None = None
 
     @property
     def theory(self) -> str:
@@ -121,6 +124,12 @@ class LifeResult(ResultViews):
             "mean_stress": d.mean_stress,
             "miner_limit": d.miner_limit,
             "stress_factor": d.stress_factor,
+            "survival": self.survival,
+            "life_blocks_median": _finite(self.life_blocks_median),
+            "static_strength_factor": _first_factor(d, "static_strength_factor"),
+            "fatigue_strength_factor": _first_factor(d, "fatigue_strength_factor"),
+            "material_factors": {name: {"static_strength": f.strength, "fatigue_strength": f.fatigue_strength,
+                                        "stiffness": f.stiffness} for name, f in d.factors.items()},
             "warnings": list(self.warnings),
             "caution": CAUTION,
             **self._requirement(),
@@ -187,14 +196,16 @@ def estimate(design: Design) -> LifeResult:
             "values and their unit"
         )
 
-    models = build_models(list(design.materials.values()), design.mean_stress)
+    # the curves at the design's survival probability, each moved by its own scatter (flexcycle.fatigue.scatter)
+    at_survival = materials_at_survival(design.materials.values(), design.survival)
+    models = build_models(list(at_survival.materials), design.mean_stress)
     locations = mapped_locations(mapping, models, dominant_drive)
     damage = miner_damage(locations, cycles, force_per_drive, design.stress_factor)
     static, static_notes = static_check(design, response, force_per_drive,
                                         mapping.fields if mapping.large else None)
 
     warnings = (list(design.notes) + _range_notes(design, mapping, dominant_drive, peak_strain) + core_warnings(beam)
-                + list(models.warnings) + static_notes)
+                + list(models.warnings) + list(at_survival.notes) + static_notes)
     for (material, family), m in models.index.items():
         warnings += model_warnings(models.models[m], f"{material} {family} curve")
     d_block = float(damage.damage.max()) if damage.damage.size else 0.0
@@ -235,6 +246,9 @@ def estimate(design: Design) -> LifeResult:
             face=FACES[int(locations.face[k])],
             station=int(locations.station[k]),
         )
+    life_blocks_median = life_blocks
+    if design.survival != MEDIAN:
+        life_blocks_median = _median_life_blocks(design, mapping, dominant_drive, force_per_drive, failed)
     storage = _storage(mapping, dominant_drive, peak_force)
     if design.duty.peaks is not None:  # a PSD duty: the largest cycle expected in a block, from peak to peak
         big_lo, big_hi = lo, hi
@@ -267,6 +281,8 @@ def estimate(design: Design) -> LifeResult:
         peak_deflection=float(mapping.deflection(dominant_drive)[0]),
         tip_rotation=mapping.tip_rotation(dominant_drive) if mapping.large else None,
         pull_in=mapping.pull_in(dominant_drive) if mapping.large else None,
+        survival=design.survival,
+        life_blocks_median=life_blocks_median,
     )
     if not mapping.large and any(PAST_LINEAR in w for w in result.warnings) and beam.support in LARGE_SUPPORTS:
         result = replace(result, warnings=_with_comparison(result))
@@ -334,6 +350,25 @@ def _with_comparison(result: LifeResult) -> tuple[str, ...]:
         addition = (f'; under theory = "large-deflection" (the elastica) the peak strain is {other.peak_strain:.4g} '
                     f"({change:+.1%}) and {life}: set [beam] theory = \"large-deflection\"")
     return tuple(w + addition if PAST_LINEAR in w else w for w in result.warnings)
+
+
+def _median_life_blocks(design: Design, mapping: ResponseMap, dominant_drive: float, force_per_drive: float,
+                        failed: bool) -> float | None:
+    """The life at survival 0.5 [blocks of the duty]: Miner's sum again with the median curves (None: unbounded)."""
+    if failed:
+        return 0.0
+    models = build_models(list(design.materials.values()), design.mean_stress)
+    damage = miner_damage(mapped_locations(mapping, models, dominant_drive), design.duty.cycles, force_per_drive,
+                          design.stress_factor)
+    if damage.static_failure.any():
+        return 0.0
+    worst = float(damage.damage.max()) if damage.damage.size else 0.0
+    return design.miner_limit / worst if worst > 0.0 else None
+
+
+def _first_factor(design: Design, key: str) -> float:
+    """A design-level partial factor (the same on every material): the first material's, or 1."""
+    return next((getattr(f, key) for f in design.factors.values()), 1.0)
 
 
 def _largest_cycle(cycles) -> int:

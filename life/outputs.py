@@ -180,6 +180,9 @@ def sizing_json(answer: SizingAnswer) -> str:
         "before": answer.before.summary(),
         "sized": proposal(answer.sized),
         "drops": None if answer.drops is None else proposal(answer.drops),
+        "sized_sha256": answer.sha256,
+        "width_to_depth": None if answer.lateral is None else answer.lateral.width_to_depth,
+        "lateral_buckling_load_n": None if answer.lateral is None else answer.lateral.critical_load,
     }
     return json.dumps(doc, indent=2, allow_nan=False) + "\n"
 

@@ -118,13 +118,18 @@ def headline_rows(result: LifeResult, display: Display | None = None) -> list[tu
                      + (", met" if verdict.meets_requirement else ", NOT met")
                      + ("" if verdict.life_margin is None else f", margin {format_number(verdict.life_margin, 3)}")))
     rows.append(("life, cycles", life_text(result.life_cycles, "cycles")))
-    rows.append(("life, blocks", life_text(result.life_blocks, "blocks of the duty")))
+    rows.append(("life, blocks", life_text(result.life_blocks, "blocks of the duty")
+                 + (f" at survival {design.survival:g}" if design.survival != 0.5 else "")))
+    if design.survival != 0.5:
+        rows.append(("life, median", life_text(result.life_blocks_median, "blocks of the duty") + " at survival 0.5"))
     if design.duty.blocks_per_day:
         rows.append(("life, days", life_text(result.life_days, "days") + f" at {per_day(design.duty.blocks_per_day)}"))
     reserve = "not checked" if summary["static_reserve"] is None else f"{summary['static_reserve']:.3g}"
     rows += [
         ("damage", f"{result.damage_per_block:.3g} per block (Miner limit {design.miner_limit:g})"),
         ("rule", f"mean stress {design.mean_stress}, stress factor {design.stress_factor:g}"),
+        *[("design values", f"{name}: strengths × {f.strength:.4g}, fatigue × {f.fatigue_strength:.4g}, "
+                            f"stiffness × {f.stiffness:.4g}") for name, f in design.factors.items() if not f.neutral],
         ("critical mode", critical.mode),
         ("critical ply", f"ply {critical.ply} ({ply.material.name}, {ply.angle:g}°), {critical.face} face"),
         ("critical place", f"x = {display.both(critical.x_m, 'position')} {where}, "

@@ -37,7 +37,7 @@ MATERIAL_KEYS_OPTIONAL = ("G13", "G23", "thickness", "S13", "eps1t", "eps1c")
 FATIGUE_TABLES = ("fatigue", "transverse_fatigue", "shear_fatigue", "interlaminar_fatigue")
 MATERIAL_KINDS = ("ply", "core")
 FATIGUE_FORMS = ("power", "log-linear")
-CURVE_KEYS = ("form", "R", "S1", "m", "b", "limit", "knee", "m2", "b2", "source")
+CURVE_KEYS = ("form", "R", "S1", "m", "b", "limit", "knee", "m2", "b2", "source", "sd_log10N")
 
 NUMERIC_KEYS = MATERIAL_KEYS_REQUIRED + MATERIAL_KEYS_OPTIONAL
 TABLE_KEYS = ("description", "kind", "sources") + NUMERIC_KEYS + FATIGUE_TABLES
@@ -265,6 +265,12 @@ def _parse_curve(curve: object, where: str, path: str, default_source: str | Non
         else:
             parsed["b2"] = _log_slope(curve["b2"], where, key_of("b2"), allow_zero=True)
 
+    if "sd_log10N" in curve:
+        sd = _bare_number(curve["sd_log10N"], where, key_of("sd_log10N"), "sd_log10N = 0.3 (decades)")
+        if sd < 0.0:
+            raise _fail(where, key_of("sd_log10N"), f"a standard deviation of log10 N must be >= 0 (typical 0.1-0.6 "
+                                                   f"decades), got {curve['sd_log10N']!r}")
+        parsed["sd_log10N"] = sd
     if "source" in curve:
         parsed["source"] = _text(curve["source"], where, key_of("source"))
     elif default_source is not None:
@@ -642,6 +648,8 @@ def describe(material: Material) -> str:
                 parts.append(f"m2 = {c['m2']:g}")
             if c["b2"] is not None:
                 parts.append(f"b2 = {c['b2']:g}")
+            if c.get("sd_log10N") is not None:
+                parts.append(f"sd_log10N = {c['sd_log10N']:g}")
             lines.append(f"    {', '.join(parts)}")
             lines.append(f"      source: {c['source']}")
     return "\n".join(lines)

@@ -695,7 +695,8 @@ def test_size_writes_the_sized_files_and_a_table(tmp_path, monkeypatch, capsys):
 
 
 @pytest.mark.parametrize("drive, lo, hi, args, says", [
-    ("force", "0 N", "20 N", ["--rate", "5 N/mm"], "only for a deflection-driven part"),
+    ("force", "0 N", "20 N", ["--rate", "5 N/mm", "--taper"], "--taper with --rate under a force drive"),
+    ("force", "0 N", "20 N", ["--rate", "5 N/mm", "--min-width", "30 mm", "--max-width", "20 mm"], "is above --max-width"),
     ("deflection", "0 mm", "10 mm", ["--rate", "5"], "has no unit"),
     ("deflection", "0 mm", "10 mm", ["--rate", "5 mm"], "not a stiffness"),
     ("force", "-2600 N", "2600 N", ["--vary", "width"], "static first-ply failure even at width × 10"),

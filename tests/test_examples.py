@@ -25,7 +25,8 @@ from flexcycle.design import load_design
 from flexcycle.estimate import estimate
 from flexcycle.mechanics.materials import library
 
-EXAMPLES = sorted(Path(str(p)) for p in (resources.files("flexcycle") / "examples").iterdir() if p.name.endswith(".toml"))
+EXAMPLES = sorted(Path(str(p)) for p in (resources.files("flexcycle") / "examples").iterdir()
+                  if p.name.endswith(".toml") and not p.name.endswith("-sweep.toml"))  # a sweep file is no design
 NEW = ["feeder-flexure.toml", "prosthetic-keel.toml", "coupon-three-point.toml"]
 FINITE_KEYS = ["life_cycles", "life_blocks", "damage_per_block", "stiffness_n_per_m", "mass_kg", "peak_strain",
                "peak_energy_j", "cycle_energy_j", "specific_energy_j_per_kg", "static_reserve"]  # docs/design.md outputs

@@ -69,7 +69,7 @@ stress_factor = 1.2
 def _seeds() -> list[dict]:
     folder = resources.files("flexcycle") / "examples"
     texts = [(folder / name).read_text(encoding="utf-8") for name in sorted(
-        p.name for p in folder.iterdir() if p.name.endswith(".toml"))]
+        p.name for p in folder.iterdir() if p.name.endswith(".toml") and not p.name.endswith("-sweep.toml"))]
     return [tomllib.loads(text) for text in texts + [SMALL]]
 
 

@@ -477,3 +477,17 @@ def test_warning_when_the_diagram_lies_far_inside_one_strength():
     warnings = model_warnings(fatigue_model("goodman", [curve], 40 * MPa, 246 * MPa, "t"), "carbon transverse")
     assert any("compression cycle" in w and "Xc" in w for w in warnings)
     assert not any("tension cycle" in w for w in warnings)
+
+
+@pytest.mark.parametrize("rule", ["goodman", "cld"])
+def test_a_table_of_cycles_gives_the_lives_of_each_cycle(rule):
+    """Cycles given as a 2-D table (locations × cycles, as the damage sum passes them) have the lives each
+    cycle has alone (a cld diagram once indexed the table's rows by flat positions)."""
+    curves = [power(), power(R=0.1)] if rule == "cld" else [power()]
+    model = fatigue_model(rule, curves, XT, XC, "test")
+    lo = np.array([[-300e6, 0.0, -100e6], [-200e6, 50e6, -400e6]])
+    hi = np.array([[300e6, 400e6, 100e6], [200e6, 350e6, 0.0]])
+    table = model.cycles_to_failure(lo, hi)
+    one_by_one = np.array([[model.cycles_to_failure(lo[i, j:j + 1], hi[i, j:j + 1])[0] for j in range(3)]
+                           for i in range(2)])
+    np.testing.assert_array_equal(table, one_by_one)

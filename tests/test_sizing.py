@@ -134,9 +134,11 @@ def test_rate_warns_when_too_wide_for_a_beam(tmp_path):
     assert any("plate" in w for w in r.warnings)
 
 
-def test_rate_refused_under_a_force_drive(tmp_path):
+def test_rate_after_the_thickness_refused_under_a_force_drive(tmp_path):
+    """Under a force drive the width after the thickness is refused (size_rate); plan sizes both together
+    instead (flexcycle.sizing.section, tests/test_section.py)."""
     with pytest.raises(InputError, match="deflection-driven"):
-        plan(load_design(_write(tmp_path)), 1e6, rate=25e3)
+        size_rate(load_design(_write(tmp_path)), 25e3)
 
 
 def test_deflection_drive_gives_the_thickest_that_reaches_the_target(tmp_path):

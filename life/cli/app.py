@@ -108,8 +108,13 @@ def size(
     design: Path = typer.Argument(..., help="design file (TOML)"),
     life: float = typer.Option(..., "--life", help="target life in blocks of the duty"),
     vary: str = typer.Option("thickness", "--vary", help="thickness (every ply) or width"),
-    rate: str | None = typer.Option(None, "--rate", help='spring rate with its unit, e.g. "30 N/mm" (deflection drive): the width for it, after the thickness for the life'),
+    rate: str | None = typer.Option(None, "--rate", help='spring rate with its unit, e.g. "30 N/mm": under a deflection drive the width for it after the thickness for the life; under a force drive thickness and width together'),
     taper: bool = typer.Option(False, "--taper", help="propose a width taper (sized.toml) and ply drops (sized-drops.toml) that even the strain"),
+    min_width: str | None = typer.Option(None, "--min-width", help='smallest root width you can build, e.g. "20 mm"'),
+    max_width: str | None = typer.Option(None, "--max-width", help='largest root width, e.g. "80 mm"'),
+    min_thickness: str | None = typer.Option(None, "--min-thickness", help='smallest root thickness, e.g. "4 mm"'),
+    max_thickness: str | None = typer.Option(None, "--max-thickness", help='largest root thickness, e.g. "20 mm"'),
+    whole_plies: bool = typer.Option(False, "--whole-plies", help="the thickness a whole number of the design's own plies"),
     out: Path = typer.Option(Path("flexcycle-size"), "--out", "-o", help="folder for sized.toml, sizing.json, report.html"),
     units: str | None = typer.Option(None, "--units", help=UNITS_HELP),
 ) -> None:
@@ -117,14 +122,26 @@ def size(
     from flexcycle.cli import terminal
     from flexcycle.design import load_design
     from flexcycle.display import display_for
+    from flexcycle.mechanics.units import parse_quantity
     from flexcycle.outputs import render, sizing_json, write_files
     from flexcycle.sizing import parse_rate, plan, sizing_rows
+    from flexcycle.sizing.section import Limits
+
+    def length(text: str | None, option: str) -> float | None:
+        if text is None:
+            return None
+        value = parse_quantity(text, "length", option)
+        if not value > 0:
+            raise InputError(f"{option}: a length > 0 with its unit, e.g. \"20 mm\", got {text!r}")
+        return value
 
     _check_units(units)
+    limits = Limits(length(min_width, "--min-width"), length(max_width, "--max-width"),
+                    length(min_thickness, "--min-thickness"), length(max_thickness, "--max-thickness"), whole_plies)
     k = None if rate is None else parse_rate(rate)
     loaded = load_design(design)
     display = display_for(units, loaded.units)
-    answer = plan(loaded, life, vary, k, taper)
+    answer = plan(loaded, life, vary, k, taper, limits)
     files = {"sized.toml": answer.sized.text}
     if answer.drops is not None:
         files["sized-drops.toml"] = answer.drops.text
@@ -133,7 +150,81 @@ def size(
                                   display=display)["report.html"]
     written = write_files(files, out)
     typer.echo(terminal.sizing_text(answer, display))
+    typer.echo(f"\nsized.toml SHA-256 {answer.sha256}")
     typer.echo(f"\nwrote {', '.join(p.name for p in written)} to {out}\ncaution: {CAUTION}")
+
+
+@app.command()
+def fit(
+    data: Path = typer.Argument(..., help="coupon results (CSV): one row per coupon, a header row, # comments"),
+    cycles: str = typer.Option(..., "--cycles", help="column of the cycles reached"),
+    unit: str = typer.Option(..., "--unit", "-u", help="unit of the level column: MPa, ksi, psi (stress basis) or %, strain (strain basis)"),
+    amplitude: str | None = typer.Option(None, "--amplitude", help="column of the cycle's amplitude"),
+    maximum: str | None = typer.Option(None, "--maximum", help="column of the cycle's peak (largest magnitude); needs R"),
+    runout: str | None = typer.Option(None, "--runout", help="column marking runouts (1/0, true/false, yes/no)"),
+    ratio: float | None = typer.Option(None, "--R", help="stress ratio of every test; without it, the file's R column"),
+    form: str = typer.Option("power", "--form", help="power (a = S1 N^(-1/m)) or log-linear (a = S1 (1 - b log10 N))"),
+    survival: float = typer.Option(0.95, "--survival", help="survival probability of the design curve"),
+    confidence: float = typer.Option(0.95, "--confidence", help="confidence of the design curve (and of the band and test)"),
+    material: str = typer.Option("fitted", "--material", help="the material's name in curve.toml (its material.NAME table)"),
+    mode: str = typer.Option("fibre", "--mode", help="the table curve.toml fills: fibre, transverse, shear or interlaminar"),
+    out: Path = typer.Option(Path("flexcycle-fit"), "--out", "-o", help="folder for fit.json, curve.toml, fit.html"),
+) -> None:
+    """Fit a fatigue curve, its scatter and a design curve to coupon results (ASTM E739; runouts censored)."""
+    from flexcycle.cli import terminal
+    from flexcycle.fatigue.coupons import read_coupons
+    from flexcycle.fatigue.damage import MODE_TABLES
+    from flexcycle.fatigue.fit import fit_coupons
+    from flexcycle.fit_outputs import render_fit
+    from flexcycle.outputs import write_files
+
+    if mode not in MODE_TABLES:
+        raise InputError(f"--mode: must be one of {', '.join(MODE_TABLES)}, got {mode!r}")
+    if not material.strip():
+        raise InputError("--material: a material name, e.g. my-glass")
+    coupons = read_coupons(data, cycles, unit, amplitude=amplitude, maximum=maximum, runout=runout, R=ratio)
+    result = fit_coupons(coupons, form, survival, confidence)
+    written = write_files(render_fit(result, material.strip(), mode), out)
+    typer.echo(terminal.fit_text(result))
+    typer.echo(f"\nwrote {', '.join(p.name for p in written)} to {out}\ncaution: {CAUTION}")
+
+
+@app.command()
+def sweep(
+    sweep_file: Path = typer.Argument(..., help="sweep file (TOML): design = BASE.toml, [vary], optional [sample], [objectives], [require]"),
+    out: Path = typer.Option(Path("flexcycle-sweep"), "--out", "-o", help="folder for sweep.csv, sweep.html and the rows as they finish"),
+    scheduler: str | None = typer.Option(None, "--scheduler", help="address of a running Dask scheduler, e.g. tcp://host:8786; default: a local cluster"),
+    workers: int | None = typer.Option(None, "--workers", help="worker processes of the local cluster (default: one per core)"),
+    resume: bool = typer.Option(False, "--resume", help="go on from the rows already in --out"),
+    batch: int | None = typer.Option(None, "--batch", help="candidates per Dask task (default: about eight tasks per worker, at most 64)"),
+    candidate: int | None = typer.Option(None, "--candidate", help="write candidate N's design file into --out (no sweep)"),
+) -> None:
+    """Estimate every candidate of a design space on Dask; the Pareto front of life and mass (or the objectives)."""
+    if workers is not None and workers < 1:
+        raise InputError(f"--workers: a number of worker processes >= 1, got {workers}")
+    if batch is not None and batch < 1:
+        raise InputError(f"--batch: a number of candidates per task >= 1, got {batch}")
+    if candidate is not None:
+        from flexcycle.explore.space import candidate_text, read_space
+
+        space = read_space(sweep_file)
+        if not 1 <= candidate <= len(space.candidates):
+            raise InputError(f"--candidate: the sweep has candidates 1 to {len(space.candidates)}, got {candidate}")
+        out.mkdir(parents=True, exist_ok=True)
+        path = out / f"candidate-{candidate}.toml"
+        path.write_text(candidate_text(space, space.candidates[candidate - 1], out, candidate), encoding="utf-8")
+        typer.echo(f"wrote {path}; run it with: flexcycle run {path} --out {out}")
+        return
+    from flexcycle.cli import terminal
+    from flexcycle.explore.sweep import dask_client, prepare, run_sweep
+
+    with _progress() as progress:
+        prepared = prepare(sweep_file, progress)
+    command = "flexcycle sweep " + " ".join(sys.argv[2:]) if sys.argv[1:2] == ["sweep"] else ""
+    with dask_client(scheduler, workers) as client, _count_progress("candidates") as counted:
+        outcome = run_sweep(prepared, out, client, resume, batch, counted, command)
+    typer.echo(terminal.sweep_text(outcome.table, prepared.space))
+    typer.echo(f"\nwrote {', '.join(p.name for p in outcome.files)} to {out}\ncaution: {CAUTION}")
 
 
 @app.command()
@@ -215,6 +306,35 @@ class _progress:
                                 TimeRemainingColumn(), console=Console(stderr=True), transient=True)
             self.bar.start()
             self.task = self.bar.add_task("read", total=total)
+        self.bar.update(self.task, completed=done)
+
+    def __exit__(self, *exc) -> None:
+        if self.bar is not None:
+            self.bar.stop()
+
+
+class _count_progress:
+    """A progress bar on stderr over a count of finished items (rich), as a callback ``(done, total)``; only on
+    a terminal."""
+
+    def __init__(self, what: str) -> None:
+        self.what = what
+
+    def __enter__(self):
+        self.bar = None
+        return self.update
+
+    def update(self, done: int, total: int) -> None:
+        if self.bar is None:
+            if not sys.stderr.isatty():
+                return
+            from rich.console import Console
+            from rich.progress import BarColumn, MofNCompleteColumn, Progress, TimeRemainingColumn
+
+            self.bar = Progress(self.what, BarColumn(), MofNCompleteColumn(), TimeRemainingColumn(),
+                                console=Console(stderr=True), transient=True)
+            self.bar.start()
+            self.task = self.bar.add_task(self.what, total=total)
         self.bar.update(self.task, completed=done)
 
     def __exit__(self, *exc) -> None:

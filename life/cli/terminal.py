@@ -22,6 +22,7 @@ from flexcycle.views import headline_rows
 
 if TYPE_CHECKING:  # flexcycle.sizing loads scipy.optimize, the estimate scipy's modal and spectral modules
     from flexcycle.estimate import LifeResult
+    from flexcycle.fatigue.fit import FitResult
     from flexcycle.sizing import SizingAnswer
 
 
@@ -182,4 +183,60 @@ def sizing_text(answer: SizingAnswer, display: Display = SI) -> str:
         lines.append("warnings:")
         lines.extend(f"  - {x}" for x in answer.warnings)
     lines.append(f"\n  {answer.evaluations} estimates in the thickness/width searches")
+    return "\n".join(lines)
+
+
+def fit_text(result: FitResult) -> str:
+    """The fitted curves as a table (one column per R), then the test of the straight line where there is one."""
+    c = result.coupons
+    strain = c.basis == "strain"
+    k, unit = (100.0, "%") if strain else (1.0 / c.scale, c.unit)
+    t = Table(box=box.SIMPLE_HEAD, show_edge=False, pad_edge=False)
+    t.add_column("quantity", no_wrap=True)
+    for fit in result.curves:
+        t.add_column(f"R = {fit.R:g}")
+
+    def row(name: str, cell) -> None:
+        t.add_row(name, *(cell(fit) for fit in result.curves))
+
+    slope = "m" if result.curves[0].form == "power" else "b"
+    row("method", lambda f: f.method)
+    row("coupons", lambda f: f"{f.n_failures} failures, {f.n_runouts} runouts")
+    row("form", lambda f: f.form + (" a = S1·N^(−1/m)" if f.form == "power" else " a = S1·(1 − b·log10 N)"))
+    row("S1 (median)", lambda f: f"{f.curve.S1 * k:.5g} {unit}")
+    row(f"{slope} (median)", lambda f: f"{getattr(f.curve, slope):.5g}")
+    row("sd_log10N", lambda f: f"{f.sd:.4g} decades" + (f" ({f.dof} dof)" if f.r_squared is not None else " (ML)"))
+    row("R²", lambda f: "—" if f.r_squared is None else f"{f.r_squared:.4f}")
+    row("amplitudes", lambda f: f"{f.amplitude.min() * k:.4g} … {f.amplitude.max() * k:.4g} {unit}")
+    row("design k", lambda f: f"{f.design.k:.4g} ({f.design.survival:.3g} survival, {f.design.confidence:.3g} confidence)")
+    row("S1 (design)", lambda f: f"{f.design.curve.S1 * k:.5g} {unit}")
+    row(f"{slope} (design)", lambda f: f"{getattr(f.design.curve, slope):.5g}")
+    lines = [f"flexcycle fit — {c.path.name}: {c.cycles.size} coupons, {c.basis} basis, level column "
+             f"{c.level_column!r} ({c.level_kind}) in {c.unit}", "", _render(t)]
+    for fit in result.curves:
+        test = fit.lack_of_fit
+        if test is not None:
+            verdict = "not rejected" if test.linear else "REJECTED: the data bend away from a straight line"
+            lines.append(f"  R = {fit.R:g}: E739 test of the straight line, F = {test.F:.3g} against "
+                         f"F_crit = {test.F_critical:.3g} ({test.dof[0]}, {test.dof[1]} dof, p = {test.p_value:.3g}): {verdict}")
+    return "\n".join(lines)
+
+
+def sweep_text(table, space) -> str:
+    """The sweep in a few lines: counts, and the candidates on the Pareto front (up to ten, longest life first)."""
+    valid = int((table["message"] == "").sum())
+    ok = int((table["meets_requirements"] == "true").sum())
+    front = table[table["pareto"] == "true"]
+    lines = [f"flexcycle sweep — {space.path.name} over {', '.join(space.keys)} ({space.method})",
+             f"  {len(table)} candidates, {valid} valid designs, {ok} meet the requirements, {len(front)} on the "
+             "Pareto front"]
+    if len(front):
+        life = front["life_blocks"].replace("", "inf").astype(float)
+        shown = front.assign(_life=life).sort_values("_life", ascending=False).head(10)
+        lines.append("")
+        lines.append("candidate  life [blocks]  mass [g]  " + "  ".join(space.keys))
+        for _, row in shown.iterrows():
+            life_text = "unbounded" if row["life_blocks"] == "" else f"{float(row['life_blocks']):.3g}"
+            lines.append(f"{int(row['candidate']):>9}  {life_text:>13}  {float(row['mass_kg']) * 1e3:>8.1f}  "
+                         + "  ".join(str(row[k]) for k in space.keys))
     return "\n".join(lines)

@@ -26,7 +26,7 @@ from flexcycle.errors import InputError
 
 FORMS = ("power", "log-linear")
 BASES = ("stress", "strain")
-CURVE_KEYS = ("form", "R", "basis", "S1", "m", "b", "limit", "knee", "m2", "b2", "source")
+CURVE_KEYS = ("form", "R", "basis", "S1", "m", "b", "limit", "knee", "m2", "b2", "source", "sd_log10N")
 NO_SOURCE = "not given (user data)"
 
 # Lives past this are extrapolated beyond usual composite S-N test data, which seldom run past
@@ -55,6 +55,8 @@ class SNCurve:
     b2 : float | None — fraction of S1 lost per decade beyond the knee of a log-linear curve [-],
         0 <= b2 < 1 (0: flat beyond the knee)
     source : str — where the curve comes from
+    sd_log10N : float | None — scatter: standard deviation of log10 N about the curve [decades], >= 0;
+        the curve is then the median curve (``flexcycle.fatigue.scatter``)
 
     Notes
     -----
@@ -86,6 +88,7 @@ class SNCurve:
     m2: float | None = None
     b2: float | None = None
     source: str = NO_SOURCE
+    sd_log10N: float | None = None
 
     def __post_init__(self) -> None:
         _check_curve(self, "fatigue curve")
@@ -197,7 +200,7 @@ def curve_from_mapping(raw: Mapping, where: str) -> SNCurve:
     values = {k: raw.get(k) for k in CURVE_KEYS}
     if values["source"] is None:
         values["source"] = NO_SOURCE
-    for key in ("R", "S1", "m", "b", "limit", "knee", "m2", "b2"):
+    for key in ("R", "S1", "m", "b", "limit", "knee", "m2", "b2", "sd_log10N"):
         values[key] = _number(values[key], where, key)
     try:
         return SNCurve(**values)
@@ -224,7 +227,7 @@ def _check_curve(c: SNCurve, where: str) -> None:
         raise fail("form", f"must be one of {', '.join(FORMS)}, got {c.form!r}")
     if c.basis not in BASES:
         raise fail("basis", f"must be one of {', '.join(BASES)}, got {c.basis!r}")
-    for key in ("R", "S1", "m", "b", "limit", "knee", "m2", "b2"):
+    for key in ("R", "S1", "m", "b", "limit", "knee", "m2", "b2", "sd_log10N"):
         v = getattr(c, key)
         if v is not None and (isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v)):
             raise fail(key, f"must be a finite number, got {v!r}")
@@ -232,6 +235,8 @@ def _check_curve(c: SNCurve, where: str) -> None:
         raise fail("R", "= 1 is a constant (static) load, not a cycle; use e.g. R = -1, 0.1 or 10")
     if not c.S1 > 0.0:
         raise fail("S1", f"(amplitude at N = 1) must be > 0, got {c.S1!r}")
+    if c.sd_log10N is not None and not c.sd_log10N >= 0.0:
+        raise fail("sd_log10N", f"(standard deviation of log10 N) must be >= 0, got {c.sd_log10N!r}")
     slope, other, slope2, other2 = ("m", "b", "m2", "b2") if c.form == "power" else ("b", "m", "b2", "m2")
     for key in (other, other2):
         if getattr(c, key) is not None:

@@ -274,8 +274,8 @@ class FatigueModel:
         sm = 0.5 * (hi + lo)
         static = (hi > self.Xt) | (lo < -self.Xc)
         live = ~static & (sa > 0.0)
-        if live.all():  # the usual case: no cycle to leave out, no gathering
-            return self._cycles(sa, sm)
+        if live.all():  # the usual case: no cycle to leave out, no gathering (flat: _cld_cycles indexes by position)
+            return self._cycles(sa.ravel(), sm.ravel()).reshape(sa.shape)
         N = np.where(static, 0.0, np.inf)
         if live.any():
             N[live] = self._cycles(sa[live], sm[live])

@@ -27,6 +27,7 @@ from flexcycle.fatigue.meanstress import (
     goodman_amplitude_on_ray,
     mean_ratio,
 )
+from flexcycle.fatigue.scatter import survival_z
 from flexcycle.report.data import (
     critical_index,
     cycles_of_table,
@@ -312,6 +313,20 @@ def _equivalent_amplitude(model, sa: np.ndarray, sm: np.ndarray) -> np.ndarray:
     return sa
 
 
+def _scatter_band(ax, curve, survival: float, ys: float) -> None:
+    """The median curve's scatter band, log10 N ± 2·sd (about 95 % of lives under log-normal scatter), and the
+    median curve itself where the curve drawn is one at another survival (flexcycle.fatigue.scatter)."""
+    sd = curve.sd_log10N
+    amplitudes = curve.amplitude(np.logspace(0, 12, 200))
+    amplitudes = amplitudes[amplitudes > (curve.limit or 0.0)]
+    median = curve.log_cycles(amplitudes) + survival_z(survival) * sd
+    with np.errstate(over="ignore"):
+        ax.fill_betweenx(amplitudes * ys, 10.0 ** (median - 2 * sd), 10.0 ** (median + 2 * sd), color=PALETTE[0],
+                         alpha=0.12, lw=0, label=f"scatter band, median ± 2 sd (sd_log10N = {sd:.3g})")
+        if survival != 0.5:
+            ax.plot(10.0 ** median, amplitudes * ys, color=PALETTE[0], lw=1, ls="--", label="median curve")
+
+
 def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame, display: Display = SI) -> Figure:
     """(e) The critical location's fatigue curve (or constant-life diagram) with the duty's cycles there."""
     locations, d = result.locations, result.design
@@ -356,8 +371,12 @@ def figure_fatigue_curve(result: LifeResult, cycles: pd.DataFrame, display: Disp
         finite = np.isfinite(N) & (N > 0) & live
         n_max = max(1e9, float(N[finite].max()) * 10 if finite.any() else 1e9)
         grid = np.logspace(0, np.log10(n_max), 200)
+        at = "" if d.survival == 0.5 else f" at survival {d.survival:g}"
         ax.plot(grid, curve.amplitude(grid) * ys, color=PALETTE[0], lw=2,
-                label=f"{curve.form} curve at R = {curve.R:g}" + (f", limit {curve.limit * ys:.3g} {yunit}" if curve.limit else ""))
+                label=f"{curve.form} curve at R = {curve.R:g}{at if curve.sd_log10N is not None else ''}"
+                + (f", limit {curve.limit * ys:.3g} {yunit}" if curve.limit else ""))
+        if curve.sd_log10N:
+            _scatter_band(ax, curve, d.survival, ys)
         order = np.argsort(-seq[live])
         cumulative = np.cumsum(counted.count[live][order])
         levels = seq[live][order] * ys

@@ -17,6 +17,7 @@ import pandas as pd
 from flexcycle.caution import CAUTION
 from flexcycle.display import SI, Display, format_number, from_where, per_day
 from flexcycle.estimate import LifeResult
+from flexcycle.fatigue.scatter import survival_z
 from flexcycle.report.data import drop_positions
 from flexcycle.report.figures import drive_display, layup_exaggeration
 from flexcycle.report.texts import CAUTIONS, LARGE_DEFLECTION_LIMIT, LIMITS, METHODS, RULE_NAMES, THEORY_TEXT
@@ -249,6 +250,8 @@ def _curve_text(curve, display: Display = SI) -> str:
         extra += ", limit " + (f"{curve.limit * 100:.3g} %" if basis == "strain" else display.both(curve.limit, "stress"))
     if curve.knee is not None:
         extra += f", knee {curve.knee:.3g} cycles"
+    if curve.sd_log10N is not None:
+        extra += f", sd_log10N = {curve.sd_log10N:.3g} decades"
     return f"{curve.form}, {basis} basis, R = {curve.R:g}, S1 = {s1}, {slope}{extra}; source: {curve.source}"
 
 
@@ -283,10 +286,16 @@ def section_method(result: LifeResult, display: Display = SI) -> str:
         ("mean-stress rule", RULE_NAMES.get(d.mean_stress, d.mean_stress)),
         ("damage rule", f"Palmgren–Miner linear damage sum; failure at D = {d.miner_limit:g} (Miner limit)"),
         ("stress factor", f"{d.stress_factor:g} on every local stress and strain, fatigue and static"),
+        ("survival", "0.5: the curves as median curves" if d.survival == 0.5 else
+         f"{d.survival:g}: every curve with a scatter sd_log10N lowered to N_p = N_median·10^(−z_p·sd), "
+         f"z_p = {survival_z(d.survival):.4f}, curve by curve (the curves below are those at this survival); "
+         "a curve without sd_log10N stays a median curve (a warning says so)"),
     ]
     return f"""<section id="method">
 <h2>3. Method and assumptions</h2>
 {table_html(choices, cls="kv")}
+<h3>Design values of the materials</h3>
+{_factor_table(d)}
 <h3>Fatigue curves used</h3>
 {table_html(curves, header=("material", "direction", "rule", "curve")) if curves else "<p>No fatigue curve applies: every location is checked statically only.</p>"}
 <h3>Models and their sources</h3>
@@ -311,6 +320,21 @@ def _location_cells(locations: pd.DataFrame) -> tuple[list[tuple], str]:
     return cells, header
 
 
+def _factor_table(design) -> str:
+    """Every factor on each material's values and their products (flexcycle.fatigue.factors)."""
+    rows = []
+    for name, f in design.factors.items():
+        causes = "; ".join(f"{cause}: " + ", ".join(f"{prop} {value:g}" for prop, value in table.items())
+                           for cause, table in f.knockdowns.items()) or "none"
+        rows.append((name, f"{f.static_strength_factor:g}", f"{f.fatigue_strength_factor:g}", causes,
+                     f"{f.strength:.4g}", f"{f.fatigue_strength:.4g}", f"{f.stiffness:.4g}"))
+    note = ("<p>Static strengths (and ultimate strains) × Π(strength knock-downs)/γ_s; fatigue-curve amplitudes × "
+            "Π(fatigue knock-downs)/γ_f; moduli × Π(stiffness knock-downs); the load's stress factor "
+            f"{design.stress_factor:g} comes on top. Values shown elsewhere in this report are design values.</p>")
+    return note + table_html(rows, header=("material", "γ_s static", "γ_f fatigue", "environmental knock-downs",
+                                           "× strengths", "× fatigue strength", "× stiffness"), cls="small")
+
+
 def section_results(result: LifeResult, cycles: pd.DataFrame, locations: pd.DataFrame, svg: Mapping[str, str],
                     display: Display = SI) -> str:
     d, s, c = result.design, result.summary(), result.critical
@@ -318,7 +342,10 @@ def section_results(result: LifeResult, cycles: pd.DataFrame, locations: pd.Data
     where = from_where(d.beam.support)
     life = [
         ("life in cycles", life_text(s["life_cycles"], "cycles")),
-        ("life in blocks of the duty", life_text(s["life_blocks"], "blocks")),
+        ("life in blocks of the duty", life_text(s["life_blocks"], "blocks")
+         + (f" at survival {d.survival:g}" if d.survival != 0.5 else "")),
+        *([("life in blocks, median", life_text(s["life_blocks_median"], "blocks") + " at survival 0.5")]
+          if d.survival != 0.5 else []),
         ("life in days", life_text(s["life_days"], "days") + f" at {per_day(d.duty.blocks_per_day)}"
          if d.duty.blocks_per_day else "— (no blocks_per_day given)"),
         ("damage per block", f"{s['damage_per_block']:.3g} (Miner limit {d.miner_limit:g})"),

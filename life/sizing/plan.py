@@ -5,7 +5,8 @@ before/after table of the report and the terminal.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass
+import hashlib
+from dataclasses import dataclass, replace
 
 from flexcycle.design import Design
 from flexcycle.display import SI, Display
@@ -14,6 +15,7 @@ from flexcycle.estimate import LifeResult, estimate
 from flexcycle.sizing.plies import PlyStack, drop_stack, restack, size_plies
 from flexcycle.sizing.rate import size_rate
 from flexcycle.sizing.scale import scaled_design, size
+from flexcycle.sizing.section import LateralCheck, Limits, lateral_buckling, limited_scale, size_section
 from flexcycle.sizing.taper import check_taper_support, drop_plies, shear_margin, taper_width
 from flexcycle.sizing.writer import design_file, read_back
 
@@ -70,6 +72,12 @@ class SizingAnswer:
     width_to_thickness: float
     evaluations: int
     warnings: tuple[str, ...]
+    lateral: LateralCheck | None = None
+
+    @property
+    def sha256(self) -> str:
+        """SHA-256 of sized.toml's text as written (UTF-8), hex."""
+        return hashlib.sha256(self.sized.text.encode("utf-8")).hexdigest()
 
 
 def _written_proposal(design: Design, start: Design, name: str, steps: list[Step], target: float,
@@ -89,15 +97,25 @@ def _written_proposal(design: Design, start: Design, name: str, steps: list[Step
 
 
 def plan(design: Design, target_blocks: float, vary: str = "thickness", rate: float | None = None,
-         taper: bool = False) -> SizingAnswer:
+         taper: bool = False, limits: Limits = Limits()) -> SizingAnswer:
     """Thickness (or width) for the life; with ``taper`` a width taper, the thickness re-sized by one factor
     (sized.toml), and a ply-drop alternative in whole plies of the design's real thickness (sized-drops.toml,
-    module notes); with ``rate`` [N/m] the width last for the spring rate (deflection drive)."""
+    module notes); with ``rate`` [N/m] the width last for the spring rate (deflection drive), or thickness and
+    width together from the life and the rate (force drive, ``flexcycle.sizing.section``); ``limits`` the
+    widths and thicknesses a designer accepts, and whole plies."""
     if rate is not None and vary != "thickness":
         raise InputError("rate: the thickness is sized for the life and the width for the rate; size the "
                          "thickness (vary = \"thickness\")", parameter="rate")
+    if rate is not None and design.duty.drive == "force":
+        if taper:
+            raise InputError("--taper with --rate under a force drive: size the section first (without --taper), "
+                             "then taper the sized design")
+        return _section_plan(design, target_blocks, rate, limits)
     if rate is not None and design.duty.drive != "deflection":
         size_rate(design, rate)  # raises with the reason
+    if limits.whole_plies and (taper or vary != "thickness"):
+        raise InputError("--whole-plies: for the thickness alone (--taper already gives a whole-ply alternative, "
+                         "sized-drops.toml)")
     if taper:
         check_taper_support(design)
     count = 0
@@ -106,6 +124,23 @@ def plan(design: Design, target_blocks: float, vary: str = "thickness", rate: fl
     count += len(first.history)
     base_steps = [Step(f"{vary} for the life", first.scale_factor, first.note)]
     warnings: list[str] = []
+    factor, moved = limited_scale(design, vary, first.scale_factor, limits)
+    if moved:
+        first = replace(first, scale_factor=factor, design=scaled_design(design, vary, factor))
+        base_steps.append(Step(f"{vary} inside the limits", factor, moved))
+    if limits.whole_plies:
+        whole = size_plies(design, target_blocks)
+        stack = whole.stack
+        thickness = sum(p.thickness for p in stack.design.beam.plies)
+        low, high = limits.min_thickness, limits.max_thickness
+        if (high is not None and thickness > high * (1 + 1e-12)) or (low is not None and thickness < low * (1 - 1e-12)):
+            raise InputError(f"--whole-plies: the whole-ply stack for the life is {thickness * 1e3:.4g} mm thick at "
+                             "the root, outside the thickness limits; widen them")
+        steps = [Step("whole plies for the life", None, whole.note)]
+        sized, ratio = _finish_rate(stack.design, design, "sized.toml", steps, target_blocks, rate, warnings,
+                                    stack.rows)
+        return _with_lateral(SizingAnswer(target_blocks, before, sized, None, rate, ratio,
+                                          count + whole.evaluations, tuple(warnings)))
 
     def finish(d: Design, steps: list[Step], name: str, rows: tuple[int, ...] | None = None) -> tuple[Proposal, float]:
         ratio = d.beam.width_root / sum(p.thickness for p in d.beam.plies)
@@ -141,7 +176,39 @@ def plan(design: Design, target_blocks: float, vary: str = "thickness", rate: fl
             "sized.toml")
         drops, used = _whole_ply_drops(design, target_blocks, finish)
         count += used
-    return SizingAnswer(target_blocks, before, sized, drops, rate, ratio, count, tuple(warnings))
+    return _with_lateral(SizingAnswer(target_blocks, before, sized, drops, rate, ratio, count, tuple(warnings)))
+
+
+def _finish_rate(d: Design, start: Design, name: str, steps: list[Step], target: float, rate: float | None,
+                 warnings: list[str], rows: tuple[int, ...] | None = None) -> tuple[Proposal, float]:
+    """The written proposal, with the width for the rate last when a rate is asked (deflection drive)."""
+    ratio = d.beam.width_root / sum(p.thickness for p in d.beam.plies)
+    if rate is not None:
+        r = size_rate(d, rate)
+        steps = steps + [Step("width for the spring rate", r.factor,
+                              f"width × {r.factor:.5g} gives {r.stiffness / 1e3:.5g} N/mm")]
+        warnings.extend(w for w in r.warnings if w not in warnings)
+        d, ratio = r.design, r.width_to_thickness
+    return _written_proposal(d, start, name, steps, target, rows), ratio
+
+
+def _section_plan(design: Design, target_blocks: float, rate: float, limits: Limits) -> SizingAnswer:
+    """Force drive: thickness and width together from the life and the rate (flexcycle.sizing.section)."""
+    before = estimate(design)
+    section = size_section(design, target_blocks, rate, limits)
+    steps = [Step("thickness and width for the life and the rate", section.thickness_factor, section.note),
+             Step("width for the rate", section.width_factor,
+                  f"width × {section.width_factor:.5g} gives {section.stiffness / 1e3:.5g} N/mm")]
+    sized = _written_proposal(section.design, design, "sized.toml", steps, target_blocks, section.rows)
+    ratio = section.design.beam.width_root / sum(p.thickness for p in section.design.beam.plies)
+    return _with_lateral(SizingAnswer(target_blocks, before, sized, None, rate, ratio, section.evaluations, ()))
+
+
+def _with_lateral(answer: SizingAnswer) -> SizingAnswer:
+    """The answer with the lateral-torsional buckling check of sized.toml (its warning among the warnings)."""
+    check = lateral_buckling(answer.sized.result)
+    warnings = answer.warnings + ((check.warning,) if check.warning else ())
+    return replace(answer, lateral=check, warnings=warnings)
 
 
 def _drops_or_none(stack: PlyStack) -> PlyStack:
@@ -215,6 +282,11 @@ def sizing_rows(answer: SizingAnswer, display: Display = SI) -> list[tuple[str, 
     if answer.rate is not None:
         rows.append(("spring rate asked", "", display.both(answer.rate, "stiffness")))
     rows.append(("width / thickness at the root", "", f"{answer.width_to_thickness:.3g}"))
+    if answer.lateral is not None and answer.lateral.critical_load is not None:
+        rows.append(("lateral-torsional buckling load (uniform cantilever of the root section)", "",
+                     f"{display.both(answer.lateral.critical_load, 'force')} "
+                     f"({answer.lateral.critical_load / answer.lateral.peak_force:.3g} × the largest force)"))
+    rows.append(("written file", "", f"{answer.sized.name}, SHA-256 {answer.sha256}"))
     if answer.drops is not None:
         alt = _figures_of(answer.drops.result, display)
         rows.append(("ply-drop alternative: inner plies at the root", str(len(answer.before.design.beam.plies) - 2),

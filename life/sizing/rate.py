@@ -46,6 +46,37 @@ def parse_rate(text: str) -> float:
     return rate
 
 
+@dataclass(frozen=True)
+class WidthForRate:
+    """The width scale factor that gives a spring rate, any drive.
+
+    factor : float — width scale [-]; design : Design — the design at that width
+    stiffness : float — its spring rate [N/m]
+    linearity : float — k(factor)/(factor·k(1)) − 1 from the first evaluation: 0 for k ∝ b [-]
+    """
+
+    factor: float
+    design: Design
+    stiffness: float
+    linearity: float
+
+
+def width_for_rate(design: Design, rate: float) -> WidthForRate:
+    """Scale the width so that the load-point stiffness is ``rate`` [N/m] (k ∝ b for a narrow beam, evaluated
+    and refined by the same ratio until within ``RATE_TOLERANCE``; notes of `size_rate`)."""
+    k1 = respond(design.beam).stiffness
+    factor, k = rate / k1, None
+    linearity = None
+    for _ in range(8):
+        k = respond(scaled_design(design, "width", factor).beam).stiffness
+        if linearity is None:
+            linearity = k / (factor * k1) - 1.0
+        if abs(k / rate - 1.0) < RATE_TOLERANCE:
+            break
+        factor *= rate / k
+    return WidthForRate(float(factor), scaled_design(design, "width", factor), float(k), float(linearity))
+
+
 def size_rate(design: Design, rate: float) -> RateResult:
     """Scale the width so that the load-point stiffness is ``rate`` [N/m] (deflection drive).
 
@@ -59,17 +90,8 @@ def size_rate(design: Design, rate: float) -> RateResult:
         raise InputError("rate: only for a deflection-driven part; under a force drive the life depends on the "
                          "width as much as on the thickness, so the two cannot be set one after the other — "
                          "size the thickness or the width for the life alone", parameter="rate")
-    k1 = respond(design.beam).stiffness
-    factor, k = rate / k1, None
-    linearity = None
-    for _ in range(8):
-        k = respond(scaled_design(design, "width", factor).beam).stiffness
-        if linearity is None:
-            linearity = k / (factor * k1) - 1.0
-        if abs(k / rate - 1.0) < RATE_TOLERANCE:
-            break
-        factor *= rate / k
-    sized = scaled_design(design, "width", factor)
+    width = width_for_rate(design, rate)
+    factor, k, linearity, sized = width.factor, width.stiffness, width.linearity, width.design
     ratio = sized.beam.width_root / sum(p.thickness for p in sized.beam.plies)  # every ply is there at the root
     warnings = []
     if sized.beam.section == "beam" and ratio > WIDE_BEAM:

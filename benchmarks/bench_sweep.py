@@ -1,0 +1,84 @@
+"""Sweep throughput of the bundled example: candidates per second with one and two Dask workers, against the
+aims (100 candidates/s on a 2-core machine; two workers at least 1.7 × one).
+
+    .venv/bin/python benchmarks/bench_sweep.py [--candidates 400] [--repeats 2]
+
+Not part of the test run. The sweep varies the bundled cargo-bike spring's span, root width and the two
+unidirectional ply counts (a grid cut to ``--candidates``); the duty is read and counted once. Each round
+runs the sweep in this process without Dask (the floor), then on a LocalCluster of one worker and of two
+(single-threaded worker processes running this clone's code), interleaved round by round; the clusters are
+started before the clock starts. Figures are medians of the rounds. The machine is shared: the load average
+is printed beside the figures.
+"""
+from __future__ import annotations
+
+import argparse
+import os
+import statistics
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+REPO = Path(__file__).resolve().parent.parent
+sys.path.insert(0, str(REPO))
+import conftest  # noqa: E402,F401  (this clone's code under the name flexcycle)
+
+sys.path.append(str(REPO / "tests"))  # after the root conftest: tests/ has a conftest.py of its own
+
+AIM_RATE = 100.0  # candidates per second, 2-core machine, linear theory
+AIM_SCALING = 1.7  # two workers over one
+
+SWEEP = """\
+design = "{design}"
+[vary]
+"beam.span" = ["270 mm", "285 mm", "300 mm", "315 mm", "330 mm"]
+"beam.width.root" = ["50 mm", "55 mm", "60 mm", "65 mm"]
+"ply.2.count" = [4, 5, 6, 7]
+"ply.4.count" = [3, 4, 5, 6, 7]
+"""
+
+
+def main() -> None:
+    parser = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
+    parser.add_argument("--candidates", type=int, default=400)
+    parser.add_argument("--repeats", type=int, default=2)
+    args = parser.parse_args()
+
+    from dataclasses import replace
+
+    from sweep_cases import clone_cluster
+
+    from flexcycle.explore.sweep import evaluate_batch, prepare, run_sweep
+
+    with tempfile.TemporaryDirectory() as folder:
+        sweep = Path(folder) / "sweep.toml"
+        sweep.write_text(SWEEP.format(design=(REPO / "life" / "examples" / "cargo-bike-rear-spring.toml").as_posix()))
+        prepared = prepare(sweep)
+        space = replace(prepared.space, candidates=prepared.space.candidates[:args.candidates])
+        prepared = replace(prepared, space=space)
+        n = len(space.candidates)
+        rates: dict[str, list[float]] = {"this process, no Dask": [], "1 Dask worker": [], "2 Dask workers": []}
+        with clone_cluster(1) as one, clone_cluster(2) as two:
+            for round_number in range(args.repeats):
+                start = time.perf_counter()
+                evaluate_batch(prepared.context, prepared.duty, list(enumerate(space.candidates, start=1)))
+                rates["this process, no Dask"].append(n / (time.perf_counter() - start))
+                for name, client in (("1 Dask worker", one), ("2 Dask workers", two)):
+                    out = Path(folder) / f"out-{name[0]}-{round_number}"
+                    start = time.perf_counter()
+                    run_sweep(prepared, out, client)
+                    rates[name].append(n / (time.perf_counter() - start))
+    load = os.getloadavg()[0]
+    print(f"sweep of the bundled example, {n} candidates, {args.repeats} interleaved rounds; load average {load:.1f} "
+          f"on {os.cpu_count()} cores (shared machine: medians)")
+    print(f"{'':<24}{'candidates/s':>14}{'aim':>10}")
+    for name, values in rates.items():
+        aim = f"{AIM_RATE:g}/s" if name == "2 Dask workers" else ""
+        print(f"{name:<24}{statistics.median(values):>14.2f}{aim:>10}")
+    ratio = statistics.median(rates["2 Dask workers"]) / statistics.median(rates["1 Dask worker"])
+    print(f"{'2 workers / 1 worker':<24}{ratio:>14.2f}{AIM_SCALING:>10g}")
+
+
+if __name__ == "__main__":
+    main()
