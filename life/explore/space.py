@@ -31,7 +31,6 @@ is the design file it describes; its kind is checked here, once, and a candidate
 from __future__ import annotations
 
 import copy
-import difflib
 import hashlib
 import itertools
 import json
@@ -50,6 +49,7 @@ import tomlkit
 from flexcycle.design import BUNDLED_PREFIX, read_document
 from flexcycle.errors import InputError
 from flexcycle.mechanics import errors as mechanics_errors
+from flexcycle.mechanics.errors import did_you_mean
 from flexcycle.mechanics.materials import resolve_materials
 from flexcycle.mechanics.units import parse_quantity
 
@@ -177,8 +177,7 @@ def check_summary_keys(space: SweepSpace, summary: Mapping[str, Any]) -> None:
     named = [("objectives", o.key) for o in space.objectives] + [("require", r.key) for r in space.requirements]
     for table, key in named:
         if key not in numeric:
-            close = difflib.get_close_matches(key, numeric, n=1)
-            hint = f"did you mean {close[0]!r}? " if close else ""
+            hint = did_you_mean(key, numeric)
             raise InputError(f"{space.path.name} [{table}] {key}: not a numeric summary key; {hint}"
                              f"numeric keys: {', '.join(numeric)}")
 
@@ -188,9 +187,8 @@ def check_summary_keys(space: SweepSpace, summary: Mapping[str, Any]) -> None:
 def _unknown(table: Mapping, allowed: set, where: str) -> None:
     for key in table:
         if key not in allowed:
-            close = difflib.get_close_matches(str(key), sorted(allowed), n=1)
-            hint = f"; did you mean {close[0]!r}?" if close else f"; allowed: {', '.join(sorted(allowed))}"
-            raise InputError(f"{where}: unknown key {key!r}{hint}")
+            hint = did_you_mean(str(key), allowed) or f"allowed: {', '.join(sorted(allowed))}"
+            raise InputError(f"{where}: unknown key {key!r}; {hint.rstrip()}")
 
 
 def _flatten(vary: Mapping, prefix: str = "") -> dict[str, Any]:
@@ -227,8 +225,7 @@ def _kind_of(key: str, document: Mapping, where: str) -> str:
                              f"1 to {len(rows)} (the N-th [[ply]] entry, from the tension face)")
         kind = PLY_VARIED.get(parts[2])
     if kind is None:
-        close = difflib.get_close_matches(key, _allowed_keys(document), n=1, cutoff=0.5)
-        hint = f"did you mean {close[0]!r}? " if close else ""
+        hint = did_you_mean(key, _allowed_keys(document), cutoff=0.5)
         raise InputError(f"{where}: unknown key {key!r}; {hint}a sweep varies beam.span, beam.width, "
                          "beam.width.root, beam.width.tip, beam.load_spacing and ply.N.thickness, ply.N.count, "
                          "ply.N.angle, ply.N.material, ply.N.ends_at")
@@ -265,8 +262,7 @@ def _check_value(key: str, value: Any, kind: str, materials: Sequence[str], wher
                 raise InputError(f"{where}: a fibre angle in degrees as a bare number (-90 … 180), got {value!r}")
         elif kind == "material":
             if not isinstance(value, str) or value not in materials:
-                close = difflib.get_close_matches(str(value), materials, n=1)
-                hint = f"did you mean {close[0]!r}? " if close else ""
+                hint = did_you_mean(str(value), materials)
                 raise InputError(f"{where}: unknown material {value!r}; {hint}see `flexcycle materials`")
     except mechanics_errors.InputError as exc:
         raise InputError(str(exc)) from None

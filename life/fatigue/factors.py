@@ -27,13 +27,13 @@ on the safe side): the strain allowables of a strain-basis fibre curve never gro
 from __future__ import annotations
 
 import dataclasses
-import difflib
 import math
 from collections.abc import Mapping
 from dataclasses import dataclass
 from types import MappingProxyType
 
 from flexcycle.errors import InputError
+from flexcycle.mechanics.errors import did_you_mean
 from flexcycle.mechanics.materials import Material
 
 CAUSES = ("temperature", "moisture", "ageing")
@@ -129,8 +129,7 @@ def read_factors(fatigue: Mapping, environment: Mapping, materials: Mapping[str,
     for material, causes in environment.items():
         where = f"{name} [environment.{material}]"
         if material not in materials:
-            close = difflib.get_close_matches(str(material), sorted(materials), n=1)
-            hint = f"did you mean {close[0]!r}? " if close else ""
+            hint = did_you_mean(str(material), materials)
             raise InputError(f"{where}: unknown material {material!r}; {hint}name a library material or a "
                              "[material.NAME] of this file")
         if not isinstance(causes, Mapping):
@@ -138,8 +137,7 @@ def read_factors(fatigue: Mapping, environment: Mapping, materials: Mapping[str,
         knockdowns[material] = {}
         for cause, table in causes.items():
             if cause not in CAUSES:
-                close = difflib.get_close_matches(str(cause), CAUSES, n=1)
-                hint = f"did you mean {close[0]!r}? " if close else ""
+                hint = did_you_mean(str(cause), CAUSES)
                 raise InputError(f"{where}: unknown cause {cause!r}; {hint}allowed: {', '.join(CAUSES)}")
             if not isinstance(table, Mapping):
                 raise InputError(f"{where} {cause}: a table of knock-downs, e.g. {cause} = {{ strength = 0.9, "
@@ -147,8 +145,7 @@ def read_factors(fatigue: Mapping, environment: Mapping, materials: Mapping[str,
             knockdowns[material][cause] = {}
             for prop, value in table.items():
                 if prop not in PROPERTIES:
-                    close = difflib.get_close_matches(str(prop), PROPERTIES, n=1)
-                    hint = f"did you mean {close[0]!r}? " if close else ""
+                    hint = did_you_mean(str(prop), PROPERTIES)
                     raise InputError(f"{where} {cause}.{prop}: unknown key; {hint}allowed: {', '.join(PROPERTIES)}")
                 knockdowns[material][cause][prop] = _knockdown(value, f"{where} {cause}.{prop}")
     return {
