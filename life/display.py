@@ -9,6 +9,7 @@ space allows (``both``). Each quantity kind maps to (SI unit, US unit); the conv
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass
 from functools import cache
 
@@ -51,6 +52,34 @@ KINDS = {
 }
 # Kinds without a unit of length, force or mass are the same in both systems.
 SAME = {"strain": "%", "ratio": "", "cycles": "cycles", "blocks": "blocks", "angle": "°"}
+
+
+# The SI units the library writes in its messages (warnings, sizing notes), with the kind each is shown as and
+# the SI base units in one of it; longest first, so "N/mm" is read before "N" and "mm" before "m".
+MESSAGE_UNITS = {
+    "kg/m^3": ("density", 1.0), "kg/m³": ("density", 1.0), "J/kg": ("specific_energy", 1.0),
+    "N/mm": ("stiffness", 1e3), "N/m": ("stiffness", 1.0), "N·m": ("moment", 1.0), "N*m": ("moment", 1.0),
+    "GPa": ("modulus", 1e9), "MPa": ("stress", 1e6), "kPa": ("stress", 1e3), "Pa": ("stress", 1.0),
+    "kN": ("force", 1e3), "mm": ("length", 1e-3), "µm": ("length", 1e-6), "mJ": ("energy", 1e-3),
+    "kg": ("mass", 1.0), "N": ("force", 1.0), "m": ("length", 1.0), "J": ("energy", 1.0), "g": ("mass", 1e-3),
+}
+# A number: not the tail of a word, a decimal or an exponent ("sd_log10N", "1e-3"); optional sign, exponent.
+_NUMBER = r"(?<![\w.])(?<![eE][-+])[-−+]?\d+(?:\.\d+)?(?:[eE][-+]?\d+)?"
+# A quantity in a message: a number, or a range of two ("0.1–10 mm", "12 → 10 mm", "between 1 and 2 mm"), then
+# one of MESSAGE_UNITS, which must end there (not "mm" in a word, not "N" of "N/A", not "m" of "m²").
+_QUANTITY = re.compile(
+    rf"(?:(?P<between>between )(?P<low>{_NUMBER}) and |(?P<first>{_NUMBER})(?P<joint>\s?[–…→]\s?| to ))?"
+    rf"(?P<value>{_NUMBER}) ?(?P<unit>{'|'.join(re.escape(u) for u in MESSAGE_UNITS)})(?![\w/·^²³*])"
+)
+# A quantity already shown inch-pound first ("0.4724 in (12 mm)") is left alone: the text before ends with a US
+# unit label and an opening parenthesis.
+_ALREADY = re.compile(r"(?:in|mil|lbf|lbf/in|ksi|Msi|in·lbf|lb|in·lbf/lb|lb/in³) \($")
+
+
+def _significant(number: str) -> int:
+    """Significant figures written in ``number`` ("12.0" → 3, "1560" → 4, "0.05" → 1, "1.2e+07" → 2)."""
+    mantissa = re.split("[eE]", number.lstrip("-−+"))[0]
+    return max(1, len(mantissa.replace(".", "").lstrip("0")))
 
 
 @cache
@@ -164,6 +193,34 @@ class Display:
         if self.us and kind not in SAME:
             text += f" ({SI.number(value, kind, digits)})"
         return text
+
+    def text(self, message: str) -> str:
+        """A message written in SI (a warning, a sizing note) shown in this system: in inch-pound each quantity
+        (a number and an SI unit of ``MESSAGE_UNITS``) becomes "US (SI)" — ``"a 12.0 mm gap at 1560 N"`` →
+        ``"a 0.472 in (12.0 mm) gap at 350.7 lbf (1560 N)"`` — to as many significant figures as the SI figure
+        was written with (at least 3, at most 6); other numbers, percentages and words stay. In SI the message
+        is returned unchanged. The conversion is pint's, as for every other figure."""
+        if not self.us:
+            return message
+
+        def shown(number: str, kind: str, per_unit: float, digits: int) -> str:
+            return format_number(float(number.replace("−", "-")) * per_unit * self.scale(kind), digits)
+
+        def convert(match: re.Match) -> str:
+            if _ALREADY.search(message, 0, match.start()):
+                return match.group(0)
+            kind, per_unit = MESSAGE_UNITS[match["unit"]]
+            numbers = [n for n in (match["low"], match["first"], match["value"]) if n is not None]
+            digits = min(6, max(3, *(_significant(n) for n in numbers)))
+            value = shown(match["value"], kind, per_unit, digits)
+            if match["between"]:
+                value = f"between {shown(match['low'], kind, per_unit, digits)} and {value}"
+            elif match["first"] is not None:
+                value = f"{shown(match['first'], kind, per_unit, digits)}{match['joint']}{value}"
+            si_text = match.group(0)[len(match["between"] or ""):]
+            return f"{value} {self.unit(kind)} ({si_text})"
+
+        return _QUANTITY.sub(convert, message)
 
     def drive(self, value: float, drive: str, digits: int = 4) -> str:
         """A duty's drive value: a deflection (length) or a force, with its unit (and SI beside)."""

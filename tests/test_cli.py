@@ -824,3 +824,26 @@ def test_size_in_inch_pound_keeps_sizing_json_si(tmp_path):
     assert " lb (" in ran.out
     doc = strict_json((out / "sizing.json").read_text(encoding="utf-8"))
     assert "N/mm" in json.dumps(doc["table"]) and "lbf" not in json.dumps(doc["table"])
+
+
+def test_units_us_shows_the_warnings_in_inch_pound_and_keeps_summary_json_si(tmp_path):
+    """A 60 N force on the 200 mm cantilever of 4 × 0.5 mm glass breaks it statically at the root and bends it
+    past 10 % of the span: the warnings quote a length (span 200 mm, x = 0 mm) and a force (60 N). Under
+    --units us the terminal and the report show them "US (SI)" — 200 / 25.4 = 7.874 in, 60 / 4.4482216152605
+    = 13.49 lbf (NIST SP 811: 1 in = 25.4 mm, 1 lbf = 4.4482216152605 N) — and summary.json keeps them SI."""
+    path = tmp_path / "d.toml"
+    path.write_text(cantilever('drive = "force"\ncycles = [ { min = "0 N", max = "60 N", count = 1000 } ]'),
+                    encoding="utf-8")
+    ran = run_cli(["run", path, "--out", tmp_path / "o", "--units", "us"])
+    assert ran.code == 0, ran.err
+    warned = ran.out.split("warnings:")[1].split("caution:")[0]
+    assert "of the span (7.87 in (200 mm))" in warned  # three figures, as the SI text was written
+    assert "at the duty extreme 13.5 lbf (60 N)" in warned
+    assert "x = 0 in (0 mm) from the root" in warned
+    report = (tmp_path / "o" / "report.html").read_text(encoding="utf-8")
+    section = report.split('<section id="warnings">')[1].split("</section>")[0]
+    assert "13.5 lbf (60 N)" in section and "7.87 in (200 mm)" in section
+    warnings = json.loads((tmp_path / "o" / "summary.json").read_text())["warnings"]
+    assert any("at the duty extreme 60 N: life is zero" in w for w in warnings)
+    assert any("of the span (200 mm)" in w for w in warnings)
+    assert not any(" in (" in w or "lbf" in w for w in warnings)

@@ -71,7 +71,7 @@ def summary_text(result: LifeResult, example: bool = False, display: Display | N
     if result.warnings:
         lines.append("")
         lines.append("warnings:")
-        lines.extend(f"  - {w}" for w in result.warnings)
+        lines.extend(f"  - {display.text(w)}" for w in result.warnings)
     lines.append("")
     lines.append("caution: " + CAUTION)
     return "\n".join(lines)
@@ -144,7 +144,7 @@ def comparison_text(table: pd.DataFrame, duty: str = "each design with its own d
     if warned:
         parts += ["", "warnings:"]
         for i, r in warned:
-            parts.extend(f"  #{i} {w}" for w in r.warnings)
+            parts.extend(f"  #{i} {display.text(w)}" for w in r.warnings)
     return "\n".join(parts)
 
 
@@ -168,10 +168,10 @@ def sizing_text(answer: SizingAnswer, display: Display = SI) -> str:
     from flexcycle.sizing import sizing_rows
 
     lines = [f"sizing for a life of {answer.target_blocks:g} blocks of the duty"]
-    lines += [f"  {st.what}: {st.note}" for st in answer.sized.steps]
+    lines += [f"  {st.what}: {display.text(st.note)}" for st in answer.sized.steps]
     if answer.drops is not None:
         lines.append("  alternative (sized-drops.toml):")
-        lines += [f"    {st.what}: {st.note}" for st in answer.drops.steps]
+        lines += [f"    {st.what}: {display.text(st.note)}" for st in answer.drops.steps]
     rows = sizing_rows(answer, display)
     w = max(len(q) for q, _, _ in rows)
     wb = max(len("before"), *(len(b) for _, b, _ in rows))
@@ -181,7 +181,7 @@ def sizing_text(answer: SizingAnswer, display: Display = SI) -> str:
     if answer.warnings:
         lines.append("")
         lines.append("warnings:")
-        lines.extend(f"  - {x}" for x in answer.warnings)
+        lines.extend(f"  - {display.text(x)}" for x in answer.warnings)
     lines.append(f"\n  {answer.evaluations} estimates in the thickness/width searches")
     return "\n".join(lines)
 

@@ -261,7 +261,7 @@ def comparison_html(table: pd.DataFrame, results: Sequence[LifeResult], duty: st
     shown = display_rows(table, results, display)
     notes = "".join(
         f"<h3>#{i}: {html.escape(r.design.title)}</h3><ul>"
-        + ("".join(f"<li>{html.escape(w)}</li>" for w in r.warnings) or "<li>no warnings</li>") + "</ul>"
+        + ("".join(f"<li>{html.escape(display.text(w))}</li>" for w in r.warnings) or "<li>no warnings</li>") + "</ul>"
         for i, r in enumerate(results, start=1)
     )
     units = ("Inch-pound units, with SI in parentheses" if display.us else "SI units") + \

@@ -60,7 +60,7 @@ def report_html(result: LifeResult, cycles: pd.DataFrame, cycle_note: str, locat
         section_method(result, display),
         section_results(result, cycles, locations, svg, display),
         section_sizing(sizing),
-        section_warnings(result),
+        section_warnings(result, display),
         section_cautions(result),
         section_signoff(),
     ])

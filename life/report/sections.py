@@ -427,8 +427,8 @@ def section_sizing(sizing: Sequence[tuple[str, str, str]] | None) -> str:
 </section>"""
 
 
-def section_warnings(result: LifeResult) -> str:
-    warn = "".join(f"<li>{escape_html(w)}</li>" for w in result.warnings) or "<li>none</li>"
+def section_warnings(result: LifeResult, display: Display = SI) -> str:
+    warn = "".join(f"<li>{escape_html(display.text(w))}</li>" for w in result.warnings) or "<li>none</li>"
     return f'<section id="warnings"><h2>5. Warnings</h2><ul class="warn">{warn}</ul></section>'
 
 
