@@ -822,6 +822,8 @@ def test_size_in_inch_pound_keeps_sizing_json_si(tmp_path):
     assert ran.code == 0, ran.err
     assert "28.55 lbf/in (5 N/mm)" in ran.out  # 5 N/mm = 5000/175.126835 lbf/in (exact definitions)
     assert " lb (" in ran.out
+    note = next(line for line in ran.out.splitlines() if "width for the spring rate" in line)
+    assert re.search(r"gives [\d.]+ lbf/in \([\d.]+ N/mm\)", note)  # the sizing note in inch-pound, SI beside
     doc = strict_json((out / "sizing.json").read_text(encoding="utf-8"))
     assert "N/mm" in json.dumps(doc["table"]) and "lbf" not in json.dumps(doc["table"])
 

@@ -333,3 +333,19 @@ def test_page_tables_fit_a_page_width(results):
     assert len(heads) == 2
     assert all(head.count("<th>") <= 10 for head in heads)
     assert "max-width: 70em" in page and "overflow-x" not in page
+
+
+def test_warnings_on_the_page_and_in_the_terminal_follow_the_units(tmp_path):
+    """60 N on the thin beam breaks it at the root: the warning quotes the force, "60 N", shown under inch-pound
+    as 60 / 4.4482216152605 = 13.49 lbf (NIST SP 811), the SI figure beside; in SI the warning is as written."""
+    from flexcycle.cli.terminal import comparison_text
+
+    path = tmp_path / "broken.toml"
+    path.write_text(candidate("broken", 4, force="60 N"), encoding="utf-8")
+    rs = [estimate(load_design(path))]
+    assert any("at the duty extreme 60 N" in w for w in rs[0].warnings)
+    table = comparison_table(rs)
+    assert "13.5 lbf (60 N)" in comparison_html(table, rs, display=Display("us"))
+    assert "13.5 lbf (60 N)" in comparison_text(table, results=rs, display=Display("us"))
+    si = comparison_text(table, results=rs)
+    assert "at the duty extreme 60 N" in si and "lbf" not in si
