@@ -10,7 +10,6 @@ test or analysis).
 from __future__ import annotations
 
 import numpy as np
-from scipy import signal as scipy_signal
 
 from flexcycle.design import Duty
 from flexcycle.spectra.spectral import energy_above, spectrum
@@ -45,6 +44,9 @@ def resonance_warnings(duty: Duty, first_frequency: float) -> list[str]:
         return [f"the time history, sampled at {duty.sample_rate:g} Hz, may hold content {where}; it is too long "
                 "to be kept whole and was not checked"]
     values = np.asarray(duty.signal, float)
+    # imported here: scipy.signal is slow to import, and only a sampled history needs it
+    from scipy import signal as scipy_signal
+
     frequency, density = scipy_signal.welch(values - values.mean(), fs=duty.sample_rate,
                                             nperseg=min(4096, values.size))
     if not np.any(density > 0):
