@@ -3,7 +3,7 @@
 Mechanics gives every location's local stress or strain as a function of the drive at the load point
 (docs/design.md, data flow). Under ``theory = "linear"`` it is the response per unit force times the drive force,
 a straight line; under ``theory = "large-deflection"`` the elastica is tabulated against the drive
-(``flexcycle.mechanics.elastica.tabulate``) and each station's bending moment and normal shear force scale
+(``flexcycle.mechanics.drive_table.tabulate``) and each station's bending moment and normal shear force scale
 the section's linear response per unit section load (``per_section_load``). Both give the load-point force,
 deflection and stored energy at any drive, the ply fields at any drive (static checks), and the locations
 the damage path maps each counted cycle through.
@@ -19,7 +19,8 @@ from flexcycle.errors import InputError
 from flexcycle.fatigue.damage import DriveMap, Locations, ModelSet, locations
 from flexcycle.mechanics import errors as mechanics_errors
 from flexcycle.mechanics.beam import BeamResponse, segments
-from flexcycle.mechanics.elastica import DriveTable, Shapes, per_section_load, prepare, tabulate
+from flexcycle.mechanics.drive_table import DriveTable, tabulate
+from flexcycle.mechanics.elastica import Shapes, per_section_load, prepare
 from flexcycle.mechanics.energy import cycle_energy, force_per_drive, stored_energy
 
 

@@ -6,7 +6,7 @@ the end load's arm to the section is the deformed horizontal distance, M(s) = M�
 section's moment (small strains, the laminate's section law: εx = −M/b·(ε⁰x + z·κx) per unit moment, Kaw,
 Mechanics of Composite Materials, 2nd ed., Eq. 4.16; `flexcycle.mechanics.gauge.gauge_section`), so the
 force → gauge strain map is the elastica's moment at the gauge's station, tabulated against the end load
-(``flexcycle.mechanics.elastica.tabulate``: linear interpolation within 0.1 % of the station's largest moment)
+(``flexcycle.mechanics.drive_table.tabulate``: linear interpolation within 0.1 % of the station's largest moment)
 times the strain per unit moment. The map must be strictly monotone to be inverted on the cycles' extremes
 (`flexcycle.mechanics.gauge.GaugeMap`); a moment that turns back as the force grows is refused.
 
@@ -18,7 +18,8 @@ from __future__ import annotations
 import numpy as np
 
 from .beam import Beam, segments
-from .elastica import prepare, solve, tabulate
+from .drive_table import tabulate
+from .elastica import prepare, solve
 from .errors import InputError
 from .gauge import Gauge, GaugeMap, gauge_section
 

@@ -17,14 +17,13 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from flexcycle.mechanics.beam import Beam, Ply, respond, segments
+from flexcycle.mechanics.drive_table import TABLE_TOLERANCE, tabulate
 from flexcycle.mechanics.elastica import (
     MAX_LOAD,
-    TABLE_TOLERANCE,
     per_section_load,
     prepare,
     refuse_unsolved,
     solve,
-    tabulate,
 )
 from flexcycle.mechanics.errors import InputError
 from flexcycle.mechanics.materials import library

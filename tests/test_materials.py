@@ -23,9 +23,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from flexcycle.mechanics.errors import InputError
+from flexcycle.mechanics.material_tables import FATIGUE_TABLES, MATERIAL_KEYS_REQUIRED
 from flexcycle.mechanics.materials import (
-    FATIGUE_TABLES,
-    MATERIAL_KEYS_REQUIRED,
     Material,
     describe,
     library,

@@ -55,7 +55,7 @@ class DriveMap:
 
     drive : np.ndarray — drive levels, ascending, shape (J,) [N or m]
     loads : np.ndarray — the section loads ("channels": each station's moment [N·m] and shear force [N]) at each
-        level, shape (c, J); monotonic in the drive (``flexcycle.mechanics.elastica.tabulate`` checks them)
+        level, shape (c, J); monotonic in the drive (``flexcycle.mechanics.drive_table.tabulate`` checks them)
     channel : np.ndarray — the channel of each location, shape (k,)
     unit : np.ndarray — each location's local quantity per unit load of its channel, shape (k,) [Pa or - per N·m or N]
     """
