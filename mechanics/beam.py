@@ -362,6 +362,69 @@ def _station_positions(beam: Beam, segs: Sequence[Segment]) -> tuple[np.ndarray,
     return np.concatenate(xs), np.concatenate(idx)
 
 
+@dataclass(frozen=True)
+class SectionFields:
+    """Every ply's response at every station to given section loads per width (shapes as in BeamResponse).
+
+    present, z, strain_12, stress_12, strain_x, tau_xz, tau_xz_peak, z_tau_peak, curvature, thickness: as the
+    fields of the same names in `BeamResponse`, per the section loads given to `section_fields`.
+    """
+
+    present: np.ndarray
+    z: np.ndarray
+    strain_12: np.ndarray
+    stress_12: np.ndarray
+    strain_x: np.ndarray
+    tau_xz: np.ndarray
+    tau_xz_peak: np.ndarray
+    z_tau_peak: np.ndarray
+    curvature: np.ndarray
+    thickness: np.ndarray
+
+
+def section_fields(beam: Beam, segs: Sequence[Segment], seg_index: np.ndarray, Mx: np.ndarray,
+                   Vx: np.ndarray) -> SectionFields:
+    """Ply strains, stresses and interlaminar shear at each station under the moment and shear per width there.
+
+    seg_index : np.ndarray — the segment of each station, shape (n,)
+    Mx : np.ndarray — bending moment per width at each station, shape (n,) [N·m/m per unit load]
+    Vx : np.ndarray — transverse shear force per width at each station, shape (n,) [N/m per unit load]
+
+    Notes
+    -----
+    The section law is linear: each segment's unit ply field (classical laminate theory, Kaw, 2nd ed.,
+    Eq. 4.16) scaled by Mx, and its equilibrium τxz (Whitney 1987, ch. 6) scaled by Vx.
+    """
+    n, p = seg_index.size, len(beam.plies)
+    present = np.zeros((n, p), bool)
+    z = np.zeros((n, p, 2))
+    strain_12 = np.zeros((n, p, 2, 3))
+    stress_12 = np.zeros((n, p, 2, 3))
+    strain_x = np.zeros((n, p, 2))
+    tau_xz = np.zeros((n, p, 2))
+    tau_peak = np.zeros((n, p))
+    z_peak = np.zeros((n, p))
+    curvature = np.zeros(n)
+    thickness = np.zeros(n)
+    for k, seg in enumerate(segs):
+        rows = np.flatnonzero(seg_index == k)
+        cols = np.array(seg.active)
+        field = ply_field(seg.lam, seg.bending.eps0, seg.bending.kappa)
+        r, c = np.ix_(rows, cols)
+        present[r, c] = True
+        z[r, c] = field.z[None]
+        strain_12[r, c] = Mx[rows, None, None, None] * field.strain_12[None]
+        stress_12[r, c] = Mx[rows, None, None, None] * field.stress_12[None]
+        strain_x[r, c] = Mx[rows, None, None] * field.strain_xy[None, :, :, 0]
+        faces = np.stack([seg.shear.tau_interfaces[:-1], seg.shear.tau_interfaces[1:]], axis=1)
+        tau_xz[r, c] = Vx[rows, None, None] * faces[None]
+        tau_peak[r, c] = Vx[rows, None] * seg.shear.tau_peak[None]
+        z_peak[r, c] = seg.shear.z_peak[None]
+        curvature[rows] = Mx[rows] * seg.bending.kappa[0]
+        thickness[rows] = seg.lam.thickness
+    return SectionFields(present, z, strain_12, stress_12, strain_x, tau_xz, tau_peak, z_peak, curvature, thickness)
+
+
 def respond(beam: Beam) -> BeamResponse:
     """Build the response map of a beam per unit drive force.
 
@@ -390,35 +453,9 @@ def respond(beam: Beam) -> BeamResponse:
     mids = np.array([0.5 * (s.x0 + s.x1) for s in segs])
     v = moment_shear(beam, mids, m0)[1][seg_index]
 
-    n, p = x.size, len(beam.plies)
-    present = np.zeros((n, p), bool)
-    z = np.zeros((n, p, 2))
-    strain_12 = np.zeros((n, p, 2, 3))
-    stress_12 = np.zeros((n, p, 2, 3))
-    strain_x = np.zeros((n, p, 2))
-    tau_xz = np.zeros((n, p, 2))
-    tau_peak = np.zeros((n, p))
-    z_peak = np.zeros((n, p))
-    curvature = np.zeros(n)
-    thickness = np.zeros(n)
     Mx = -m / b  # moment per width per unit drive force [N·m/m per N]
     Vx = v / b  # shear force per width per unit drive force [N/m per N]
-    for k, seg in enumerate(segs):
-        rows = np.flatnonzero(seg_index == k)
-        cols = np.array(seg.active)
-        field = ply_field(seg.lam, seg.bending.eps0, seg.bending.kappa)
-        r, c = np.ix_(rows, cols)
-        present[r, c] = True
-        z[r, c] = field.z[None]
-        strain_12[r, c] = Mx[rows, None, None, None] * field.strain_12[None]
-        stress_12[r, c] = Mx[rows, None, None, None] * field.stress_12[None]
-        strain_x[r, c] = Mx[rows, None, None] * field.strain_xy[None, :, :, 0]
-        faces = np.stack([seg.shear.tau_interfaces[:-1], seg.shear.tau_interfaces[1:]], axis=1)
-        tau_xz[r, c] = Vx[rows, None, None] * faces[None]
-        tau_peak[r, c] = Vx[rows, None] * seg.shear.tau_peak[None]
-        z_peak[r, c] = seg.shear.z_peak[None]
-        curvature[rows] = Mx[rows] * seg.bending.kappa[0]
-        thickness[rows] = seg.lam.thickness
+    fields = section_fields(beam, segs, seg_index, Mx, Vx)
 
     # mass and the reference energy ½·E_x·V per unit strain²: b is linear, so ∫b dx = mean width × length;
     # E_x = 1/S̄11 with S̄ = Q̄⁻¹, the ply's modulus along the beam axis (Kaw, 2nd ed., sec. 2.4)
@@ -440,16 +477,16 @@ def respond(beam: Beam) -> BeamResponse:
         width=b,
         moment=m,
         shear=v,
-        present=present,
-        z=z,
-        strain_12=strain_12,
-        stress_12=stress_12,
-        strain_x=strain_x,
-        tau_xz=tau_xz,
-        tau_xz_peak=tau_peak,
-        z_tau_peak=z_peak,
-        curvature=curvature,
-        thickness=thickness,
+        present=fields.present,
+        z=fields.z,
+        strain_12=fields.strain_12,
+        stress_12=fields.stress_12,
+        strain_x=fields.strain_x,
+        tau_xz=fields.tau_xz,
+        tau_xz_peak=fields.tau_xz_peak,
+        z_tau_peak=fields.z_tau_peak,
+        curvature=fields.curvature,
+        thickness=fields.thickness,
         compliance=c_bend + c_shear,
         bending_compliance=c_bend,
         mass=mass,

@@ -46,9 +46,8 @@ import numpy as np
 from scipy.integrate import solve_ivp
 from scipy.optimize.elementwise import find_root
 
-from .beam import Beam, BeamResponse, Segment, segments
+from .beam import Beam, BeamResponse, Segment, section_fields, segments
 from .errors import InputError
-from .laminate import ply_field
 from .theory import LARGE_SUPPORTS, THEORIES, refuse_unsolved  # noqa: F401 — THEORIES re-exported
 
 RTOL = 1e-9  # solve_ivp's relative tolerance: the shapes to ~1e-8, far inside the 0.1 % the tables keep
@@ -412,25 +411,9 @@ def per_section_load(response: BeamResponse) -> BeamResponse:
     positive moment), shear per width V/b; ply fields from classical laminate theory (Kaw, 2nd ed., Eq. 4.16).
     """
     beam = response.beam
-    strain_12 = np.zeros_like(response.strain_12)
-    stress_12 = np.zeros_like(response.stress_12)
-    strain_x = np.zeros_like(response.strain_x)
-    tau_xz = np.zeros_like(response.tau_xz)
-    tau_peak = np.zeros_like(response.tau_xz_peak)
-    curvature = np.zeros_like(response.curvature)
-    Mx = -1.0 / response.width  # per unit moment [N·m/m per N·m]
-    Vx = 1.0 / response.width  # per unit shear force [N/m per N]
-    for k, seg in enumerate(segments(beam)):
-        rows = np.flatnonzero(response.segment == k)
-        field = ply_field(seg.lam, seg.bending.eps0, seg.bending.kappa)
-        r, c = np.ix_(rows, np.array(seg.active))
-        strain_12[r, c] = Mx[rows, None, None, None] * field.strain_12[None]
-        stress_12[r, c] = Mx[rows, None, None, None] * field.stress_12[None]
-        strain_x[r, c] = Mx[rows, None, None] * field.strain_xy[None, :, :, 0]
-        faces = np.stack([seg.shear.tau_interfaces[:-1], seg.shear.tau_interfaces[1:]], axis=1)
-        tau_xz[r, c] = Vx[rows, None, None] * faces[None]
-        tau_peak[r, c] = Vx[rows, None] * seg.shear.tau_peak[None]
-        curvature[rows] = Mx[rows] * seg.bending.kappa[0]
+    # M = 1 N·m and V = 1 N at every station: moment per width Mx = −1/b, shear per width 1/b
+    fields = section_fields(beam, segments(beam), response.segment, -1.0 / response.width, 1.0 / response.width)
     ones = np.ones_like(response.moment)
-    return replace(response, moment=ones, shear=ones, strain_12=strain_12, stress_12=stress_12, strain_x=strain_x,
-                   tau_xz=tau_xz, tau_xz_peak=tau_peak, curvature=curvature)
+    return replace(response, moment=ones, shear=ones, strain_12=fields.strain_12, stress_12=fields.stress_12,
+                   strain_x=fields.strain_x, tau_xz=fields.tau_xz, tau_xz_peak=fields.tau_xz_peak,
+                   curvature=fields.curvature)
