@@ -286,8 +286,9 @@ class DamageResult:
     mean : np.ndarray — local mean of that cycle, shape (k,) [Pa or -]
     utilisation : np.ndarray — largest local value over the duty as a fraction of the model's static strength,
         max(hi/Xt, −lo/Xc), shape (k,) [-]; 0 for locations without a fatigue model
-    exact : np.ndarray | None — None when ``damage`` is exact everywhere; at scale (see ``miner_damage``) where
-        it was evaluated exactly, shape (k,) bool: elsewhere ``damage`` is an upper bound of the damage per block
+    exact : np.ndarray | None — None when ``damage`` is exact everywhere; where it was evaluated exactly (at scale, see
+        ``miner_damage``; the tops of ``worst_damage``)
+        shape (k,) bool: elsewhere ``damage`` is an upper bound of the damage per block
     aggregation : str — how the cycles were evaluated: "each cycle", "identical cycles merged" or "bracketed"
     """
 
@@ -298,6 +299,12 @@ class DamageResult:
     utilisation: np.ndarray
     exact: np.ndarray | None = None
     aggregation: str = "each cycle"
+
+    def largest(self) -> int:
+        """Index of the largest damage evaluated exactly (of equals, the lowest index)."""
+        if self.exact is None:
+            return int(np.argmax(self.damage))
+        return int(np.argmax(np.where(self.exact, self.damage, -np.inf)))
 
 
 def miner_damage(locations: Locations, cycles: Cycles, force_per_drive: float, stress_factor: float) -> DamageResult:
@@ -329,74 +336,146 @@ def miner_damage(locations: Locations, cycles: Cycles, force_per_drive: float, s
 
     Locations with the same model and the same map have the same damage: each is evaluated once.
     """
+    local_map = _LocalMap(locations, force_per_drive, stress_factor)
+    amp, mean, utilisation, rows = _extremes(local_map, cycles)
+    damage, failed, exact, aggregation = _evaluate(local_map, rows, cycles)
+    return DamageResult(damage, failed, amp, mean, utilisation, exact, aggregation)
+
+
+def worst_damage(locations: Locations, cycles: Cycles, force_per_drive: float, stress_factor: float) -> DamageResult:
+    """The largest damage per block, exact, with an upper bound of the damage everywhere else (arguments as
+    ``miner_damage``); what the life needs, without evaluating every location.
+
+    Notes
+    -----
+    Scaling a local cycle by s >= 1 (its amplitude and its mean alike, the stress ratio kept) never raises the
+    cycles to failure under any rule of ``flexcycle.fatigue.meanstress`` (on a ray of constant R the life falls
+    with the amplitude; the tests check it on every rule, library material and random constant-life diagrams).
+    A location's local quantity is its scale times a function of the drive that it shares with others: the
+    drive itself under linear theory (scale: the response per unit drive), its channel's section load under
+    large deflection (scale: the response per unit load). So among locations of one model, one such function
+    and one sign of the scale, the damage grows with |scale|: the location of largest |scale| — the group's
+    top — has the group's largest damage, and bounds every other's from above. Only the tops are evaluated
+    (as ``miner_damage`` evaluates its locations, aggregated at scale); the largest of them is the largest
+    damage of all, at the location of the lowest index among equals, as ``miner_damage`` finds it. A top
+    whose cycles pass the static strength sends the whole evaluation to ``miner_damage``: the static-failure
+    flags are then exact everywhere. ``exact`` marks the locations evaluated exactly.
+    """
+    local_map = _LocalMap(locations, force_per_drive, stress_factor)
+    amp, mean, utilisation, rows = _extremes(local_map, cycles)
+    scale, group = local_map.scales(rows)
+    # the top of each group: largest |scale|, then the lowest index (rows ascending)
+    order = np.lexsort((rows, -np.abs(scale), group))
+    first = np.r_[True, group[order][1:] != group[order][:-1]]
+    tops = rows[order[first]]
+    top_of = np.empty(rows.size, int)
+    top_of[order] = np.cumsum(first) - 1  # each row's group, numbered as the tops
+    damage, failed, exact, aggregation = _evaluate(local_map, np.sort(tops), cycles)
+    if failed.any():
+        return miner_damage(locations, cycles, force_per_drive, stress_factor)
+    evaluated = np.zeros(damage.size, bool)
+    evaluated[tops] = True if exact is None else exact[tops]
+    bound = damage[tops][top_of]
+    damage[rows] = np.where(evaluated[rows], damage[rows], bound)
+    return DamageResult(damage, failed, amp, mean, utilisation, evaluated, aggregation)
+
+
+class _LocalMap:
+    """The locations' local quantities as functions of the drive, and what makes two of them equal.
+
+    keys : np.ndarray — what makes two locations' local histories equal: the local quantity per unit drive
+        (k,), or the channel and the quantity per unit section load (k, 2)
+    prepare(drives) — once per chunk of cycles: the drives (linear) or the section loads there (large deflection)
+    values(rows, prepared) — the local quantity of the locations ``rows`` there, shape (len(rows), len(drives))
+    """
+
+    def __init__(self, locations: Locations, force_per_drive: float, stress_factor: float):
+        self.locations = locations
+        self.force_per_drive = force_per_drive
+        self.stress_factor = stress_factor
+        drive_map = locations.drive_map
+        if drive_map is None:
+            self.keys = locations.response * force_per_drive * stress_factor
+        else:
+            self.keys = np.stack([drive_map.channel, drive_map.unit * stress_factor], axis=1)
+
+    def local(self, rows: np.ndarray, drive: np.ndarray) -> np.ndarray:
+        return self.locations.local(rows, drive, self.force_per_drive, self.stress_factor)
+
+    def prepare(self, drive: np.ndarray) -> np.ndarray:
+        drive_map = self.locations.drive_map
+        return drive if drive_map is None else drive_map.loads_at(drive)
+
+    def values(self, rows: np.ndarray, prepared: np.ndarray) -> np.ndarray:
+        drive_map = self.locations.drive_map
+        if drive_map is None:
+            return self.keys[rows, None] * prepared[None, :]
+        return (drive_map.unit[rows] * self.stress_factor)[:, None] * prepared[drive_map.channel[rows]]
+
+    def scales(self, rows: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """Each location's scale, and its group: the same model, the same shared function, the same sign."""
+        locations = self.locations
+        if locations.drive_map is None:
+            scale, shared = self.keys[rows], np.zeros(rows.size, int)
+        else:
+            scale, shared = self.keys[rows, 1], locations.drive_map.channel[rows]
+        # one integer per (model, shared function, sign)
+        code = (locations.model[rows] * (int(shared.max(initial=0)) + 1) + shared) * 2 + (scale > 0)
+        return scale, np.unique(code, return_inverse=True)[1].reshape(-1)
+
+
+def _extremes(local_map: _LocalMap, cycles: Cycles) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """The largest local amplitude and its mean, the utilisation at every location, and the locations that need
+    a damage sum: those with a curve and a local quantity that is not round-off (NEGLIGIBLE)."""
+    locations = local_map.locations
     k = locations.response.size
-    amp = np.zeros(k)
-    mean = np.zeros(k)
+    amp, mean, peak, utilisation = np.zeros(k), np.zeros(k), np.zeros(k), np.zeros(k)
     every = np.arange(k)
-
-    def local(rows, drive):
-        return locations.local(rows, drive, force_per_drive, stress_factor)
-
-    drive_map = locations.drive_map
-    if drive_map is None:
-        keys = locations.response * force_per_drive * stress_factor
-
-        def prepare(drive):  # the drives themselves
-            return drive
-
-        def values(rows, drive):
-            return keys[rows, None] * drive[None, :]
-    else:
-        keys = np.stack([drive_map.channel, drive_map.unit * stress_factor], axis=1)  # equal channel and unit
-
-        def prepare(drive):  # the section loads at the drives, once per chunk of cycles
-            return drive_map.loads_at(drive)
-
-        def values(rows, loads):
-            return (drive_map.unit[rows] * stress_factor)[:, None] * loads[drive_map.channel[rows]]
-    local_map = (prepare, values)
     dlo, dhi = cycles.lo, cycles.hi
     nc = dlo.size
-    # the largest local amplitude is that of the largest drive range (a monotonic map)
-    if nc:
+    if nc:  # the largest local amplitude is that of the largest drive range (a monotonic map)
         big = int(np.argmax(dhi - dlo))
-        at_lo, at_hi = local(every, dlo[[big]])[:, 0], local(every, dhi[[big]])[:, 0]
+        at_lo, at_hi = local_map.local(every, dlo[[big]])[:, 0], local_map.local(every, dhi[[big]])[:, 0]
         amp = np.abs(at_hi - at_lo) / 2.0
         mean = (at_hi + at_lo) / 2.0 + 0.0  # + 0.0: no "-0" in the outputs
-    peak = np.zeros(k)
-    if nc:
-        ends = local(every, np.array([dlo.min(), dhi.max(), min(dlo.min(), 0.0), max(dhi.max(), 0.0)]))
+        ends = local_map.local(every, np.array([dlo.min(), dhi.max(), min(dlo.min(), 0.0), max(dhi.max(), 0.0)]))
         peak = np.abs(ends).max(axis=1)
-    utilisation = np.zeros(k)
-    rows = np.zeros(k, bool)  # locations with a curve and a stress that is not round-off
+    rows = np.zeros(k, bool)
     for m, model in enumerate(locations.models):
         mine = locations.model == m
         if nc:
             extremes = ends[mine][:, :2]
             utilisation[mine] = np.maximum(extremes.max(axis=1) / model.Xt, -extremes.min(axis=1) / model.Xc)
         rows |= mine & ~(peak < NEGLIGIBLE * min(model.Xt, model.Xc))
-    rows = np.flatnonzero(rows)
+    return amp, mean, utilisation, np.flatnonzero(rows)
+
+
+def _evaluate(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles
+              ) -> tuple[np.ndarray, np.ndarray, np.ndarray | None, str]:
+    """Damage, static-failure flags, the exact mask (None: exact everywhere) and the aggregation at ``rows``:
+    every cycle, identical cycles merged, or bracketed at scale (the Notes of ``miner_damage``)."""
+    locations = local_map.locations
     aggregation = "each cycle"
-    if rows.size * nc > EXACT_PAIRS:
+    if rows.size * cycles.lo.size > EXACT_PAIRS:
         cycles = merge_identical(cycles)
         aggregation = "identical cycles merged"
     bracket = rows.size * cycles.lo.size > EXACT_PAIRS and cycles.hi.max() > cycles.lo.min() and all(
         locations.models[m].rule in BRACKET_RULES for m in np.unique(locations.model[rows]))
     if not bracket:
-        damage, failed = _damage(locations, rows, keys, local_map, cycles)
-        return DamageResult(damage, failed, amp, mean, utilisation, None, aggregation)
-    upper, failed_wide = _damage(locations, rows, keys, local_map, _widened(cycles))
+        damage, failed = _damage(local_map, rows, cycles)
+        return damage, failed, None, aggregation
+    upper, failed_wide = _damage(local_map, rows, _widened(cycles))
     top = rows[[int(np.argmax(upper[rows]))]]
-    damage_top, failed_top = _damage(locations, top, keys, local_map, cycles)
+    damage_top, failed_top = _damage(local_map, top, cycles)
     reached = damage_top[top[0]]  # D* <= the largest damage of all
     exact = rows[(upper[rows] >= reached) | failed_wide[rows]]
     rest = exact[exact != top[0]]  # the top location is evaluated already
-    damage_exact, failed = _damage(locations, rest, keys, local_map, cycles)
+    damage_exact, failed = _damage(local_map, rest, cycles)
     damage_exact[top], failed[top] = damage_top[top], failed_top[top]
     upper[exact] = damage_exact[exact]
-    evaluated = np.zeros(k, bool)
+    evaluated = np.zeros(upper.size, bool)
     evaluated[exact] = True
-    return DamageResult(upper, failed, amp, mean, utilisation, evaluated, "bracketed")
+    return upper, failed, evaluated, "bracketed"
 
 
 def _widened(cycles: Cycles) -> Cycles:
@@ -415,16 +494,10 @@ def _widened(cycles: Cycles) -> Cycles:
     return merge_identical(Cycles(np.minimum(grid(i_lo), cycles.lo), np.maximum(grid(i_hi), cycles.hi), cycles.count))
 
 
-def _damage(locations: Locations, rows: np.ndarray, keys: np.ndarray, local_map, cycles: Cycles
-            ) -> tuple[np.ndarray, np.ndarray]:
-    """Miner damage and static-failure flags at the locations ``rows`` (others 0 and False), cycle by cycle.
-
-    keys : np.ndarray — what makes two locations' local histories equal: the local quantity per unit drive
-        (k,), or the channel and the quantity per unit section load (k, 2)
-    local_map : (prepare, values) — prepare(drives) once per chunk of cycles, values(rows, prepared) the local
-        quantity of the locations ``rows`` there, shape (len(rows), len(drives)) [Pa or -]
-    """
-    prepare, values = local_map
+def _damage(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles) -> tuple[np.ndarray, np.ndarray]:
+    """Miner damage and static-failure flags at the locations ``rows`` (others 0 and False), cycle by cycle."""
+    locations, keys = local_map.locations, local_map.keys
+    prepare, values = local_map.prepare, local_map.values
     k = locations.response.size
     damage = np.zeros(k)
     failed = np.zeros(k, bool)
