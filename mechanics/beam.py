@@ -29,6 +29,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass
+from functools import cached_property
 
 import numpy as np
 
@@ -110,6 +111,12 @@ class Beam:
         """Width at distance x from the root, linear taper [m]."""
         return self.width_root + (self.width_tip - self.width_root) * np.asarray(x, float) / self.length
 
+    @cached_property
+    def _segments(self) -> tuple[Segment, ...]:
+        """The segments, built once per beam (``segments``): the loader's check, the response and the modes share
+        them; a changed beam (``dataclasses.replace``) is a new object and builds its own."""
+        return _build_segments(self)
+
 
 def validate(beam: Beam) -> None:
     """Reject what the model cannot represent, with the key and what would be right."""
@@ -178,7 +185,11 @@ def _breakpoints(beam: Beam) -> list[float]:
 
 
 def segments(beam: Beam) -> tuple[Segment, ...]:
-    """The beam's constant-laminate segments from root to end, each laminate built once."""
+    """The beam's constant-laminate segments from root to end, each laminate built once (kept on the beam)."""
+    return beam._segments
+
+
+def _build_segments(beam: Beam) -> tuple[Segment, ...]:
     cuts = _breakpoints(beam)
     cache: dict[tuple[int, ...], tuple] = {}
     out = []

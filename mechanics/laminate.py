@@ -79,9 +79,19 @@ def stress_transformation(angle: float) -> np.ndarray:
 
 
 def strain_transformation(angle: float) -> np.ndarray:
-    """Transformation of engineering strains, ε123 = T_ε εxy, T_ε = R T R⁻¹ (Eq. 2.99 in Kaw, 2nd ed.)."""
-    R = np.diag([1.0, 1.0, 2.0])
-    return R @ stress_transformation(angle) @ np.linalg.inv(R)
+    """Transformation of engineering strains, ε123 = T_ε εxy, T_ε = R T R⁻¹ (Eq. 2.99 in Kaw, 2nd ed.).
+
+    Written out: [[c², s², sc], [s², c², −sc], [−2sc, 2sc, c²−s²]] (R = diag(1, 1, 2) applied to T).
+    """
+    t = np.radians(angle)
+    c, s = np.cos(t), np.sin(t)
+    return np.array(
+        [
+            [c * c, s * s, s * c],
+            [s * s, c * c, -s * c],
+            [-2 * s * c, 2 * s * c, c * c - s * s],
+        ]
+    )
 
 
 def transformed_stiffness(Q: np.ndarray, angle: float) -> np.ndarray:
@@ -89,10 +99,10 @@ def transformed_stiffness(Q: np.ndarray, angle: float) -> np.ndarray:
 
     Notes
     -----
-    Q̄ = T⁻¹ Q R T R⁻¹ (Eq. 2.103 in Kaw, 2nd ed.; Eq. 2.84 in Jones, 2nd ed.).
+    Q̄ = T⁻¹ Q R T R⁻¹ (Eq. 2.103 in Kaw, 2nd ed.; Eq. 2.84 in Jones, 2nd ed.), with T⁻¹(θ) = T(−θ) (a rotation
+    back by the same angle; Kaw, Eq. 2.95).
     """
-    T = stress_transformation(angle)
-    return np.linalg.inv(T) @ Q @ strain_transformation(angle)
+    return stress_transformation(-angle) @ Q @ strain_transformation(angle)
 
 
 @dataclass(frozen=True)
