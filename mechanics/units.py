@@ -142,7 +142,30 @@ def parse_quantity(value: object, kind: str, where: str) -> float:
     Returns
     -------
     float — the value in SI units (m, N, Pa, kg/m³, J, N/m, or a bare strain ratio)
+
+    Notes
+    -----
+    A text read once is not read again: its SI value is kept (up to REMEMBERED texts), since pint's parser costs
+    about a millisecond per value and a sweep parses the same few texts in every candidate.
     """
+    if isinstance(value, str):
+        known = _READ.get((value, kind))
+        if known is not None:
+            return known
+    number = _si_value(value, kind, where)
+    if isinstance(value, str):
+        if len(_READ) >= REMEMBERED:
+            _READ.clear()
+        _READ[(value, kind)] = number
+    return number
+
+
+REMEMBERED = 4096  # texts whose SI value ``parse_quantity`` keeps
+_READ: dict[tuple[str, str], float] = {}
+
+
+def _si_value(value: object, kind: str, where: str) -> float:
+    """``parse_quantity`` without the memory of texts read."""
     dims, si_unit = KINDS[kind]
     q = _quantity(value, where, kind)
     if kind == "strain":
