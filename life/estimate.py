@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, replace
+from functools import cached_property
 
 import numpy as np
 
@@ -24,6 +25,7 @@ from flexcycle.fatigue.damage import (
     build_models,
     cycle_lives,
     miner_damage,
+    worst_damage,
 )
 from flexcycle.fatigue.meanstress import model_warnings
 from flexcycle.fatigue.scatter import MEDIAN, materials_at_survival
@@ -60,7 +62,7 @@ class LifeResult(ResultViews):
     design: Design
     response: BeamResponse
     locations: Locations
-    damage: DamageResult
+    worst: DamageResult
     life_cycles: float | None
     life_blocks: float | None
     life_days: float | None
@@ -81,6 +83,14 @@ class LifeResult(ResultViews):
     pull_in: float | None = None
     survival: float = MEDIAN
     life_blocks_median: float | None = None
+
+    @cached_property
+    def damage(self) -> DamageResult:
+        """Miner damage per block at every location (``flexcycle.fatigue.damage.miner_damage``), evaluated when
+        first asked for: the estimate itself needs only ``worst`` (exact at the largest damage, bounds elsewhere)."""
+        if self.worst.exact is None or self.worst.exact.all():
+            return self.worst
+        return miner_damage(self.locations, self.design.duty.cycles, self.force_per_drive, self.design.stress_factor)
 
     @property
     def theory(self) -> str:
@@ -171,8 +181,13 @@ def _finite(value: float | None) -> float | None:
     return float(value)
 
 
-def estimate(design: Design) -> LifeResult:
-    """Run the whole estimate for a validated design."""
+def estimate(design: Design, compare_theories: bool = True) -> LifeResult:
+    """Run the whole estimate for a validated design.
+
+    compare_theories : bool — a linear estimate whose deflection passes the linear range also runs the elastica
+        and adds to its warning how far the two answers differ; False leaves that out (a sweep's rows carry the
+        figures only, and the elastica would cost each candidate more than the estimate itself)
+    """
     beam = design.beam
     response = respond(beam)
     mapping = response_map(design, response)
@@ -200,7 +215,7 @@ def estimate(design: Design) -> LifeResult:
     at_survival = materials_at_survival(design.materials.values(), design.survival)
     models = build_models(list(at_survival.materials), design.mean_stress)
     locations = mapped_locations(mapping, models, dominant_drive)
-    damage = miner_damage(locations, cycles, force_per_drive, design.stress_factor)
+    damage = worst_damage(locations, cycles, force_per_drive, design.stress_factor)
     static, static_notes = static_check(design, response, force_per_drive,
                                         mapping.fields if mapping.large else None)
 
@@ -235,7 +250,7 @@ def estimate(design: Design) -> LifeResult:
         elif unbounded:  # the most utilised fatigue-checked location
             k = int(np.argmax(np.where(locations.model >= 0, damage.utilisation, -np.inf)))
         else:
-            k = int(np.argmax(damage.damage))
+            k = damage.largest()
             warnings += _extrapolation_notes(locations, k, cycles, force_per_drive, design.stress_factor)
         warnings += _below_limit_notes(locations, k, cycles, force_per_drive, design.stress_factor)
         critical = Critical(
@@ -262,7 +277,7 @@ def estimate(design: Design) -> LifeResult:
         design=design,
         response=response,
         locations=locations,
-        damage=damage,
+        worst=damage,
         life_cycles=life_cycles,
         life_blocks=life_blocks,
         life_days=life_days,
@@ -284,7 +299,8 @@ def estimate(design: Design) -> LifeResult:
         survival=design.survival,
         life_blocks_median=life_blocks_median,
     )
-    if not mapping.large and any(PAST_LINEAR in w for w in result.warnings) and beam.support in LARGE_SUPPORTS:
+    if compare_theories and not mapping.large and any(PAST_LINEAR in w for w in result.warnings) \
+            and beam.support in LARGE_SUPPORTS:
         result = replace(result, warnings=_with_comparison(result))
     return result
 
@@ -358,7 +374,7 @@ def _median_life_blocks(design: Design, mapping: ResponseMap, dominant_drive: fl
     if failed:
         return 0.0
     models = build_models(list(design.materials.values()), design.mean_stress)
-    damage = miner_damage(mapped_locations(mapping, models, dominant_drive), design.duty.cycles, force_per_drive,
+    damage = worst_damage(mapped_locations(mapping, models, dominant_drive), design.duty.cycles, force_per_drive,
                           design.stress_factor)
     if damage.static_failure.any():
         return 0.0

@@ -177,6 +177,7 @@ def test_an_unreachable_scheduler_is_reported_within_ten_seconds(case, tmp_path)
     ('"ply.1.angle" = ["45"]', "fibre angle"),
     ('"beam.span" = []', "empty list"),
     ('"beam.span" = { from = "250 mm", to = "300 mm" }', "needs a [sample]"),
+    ('"beam.theory" = ["elastic"]', "a beam theory, one of"),
 ])
 def test_bad_values_are_input_errors(tmp_path, vary, message):
     case = write_case(tmp_path, f'design = "base.toml"\n[vary]\n{vary}\n')
@@ -212,3 +213,37 @@ def test_requirements_and_objectives_reach_the_table(tmp_path, client):
     reserve = table["static_reserve"].astype(float)
     assert ((table["meets_requirements"] == "true") == (reserve >= 2)).all()
     assert not ((table["pareto"] == "true") & (table["meets_requirements"] == "false")).any()
+
+
+def test_the_beam_theory_is_a_key_of_the_space(tmp_path, tmp_path_factory):
+    """beam.theory varies like any key: each row equals `flexcycle run` on the design it describes, under linear
+    theory and under the elastica (the duty, a force history, is shared: it does not depend on the theory)."""
+    case = write_case(tmp_path, 'design = "base.toml"\n[vary]\n"beam.theory" = ["linear", "large-deflection"]\n'
+                                '"beam.span" = ["250 mm", "300 mm"]\n')
+    prepared = prepare(case)
+    runs = {}
+    for number in range(1, 5):
+        folder = tmp_path_factory.mktemp(f"theory-{number}")
+        assert run_cli(["sweep", case, "--candidate", number, "--out", folder]).code == 0
+        ran = run_cli(["run", folder / f"candidate-{number}.toml", "--out", folder / "run"])
+        assert ran.code == 0, ran.err
+        runs[number] = json.loads((folder / "run" / "summary.json").read_text())
+    assert [runs[n]["theory"] for n in range(1, 5)] == ["linear", "linear", "large-deflection", "large-deflection"]
+    rows = evaluate_batch(prepared.context, prepared.duty, list(enumerate(prepared.space.candidates, start=1)))
+    table = pd.DataFrame([{c: _cell(r.get(c)) for c in columns_of(prepared.context)} for r in rows])
+    _assert_rows_equal_runs(table, runs)
+    assert runs[4]["life_blocks"] != runs[2]["life_blocks"]  # the two theories answer differently at 300 mm
+
+
+def test_a_strain_gauge_duty_is_refused(tmp_path):
+    """A strain-gauge duty becomes a force history through each candidate's own section, so it cannot be one
+    shared duty: exit 2 with one message, nothing written."""
+    case = write_case(tmp_path)
+    base = (tmp_path / "base.toml").read_text().replace(
+        'drive = "force"', 'drive = "strain"\ngauge = { x = "20 mm", face = "tension" }').replace(
+        'column = "force_n"\nunit = "N"', 'column = "force_n"\nunit = "ue"\nsample_rate = "100 Hz"')
+    (tmp_path / "base.toml").write_text(base)
+    ran = run_cli(["sweep", case, "--out", tmp_path / "out"])
+    assert ran.code == 2, ran.err
+    assert "strain-gauge duty" in ran.err and "Traceback" not in ran.err
+    assert not (tmp_path / "out").exists()

@@ -51,13 +51,14 @@ from flexcycle.errors import InputError
 from flexcycle.mechanics import errors as mechanics_errors
 from flexcycle.mechanics.errors import did_you_mean
 from flexcycle.mechanics.materials import resolve_materials
+from flexcycle.mechanics.theory import THEORIES
 from flexcycle.mechanics.units import parse_quantity
 
 SWEEP_KEYS = {"design", "vary", "sample", "objectives", "require"}
 SAMPLE_KEYS = {"method", "count", "seed"}
 SAMPLE_METHODS = ("latin-hypercube",)
 BEAM_VARIED = {"span": "length", "width": "width", "width.root": "length", "width.tip": "length",
-               "load_spacing": "length"}
+               "load_spacing": "length", "theory": "theory"}
 PLY_VARIED = {"thickness": "length", "count": "count", "angle": "angle", "material": "material",
               "ends_at": "length"}
 MAX_CANDIDATES = 10_000_000  # a grid past this is a slip of the pen, not a design space (common practice)
@@ -227,7 +228,7 @@ def _kind_of(key: str, document: Mapping, where: str) -> str:
     if kind is None:
         hint = did_you_mean(key, _allowed_keys(document), cutoff=0.5)
         raise InputError(f"{where}: unknown key {key!r}; {hint}a sweep varies beam.span, beam.width, "
-                         "beam.width.root, beam.width.tip, beam.load_spacing and ply.N.thickness, ply.N.count, "
+                         "beam.width.root, beam.width.tip, beam.load_spacing, beam.theory and ply.N.thickness, ply.N.count, "
                          "ply.N.angle, ply.N.material, ply.N.ends_at")
     return kind
 
@@ -260,6 +261,9 @@ def _check_value(key: str, value: Any, kind: str, materials: Sequence[str], wher
         elif kind == "angle":
             if isinstance(value, bool) or not isinstance(value, (int, float)) or not -90 <= value <= 180:
                 raise InputError(f"{where}: a fibre angle in degrees as a bare number (-90 … 180), got {value!r}")
+        elif kind == "theory":
+            if value not in THEORIES:
+                raise InputError(f"{where}: a beam theory, one of {', '.join(map(repr, THEORIES))}, got {value!r}")
         elif kind == "material":
             if not isinstance(value, str) or value not in materials:
                 hint = did_you_mean(str(value), materials)
