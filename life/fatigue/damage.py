@@ -70,16 +70,19 @@ class DriveMap:
         """The local quantity of every location at every level, shape (k, J) [Pa or -]."""
         return self.unit[:, None] * self.loads[self.channel]
 
-    def loads_at(self, drive: np.ndarray) -> np.ndarray:
-        """The section loads at the drives, shape (c, len(drive)), linear between levels."""
+    def loads_at(self, drive: np.ndarray, channels: np.ndarray | None = None) -> np.ndarray:
+        """The section loads at the drives, shape (c, len(drive)) — or of the given ``channels`` only, shape
+        (len(channels), len(drive)) — linear between levels."""
         d = np.asarray(drive, float)
         j = np.clip(np.searchsorted(self.drive, d, side="right") - 1, 0, self.drive.size - 2)
         t = (d - self.drive[j]) / (self.drive[j + 1] - self.drive[j])
-        return self.loads[:, j] * (1.0 - t) + self.loads[:, j + 1] * t
+        loads = self.loads if channels is None else self.loads[channels]
+        return loads[:, j] * (1.0 - t) + loads[:, j + 1] * t
 
     def at(self, rows: np.ndarray, drive: np.ndarray) -> np.ndarray:
         """Local quantity of the locations ``rows`` at the drives, shape (len(rows), len(drive)) [Pa or -]."""
-        return self.unit[rows, None] * self.loads_at(drive)[self.channel[rows]]
+        used, channel = np.unique(self.channel[rows], return_inverse=True)  # only the channels these rows read
+        return self.unit[rows, None] * self.loads_at(drive, used)[channel.reshape(-1)]
 
 
 @dataclass(frozen=True)
