@@ -202,7 +202,8 @@ def _axis_rates(grid: _Grid, load: np.ndarray, theta: np.ndarray):
 
 
 def _newton(grid: _Grid, cantilever: bool, load: np.ndarray, theta: np.ndarray, root_moment: np.ndarray):
-    """Newton's method on the collocated integral equations, all levels at once; returns θ (J, N) and M̃₀ (J,).
+    """Newton's method on the collocated integral equations, all levels at once; returns θ (J, N), M̃₀ (J,) and
+    whether each level converged (J,).
 
     Notes
     -----
@@ -237,12 +238,19 @@ def _newton(grid: _Grid, cantilever: bool, load: np.ndarray, theta: np.ndarray, 
         shrink = np.minimum(1.0, MAX_STEP / np.maximum(largest, 1e-300))
         theta = theta - shrink[:, None] * step[:, :N]
         root_moment = root_moment - shrink * step[:, N]
-        if np.all((largest <= NEWTON_TOLERANCE) & (np.abs(step[:, N]) <= NEWTON_TOLERANCE * np.maximum(load, 1.0))):
-            return theta, root_moment
-    failed = ~(largest <= NEWTON_TOLERANCE)
-    worst = float(np.max(load[failed])) if failed.any() else float(load.max())
-    raise InputError(f"the elastica's end condition could not be met at an end load of {worst:.3g} EI/L² (Newton's "
-                     "method did not converge): the load lies beyond what this model solves")
+        converged = (largest <= NEWTON_TOLERANCE) & (np.abs(step[:, N]) <= NEWTON_TOLERANCE * np.maximum(load, 1.0))
+        if converged.all():
+            break
+    return theta, root_moment, converged
+
+
+def _solved(load: np.ndarray, theta: np.ndarray, root_moment: np.ndarray, converged: np.ndarray):
+    """θ and M̃₀ of levels that all converged; else the refusal, naming the heaviest level that did not."""
+    if not converged.all():
+        worst = float(np.max(load[~converged]))
+        raise InputError(f"the elastica's end condition could not be met at an end load of {worst:.3g} EI/L² "
+                         "(Newton's method did not converge): the load lies beyond what this model solves")
+    return theta, root_moment
 
 
 def _linear_shape(grid: _Grid, cantilever: bool, load: np.ndarray):
@@ -284,33 +292,39 @@ def _shapes_at_nodes(model: Elastica, grid: _Grid, size: np.ndarray, near: Shape
     below DIRECT_LOAD anywhere (checked on a uniform cantilever: it does up to 6 and not from 8, where the guess
     is too far and the iteration wanders; the equations also hold looped, unstable shapes). Heavier levels are reached by
     continuation: in batches, each up to twice the last solved load, starting from its shape. Solved levels
-    (``near``) around every load give a closer guess instead.
+    (``near``) around every load give a closer guess instead (a level that does not converge from it to a shape
+    turned less than 90° everywhere is solved as if they were not given).
     """
     cantilever = model.beam.support == "cantilever"
     if near is not None and near.force.size > 1 and np.all(size * model.load_scale() <= near.force.max()):
-        return _newton(grid, cantilever, size, *_from_near(model, grid, size, near))
+        theta, root, converged = _newton(grid, cantilever, size, *_from_near(model, grid, size, near))
+        again = ~converged | (np.abs(theta).max(axis=1) >= 0.5 * np.pi)  # or on a looped shape (see ``solve``)
+        if again.any():
+            theta[again], root[again] = _shapes_at_nodes(model, grid, size[again], None)
+        return theta, root
     theta, root = np.zeros((size.size, grid.s.size)), np.zeros(size.size)
     safe = DIRECT_LOAD / _flexibility(model)
     direct = size <= safe
     if direct.any():
-        theta[direct], root[direct] = _newton(grid, cantilever, size[direct], *_linear_shape(grid, cantilever,
-                                                                                             size[direct]))
+        theta[direct], root[direct] = _solved(size[direct], *_newton(grid, cantilever, size[direct],
+                                                                     *_linear_shape(grid, cantilever, size[direct])))
     heavy = np.flatnonzero(~direct)
     heavy = heavy[np.argsort(size[heavy])]
     if not heavy.size:
         return theta, root
-    if direct.any():
-        last = int(np.flatnonzero(direct)[np.argmax(size[direct])])
+    last = int(np.argmax(np.where(direct, size, -1.0)))
+    if direct[last] and size[last] >= 0.5 * safe:
         last_load, last_theta, last_root = size[last], theta[last], root[last]
     else:  # a level at the safe load to start from
         start = np.array([safe])
-        last_theta, last_root = _newton(grid, cantilever, start, *_linear_shape(grid, cantilever, start))
+        last_theta, last_root = _solved(start, *_newton(grid, cantilever, start, *_linear_shape(grid, cantilever,
+                                                                                                start)))
         last_load, last_theta, last_root = safe, last_theta[0], last_root[0]
     while heavy.size:
         batch = heavy[size[heavy] <= 2.0 * last_load]
         loads = size[batch] if batch.size else np.array([2.0 * last_load])  # a step on the way
         guess_theta = np.repeat(last_theta[None], loads.size, axis=0)
-        t, r = _newton(grid, cantilever, loads, guess_theta, last_root * loads / last_load)
+        t, r = _solved(loads, *_newton(grid, cantilever, loads, guess_theta, last_root * loads / last_load))
         theta[batch], root[batch] = t[:batch.size], r[:batch.size]
         last_load, last_theta, last_root = loads[-1], t[-1], r[-1]
         heavy = heavy[batch.size:]
