@@ -69,6 +69,15 @@ def test_tip_deflection_and_pull_in_against_bisshopp_drucker(isotropic):
     assert np.degrees(shapes.tip_rotation[0]) == pytest.approx(TIP_ROTATION_AT_1_DEG, abs=0.05)  # printed to 0.1°
 
 
+def test_heavy_levels_solved_with_an_unloaded_one(isotropic):
+    """α = 10 is reached by continuation in the load; an unloaded level in the same call stays straight."""
+    model, stations, piece_of = elastica(isotropic)
+    shapes = solve(model, np.array([0.0, 10.0]) * EI / L**2, stations, piece_of)
+    assert shapes.deflection[0] == 0.0 and np.all(shapes.moment[0] == 0.0)
+    assert shapes.deflection[1] / L == pytest.approx(BISSHOPP_DRUCKER_1945[10.0][0], rel=PUBLISHED)
+    assert shapes.pull_in[1] / L == pytest.approx(BISSHOPP_DRUCKER_1945[10.0][1], rel=PUBLISHED)
+
+
 def test_a_misleading_first_guess_still_gives_the_published_shape(isotropic, monkeypatch):
     """Solved levels around a load give Newton's method its first guess; a guess that leads it to a looped shape
     (a section turned past 90°) or nowhere is solved again from the small-load shape: the published values hold."""
