@@ -290,8 +290,8 @@ def _shapes_at_nodes(model: Elastica, grid: _Grid, size: np.ndarray, near: Shape
     -----
     Newton's method converges to the stable shape from the small-load shape while the load index P·L²/EI stays
     below DIRECT_LOAD anywhere (checked on a uniform cantilever: it does up to 6 and not from 8, where the guess
-    is too far and the iteration wanders; the equations also hold looped, unstable shapes). Heavier levels are reached by
-    continuation: in batches, each up to twice the last solved load, starting from its shape. Solved levels
+    is too far and the iteration wanders; the equations also hold looped, unstable shapes). Heavier levels are
+    reached by continuation: in batches, each up to twice the last solved load, starting from its shape. Solved levels
     (``near``) around every load give a closer guess instead (a level that does not converge from it to a shape
     turned less than 90° everywhere is solved as if they were not given).
     """
