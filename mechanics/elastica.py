@@ -4,7 +4,7 @@ The beam's axis keeps its length (inextensible) and its strains stay small, so e
 laminate's linear moment–curvature relation of the small-deflection model — κ = M/EI(s) with EI = b(s)/c(s),
 c the bending compliance per width of the local laminate (narrow beam 1/d11 or plate), b the width — while
 its rotation θ may be large. EI changes with the width taper and jumps at ply drops: the equations are
-integrated segment by segment between the beam's discontinuities.
+solved piece by piece between the beam's discontinuities.
 
 Loads (the axis runs along x from the clamp at s = 0; the end load P acts along y, perpendicular to the
 undeformed beam, and keeps its direction):
@@ -23,10 +23,14 @@ strain γ = V/(b·S), S the section's shear stiffness per width, tilts the axis 
 classical elastica of Bisshopp & Drucker, Q. Appl. Math. 3 (1945) 272–275). At small loads it reduces to
 the linear Timoshenko beam of ``flexcycle.mechanics.beam``.
 
-The root moment is found by shooting: the equations are integrated from the clamp with ``scipy.integrate.
-solve_ivp`` (many load levels at once, with the sensitivity of the end condition to M₀) and the end
-condition solved with ``scipy.optimize.root``. The stored energy ∫M²/(2EI) ds + ∫V²/(2bS) ds is
-integrated alongside; it equals the work ∫P dδ along the load path (Clapeyron; the inextensibility
+The equations are solved in their integral form, θ(s) = ∫₀^s M/EI with M = M₀ − P·x and x, y the integrals
+of x', y' (Greengard, SIAM J. Numer. Anal. 28 (1991) 1071–1080): θ is collocated at Chebyshev–Lobatto nodes on
+each piece, the integrals are Chebyshev integration matrices (``flexcycle.mechanics.chebyshev``; Trefethen,
+*Spectral Methods in MATLAB*, SIAM 2000), and the nodal rotations with the root moment M₀ are found by Newton's
+method with the exact Jacobian, many load levels at once (one small dense linear system per level and step).
+The error falls geometrically with the nodes (section loads and energy to ~1e-10 with the counts used); heavy
+loads are reached by continuation in the load. The stored energy ∫M²/(2EI) ds + ∫V²/(2bS) ds is integrated by
+the same rules (Clenshaw–Curtis); it equals the work ∫P dδ along the load path (Clapeyron; the inextensibility
 constraint does no work), which the tests check.
 
 The solutions tabulated against the drive over a duty (adaptive refinement, monotonicity checks) are
@@ -34,7 +38,8 @@ The solutions tabulated against the drive over a duty (adaptive refinement, mono
 
 Range: small strains (the linear section law); the end load keeps its direction (a dead load: no follower
 load, no contact); a force may be as large as the part's strength allows, a deflection drive must stay
-below what the end can reach (the span, approached only as P → ∞).
+below what the end can reach (the span, approached only as P → ∞); the stable shape only (no section turned
+past 90° from the clamp, else refused); load index P·L²/EI up to MAX_LOAD.
 """
 
 from __future__ import annotations
@@ -43,20 +48,19 @@ from collections.abc import Sequence
 from dataclasses import dataclass, replace
 
 import numpy as np
-from scipy.integrate import solve_ivp
-from scipy.optimize.elementwise import find_root
 
 from .beam import Beam, BeamResponse, Segment, section_fields, segments
+from .chebyshev import MAX_NODES, Rule, rule
 from .errors import InputError
 from .theory import LARGE_SUPPORTS, THEORIES, refuse_unsolved  # noqa: F401 — THEORIES re-exported
 
-RTOL = 1e-9  # solve_ivp's relative tolerance: the shapes to ~1e-8, far inside the 0.1 % the tables keep
-ATOL = 1e-12  # absolute tolerance on the dimensionless states (angles [rad], positions per span)
-SHOOTING_TOLERANCES = {"xatol": 1e-11, "xrtol": 1e-10}  # the unknown (an angle [rad] or a ratio [-]) to ~1e-10
-UNIQUE_LOAD = 10.0  # load index P·L²/EI below which the shooting bounds hold one root (see ``_unknowns``)
+NEWTON_TOLERANCE = 1e-9  # a full Newton step below this [rad] (M̃₀: share of P̃) ends it; the error left is ~its square
+MAX_NEWTON = 40  # Newton iterations before a level is declared unsolved
+MAX_STEP = 0.5  # a Newton step turning a node by more than this [rad] is shortened to it (far from the root)
+DIRECT_LOAD = 4.0  # load index P·L²/EI up to which Newton starts from the small-load shape (see ``_shapes_at_nodes``)
 MAX_LOAD = 1000.0  # load index P·L²/EI beyond which the elastica is not solved (no real part gets there)
-
-
+NODES_MIN = 10  # Chebyshev nodes per piece at small loads (with the next: section loads, energy to ~1e-10, checked)
+NODES_PER_WAVE = 3  # more nodes per piece per unit of √(P·L²/EI)·(piece length/L)
 
 
 @dataclass(frozen=True)
@@ -139,157 +143,136 @@ class Shapes:
     shear: np.ndarray
 
 
-def _rates(model: Elastica, piece: Piece, load: np.ndarray, moment_at_origin: np.ndarray):
-    """The right-hand side d/ds̃ of the dimensionless states for solve_ivp, all load levels at once.
+@dataclass(frozen=True)
+class _Grid:
+    """Chebyshev–Lobatto nodes along the beam, piece by piece, and the matrices of the integral equations.
 
-    States (5, J): θ, ξ, η (position per span, from the integration's origin), Ũ (energy), Ũ_b (bending energy).
-
-    Notes
-    -----
-    With s̃ = s/L, ξ = x/L, η = y/L, P̃ = P·L²/EI_ref, M̃ = M·L/EI_ref, e(s̃) = EI/EI_ref, φ(s̃) = EI_ref/(L²·b·S):
-    M̃ = M̃ₒ − P̃·ξ (ξ measured from the origin where the moment is M̃ₒ); θ' = M̃/e; γ = P̃·φ·cos θ;
-    ξ' = cos θ − γ·sin θ; η' = sin θ + γ·cos θ (Reissner 1972, with no axial strain);
-    energy per EI_ref/L: Ũ' = M̃²/(2e) + φ·(P̃·cos θ)²/2.
+    s : np.ndarray — node positions s̃ = s/L, shape (N,) (a piece's end and the next one's start: two nodes)
+    first : tuple[int, ...] — index of each piece's first node
+    rules : tuple[Rule, ...] — each piece's Chebyshev rule
+    integrate : np.ndarray — values at the nodes → ∫₀^s̃ f ds̃ at the nodes, shape (N, N); its last row is the
+        quadrature over the whole beam
+    stiffness : np.ndarray — e = EI/EI_ref at the nodes, shape (N,)
+    shear_compliance : np.ndarray — φ = EI_ref/(L²·b·S) at the nodes, shape (N,)
+    unit_rotation : np.ndarray — ∫₀^s̃ 1/e, the rotation a unit moment M̃ = 1 gives, shape (N,)
+    bending : np.ndarray — f → ∫₀^s̃ (1/e)·∫₀^t f, the rotation from the moment of a distributed f, shape (N, N)
     """
+
+    s: np.ndarray
+    first: tuple[int, ...]
+    rules: tuple[Rule, ...]
+    integrate: np.ndarray
+    stiffness: np.ndarray
+    shear_compliance: np.ndarray
+    unit_rotation: np.ndarray
+    bending: np.ndarray
+
+
+def _grid(model: Elastica, heaviest: float) -> _Grid:
+    """The nodes for loads up to the load index ``heaviest`` (of the most flexible section): more nodes per piece
+    as the shape's wavelength, of order 1/√(P·L²/EI) of the span (the pendulum analogy), shortens."""
     beam = model.beam
-    L = beam.length
-    c_ratio = model.pieces[0].flexural_compliance / piece.flexural_compliance
-    b_root, b_slope = beam.width_root, (beam.width_tip - beam.width_root)
-    phi_factor = model.bending_ref / (L**2 * piece.shear_stiffness)
-
-    def rates(s, flat):
-        state = flat.reshape(5, -1)
-        theta, xi = state[0], state[1]
-        b = b_root + b_slope * s
-        e = (b / b_root) * c_ratio
-        phi = phi_factor / b
-        moment = moment_at_origin - load * xi
-        cos, sin = np.cos(theta), np.sin(theta)
-        gamma = load * phi * cos
-        bending = 0.5 * moment**2 / e
-        return np.concatenate([moment / e, cos - gamma * sin, sin + gamma * cos,
-                               bending + 0.5 * phi * (load * cos) ** 2, bending])
-
-    return rates
-
-
-def _integrate(model: Elastica, load: np.ndarray, start: np.ndarray, moment_at_origin: np.ndarray,
-               from_tip: bool, stations: np.ndarray | None = None, piece_of: np.ndarray | None = None):
-    """Integrate the states (5, J) from the clamp to the end, or from the end to the clamp.
-
-    start : np.ndarray — the states at the origin, shape (5, J)
-    stations : np.ndarray | None — dimensionless station positions s/L, shape (n,), and ``piece_of`` their pieces
-    Returns the states at the far end (5, J) and, with stations, the states there (5, J, n).
-    """
-    J = load.size
-    state = np.array(start, float).reshape(5, J)
-    sampled = None if stations is None else np.zeros((5, J, stations.size))
-    order = range(len(model.pieces) - 1, -1, -1) if from_tip else range(len(model.pieces))
-    for k in order:
-        piece = model.pieces[k]
-        span = (piece.s1, piece.s0) if from_tip else (piece.s0, piece.s1)
-        mine = np.zeros(0, int)
-        if stations is not None:
-            mine = np.flatnonzero(piece_of == k)
-            mine = mine[np.argsort(stations[mine])[::-1]] if from_tip else mine[np.argsort(stations[mine])]
-        # the stations of this piece, then its far end (the next piece's start)
-        t_eval = None
-        if mine.size:
-            t_eval = np.clip(stations[mine], piece.s0, piece.s1)
-            if t_eval[-1] != span[1]:
-                t_eval = np.append(t_eval, span[1])
-        sol = solve_ivp(_rates(model, piece, load, moment_at_origin), span, state.ravel(),
-                        method="DOP853", rtol=RTOL, atol=ATOL, t_eval=t_eval)
-        if not sol.success:
-            raise InputError(f"the elastica could not be integrated ({sol.message}); the load is beyond the model")
-        if mine.size:
-            sampled[:, :, mine] = sol.y[:, :mine.size].reshape(5, J, -1)
-        state = sol.y[:, -1].reshape(5, J)
-    return state, sampled
+    c_root = model.pieces[0].flexural_compliance
+    rules = tuple(rule(min(NODES_MIN + int(np.ceil(NODES_PER_WAVE * np.sqrt(heaviest) * (p.s1 - p.s0))), MAX_NODES))
+                  for p in model.pieces)
+    first = tuple(int(i) for i in np.cumsum([0] + [r.x.size for r in rules[:-1]]))
+    N = sum(r.x.size for r in rules)
+    s, integrate = np.zeros(N), np.zeros((N, N))
+    compliance, shear = np.zeros(N), np.zeros(N)
+    for p, r, i in zip(model.pieces, rules, first):
+        half, mine = 0.5 * (p.s1 - p.s0), slice(i, i + r.x.size)
+        s[mine] = p.s0 + half * (r.x + 1.0)
+        integrate[mine, mine] = half * r.integrate
+        integrate[i + r.x.size:, mine] = half * r.integrate[-1]  # the nodes beyond carry the whole piece's integral
+        compliance[mine], shear[mine] = p.flexural_compliance, p.shear_stiffness
+    width = beam.width_root + (beam.width_tip - beam.width_root) * s
+    stiffness = (width / beam.width_root) * (c_root / compliance)
+    shear_compliance = model.bending_ref / (model.length**2 * width * shear)
+    return _Grid(s, first, rules, integrate, stiffness, shear_compliance, integrate @ (1.0 / stiffness),
+                 integrate @ (integrate / stiffness[:, None]))
 
 
-def _tip_residual(model: Elastica, load: np.ndarray, tip_rotation: np.ndarray) -> np.ndarray:
-    """Cantilever, shot from the free end (M = 0, θ = θ_L): the rotation left at the clamp, θ(0) [rad]."""
-    start = np.zeros((5, load.size))
-    start[0] = tip_rotation
-    end, _ = _integrate(model, load, start, np.zeros_like(load), from_tip=True)
-    return end[0]
+def _axis_rates(grid: _Grid, load: np.ndarray, theta: np.ndarray):
+    """ξ' = cos θ − γ·sin θ and η' = sin θ + γ·cos θ with γ = P̃·φ·cos θ (Reissner 1972, no axial strain), and
+    dξ'/dθ; load (J,), theta (J, N)."""
+    P = load[:, None]
+    cos, sin = np.cos(theta), np.sin(theta)
+    gamma = P * grid.shear_compliance * cos
+    return cos - gamma * sin, sin + gamma * cos, -sin - P * grid.shear_compliance * np.cos(2.0 * theta)
 
 
-def _guided_residual(model: Elastica, load: np.ndarray, ratio: np.ndarray) -> np.ndarray:
-    """Guided beam, shot from the clamp with M̃₀ = ratio·P̃: the rotation at the guided end, θ(L) [rad]."""
-    end, _ = _integrate(model, load, np.zeros((5, load.size)), ratio * load, from_tip=False)
-    return end[0]
-
-
-def _full_bracket(model: Elastica, load: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Bounds of the shooting unknown that hold for any load (see ``_shoot``)."""
-    if model.beam.support == "cantilever":
-        edge = np.sign(load) * np.pi / 2
-        return np.minimum(0.0, edge), np.maximum(0.0, edge)
-    return np.zeros_like(load), np.full_like(load, 1.05)
-
-
-def _shoot(model: Elastica, load: np.ndarray, bracket: tuple[np.ndarray, np.ndarray] | None = None) -> np.ndarray:
-    """The shooting unknown at every level: θ_L (cantilever) or M̃₀/P̃ (guided), load ≠ 0.
-
-    bracket : optional narrower bounds of the unknown per level (from neighbouring solved levels); a level whose
-        bounds do not hold the root is solved again within the full bounds
+def _newton(grid: _Grid, cantilever: bool, load: np.ndarray, theta: np.ndarray, root_moment: np.ndarray):
+    """Newton's method on the collocated integral equations, all levels at once; returns θ (J, N), M̃₀ (J,) and
+    whether each level converged (J,).
 
     Notes
     -----
-    The levels are independent scalar problems, each bracketed, solved together by Chandrupatla's method
-    (``scipy.optimize.elementwise.find_root``; each call integrates all levels at once).
-    Cantilever: with θ_L = 0 the clamp rotation comes out negative; with θ_L = π/2·sign P the end section
-    lies along the load, carries no moment and no normal shear, and the beam stays straight at that angle:
-    the clamp rotation is π/2 — the root lies between.
-    Guided: with M̃₀ = 0 the moment −P̃·ξ bends the end back (θ(L) ≤ 0); with M̃₀ = 1.05·P̃ the moment P̃·(1.05 −
-    ξ) stays positive (ξ ≤ 1, the inextensible axis), θ(L) > 0.
+    Unknowns: θ at the nodes and the root moment M̃₀. Equations (the integral form of θ' = M̃/e with θ(0) = 0,
+    M̃ = M̃₀ − P̃·ξ, ξ = ∫₀^s̃ ξ'):  θ − M̃₀·∫1/e + P̃·∫(1/e)∫ξ'(θ) = 0 at every node, and the end condition
+    M̃(1) = M̃₀ − P̃·ξ(1) = 0 (cantilever) or θ(1) = 0 (guided). The Jacobian is exact (dξ'/dθ at each node); a
+    step that would turn a node by more than MAX_STEP is shortened to it. Newton converges quadratically: it stops
+    once a full step is below NEWTON_TOLERANCE, the error left being of the order of its square.
     """
-    if model.beam.support == "cantilever":
-        def residual(t, p):
-            return _tip_residual(model, p, t)
+    J, N = theta.shape
+    P = load[:, None]
+    whole = grid.integrate[-1]
+    system = np.zeros((J, N + 1, N + 1))
+    system[:, :N, N] = -grid.unit_rotation
+    if cantilever:
+        system[:, N, N] = 1.0
     else:
-        def residual(r, p):
-            return _guided_residual(model, p, r)
-
-    full = _full_bracket(model, load)
-    lo, hi = full if bracket is None else bracket
-    result = find_root(residual, (lo, hi), args=(load,), tolerances=SHOOTING_TOLERANCES)
-    unknown, success = result.x, result.success
-    again = ~success
-    if bracket is not None and again.any():
-        retry = find_root(residual, (full[0][again], full[1][again]), args=(load[again],),
-                          tolerances=SHOOTING_TOLERANCES)
-        unknown[again], success[again] = retry.x, retry.success
-    if not np.all(success):
-        worst = float(np.max(np.abs(load[~success])))
-        raise InputError(f"the elastica's end condition could not be met at an end load of {worst:.3g} EI/L² (the "
-                         "shooting did not converge): the load lies beyond what this model solves")
-    return unknown
-
-
-def _unknown_of(model: Elastica, shapes: Shapes) -> np.ndarray:
-    """The shooting unknown of solved levels: θ_L (cantilever) or M₀/(P·L) (guided; the small-load limit at P = 0)."""
-    if model.beam.support == "cantilever":
-        return shapes.tip_rotation
-    root = int(np.argmin(shapes.s))
-    with np.errstate(invalid="ignore", divide="ignore"):
-        ratio = shapes.moment[:, root] / (shapes.force * model.length)
-    return ratio
+        system[:, N, N - 1] = 1.0
+    residual = np.empty((J, N + 1))
+    for _ in range(MAX_NEWTON):
+        rate, _, slope = _axis_rates(grid, load, theta)
+        residual[:, :N] = theta - root_moment[:, None] * grid.unit_rotation + P * (rate @ grid.bending.T)
+        system[:, :N, :N] = grid.bending * (P * slope)[:, None, :]
+        system[:, np.arange(N), np.arange(N)] += 1.0
+        if cantilever:
+            residual[:, N] = root_moment - load * (rate @ whole)
+            system[:, N, :N] = -(P * slope) * whole
+        else:
+            residual[:, N] = theta[:, -1]
+        step = np.linalg.solve(system, residual[..., None])[..., 0]
+        largest = np.abs(step[:, :N]).max(axis=1)
+        shrink = np.minimum(1.0, MAX_STEP / np.maximum(largest, 1e-300))
+        theta = theta - shrink[:, None] * step[:, :N]
+        root_moment = root_moment - shrink * step[:, N]
+        converged = (largest <= NEWTON_TOLERANCE) & (np.abs(step[:, N]) <= NEWTON_TOLERANCE * np.maximum(load, 1.0))
+        if converged.all():
+            break
+    return theta, root_moment, converged
 
 
-def _bracket_between(model: Elastica, shapes: Shapes, forces: np.ndarray):
-    """Bounds of the unknown at loads inside the solved range, from the two solved levels around each, padded."""
-    unknown = _unknown_of(model, shapes)
-    j = np.clip(np.searchsorted(shapes.force, forces) - 1, 0, shapes.force.size - 2)
-    a, b = unknown[j], unknown[j + 1]
-    full_lo, full_hi = _full_bracket(model, forces / model.load_scale())
-    bad = ~(np.isfinite(a) & np.isfinite(b))
-    low, high = np.minimum(a, b), np.maximum(a, b)
-    pad = 1e-3 * (high - low) + 1e-12
-    low, high = np.maximum(low - pad, full_lo), np.minimum(high + pad, full_hi)
-    return np.where(bad, full_lo, low), np.where(bad, full_hi, high)
+def _solved(load: np.ndarray, theta: np.ndarray, root_moment: np.ndarray, converged: np.ndarray):
+    """θ and M̃₀ of levels that all converged; else the refusal, naming the heaviest level that did not."""
+    if not converged.all():
+        worst = float(np.max(load[~converged]))
+        raise InputError(f"the elastica's end condition could not be met at an end load of {worst:.3g} EI/L² "
+                         "(Newton's method did not converge): the load lies beyond what this model solves")
+    return theta, root_moment
+
+
+def _linear_shape(grid: _Grid, cantilever: bool, load: np.ndarray):
+    """The small-load shape as a first guess: ξ = s̃, so θ = M̃₀·∫1/e − P̃·∫(1/e)·s̃ (Euler–Bernoulli), with
+    M̃₀ = P̃ (cantilever: M̃(1) = 0) or from θ(1) = 0 (guided); returns θ (J, N), M̃₀ (J,)."""
+    lever = grid.bending @ np.ones(grid.s.size)  # ∫(1/e)·s̃
+    root = load * (1.0 if cantilever else lever[-1] / grid.unit_rotation[-1])
+    return root[:, None] * grid.unit_rotation - load[:, None] * lever, root
+
+
+def _from_near(model: Elastica, grid: _Grid, load: np.ndarray, near: Shapes):
+    """A first guess from solved levels around each load (linear between them in the load, in s̃ between stations)."""
+    forces = load * model.load_scale()
+    j = np.clip(np.searchsorted(near.force, forces) - 1, 0, near.force.size - 2)
+    t = ((forces - near.force[j]) / (near.force[j + 1] - near.force[j]))[:, None]
+    theta_at = near.theta[j] * (1.0 - t) + near.theta[j + 1] * t
+    order = np.argsort(near.s, kind="stable")
+    s = near.s[order] / model.length
+    theta = np.stack([np.interp(grid.s, s, row[order]) for row in theta_at])
+    root = int(order[0])
+    moment = near.moment[j, root] * (1.0 - t[:, 0]) + near.moment[j + 1, root] * t[:, 0]
+    return theta, moment / (model.bending_ref / model.length)
 
 
 def _flexibility(model: Elastica) -> float:
@@ -300,50 +283,62 @@ def _flexibility(model: Elastica) -> float:
     return max(p.flexural_compliance / c_root for p in model.pieces) / least_width
 
 
-def _unknowns(model: Elastica, load: np.ndarray, near: Shapes | None) -> np.ndarray:
-    """The shooting unknown at every load (0 at no load), by continuation where the load is heavy.
+def _shapes_at_nodes(model: Elastica, grid: _Grid, size: np.ndarray, near: Shapes | None):
+    """θ (J, N) and M̃₀ (J,) at the load magnitudes ``size`` ≥ 0 (dimensionless).
 
     Notes
     -----
-    The residual has one root in the full bounds while the load index P·L²/EI stays below UNIQUE_LOAD anywhere
-    (checked on a uniform cantilever: at 80 the shooting also finds looped, unstable shapes). Heavier levels
-    are solved in batches, each up to twice the last solved load, bounded by the last solved unknown (θ_L rises
-    and M₀/(P·L) falls with the load). The problem is odd in the load: |P| is solved, θ_L takes its sign.
+    Newton's method converges to the stable shape from the small-load shape while the load index P·L²/EI stays
+    below DIRECT_LOAD anywhere (checked on a uniform cantilever: it does up to 6 and not from 8, where the guess
+    is too far and the iteration wanders; the equations also hold looped, unstable shapes). Heavier levels are
+    reached by continuation: in batches, each up to twice the last solved load, starting from its shape. Solved levels
+    (``near``) around every load give a closer guess instead (a level that does not converge from it to a shape
+    turned less than 90° everywhere is solved as if they were not given).
     """
-    unknown = np.zeros_like(load)
-    size = np.abs(load)
-    if size.max() * _flexibility(model) > MAX_LOAD:
-        raise InputError(
-            f"an end load of {size.max() * _flexibility(model):.3g} EI/L² (EI of the most flexible section) is beyond "
-            f"what the elastica here solves ({MAX_LOAD:g}); no structural part strains so little under such a load — "
-            "check the drive values and their unit"
-        )
-    odd = -1.0 if model.beam.support == "cantilever" else 1.0
-    if near is not None and near.force.size > 1 and np.all(np.abs(load) * model.load_scale() <= near.force.max()):
-        loaded = size > 0
-        unknown[loaded] = _shoot(model, size[loaded], _bracket_between(model, near, size[loaded] * model.load_scale()))
-        return np.where(load < 0, odd * unknown, unknown)
-    order = np.argsort(size)
-    order = order[size[order] > 0]
-    safe = UNIQUE_LOAD / _flexibility(model)
-    done = order[size[order] <= safe]
-    if done.size:
-        unknown[done] = _shoot(model, size[done])
-    while done.size < order.size:
-        last = done[-1] if done.size else None
-        reach = 2.0 * (size[last] if last is not None else safe)
-        batch = order[done.size:][size[order[done.size:]] <= reach]
-        if not batch.size:
-            batch = order[done.size:done.size + 1]
-        low, high = _full_bracket(model, size[batch])
-        if last is not None:  # beyond the last solved level: between its unknown and the bound it moves toward
-            if model.beam.support == "cantilever":
-                low = np.full_like(low, unknown[last])
-            else:
-                high = np.full_like(high, unknown[last])
-        unknown[batch] = _shoot(model, size[batch], (low, high))
-        done = order[:done.size + batch.size]
-    return np.where(load < 0, odd * unknown, unknown)
+    cantilever = model.beam.support == "cantilever"
+    if near is not None and near.force.size > 1 and np.all(size * model.load_scale() <= near.force.max()):
+        theta, root, converged = _newton(grid, cantilever, size, *_from_near(model, grid, size, near))
+        again = ~converged | (np.abs(theta).max(axis=1) >= 0.5 * np.pi)  # or on a looped shape (see ``solve``)
+        if again.any():
+            theta[again], root[again] = _shapes_at_nodes(model, grid, size[again], None)
+        return theta, root
+    theta, root = np.zeros((size.size, grid.s.size)), np.zeros(size.size)
+    safe = DIRECT_LOAD / _flexibility(model)
+    direct = size <= safe
+    if direct.any():
+        theta[direct], root[direct] = _solved(size[direct], *_newton(grid, cantilever, size[direct],
+                                                                     *_linear_shape(grid, cantilever, size[direct])))
+    heavy = np.flatnonzero(~direct)
+    heavy = heavy[np.argsort(size[heavy])]
+    if not heavy.size:
+        return theta, root
+    last = int(np.argmax(np.where(direct, size, -1.0)))
+    if direct[last] and size[last] >= 0.5 * safe:
+        last_load, last_theta, last_root = size[last], theta[last], root[last]
+    else:  # a level at the safe load to start from
+        start = np.array([safe])
+        last_theta, last_root = _solved(start, *_newton(grid, cantilever, start, *_linear_shape(grid, cantilever,
+                                                                                                start)))
+        last_load, last_theta, last_root = safe, last_theta[0], last_root[0]
+    while heavy.size:
+        batch = heavy[size[heavy] <= 2.0 * last_load]
+        loads = size[batch] if batch.size else np.array([2.0 * last_load])  # a step on the way
+        guess_theta = np.repeat(last_theta[None], loads.size, axis=0)
+        t, r = _solved(loads, *_newton(grid, cantilever, loads, guess_theta, last_root * loads / last_load))
+        theta[batch], root[batch] = t[:batch.size], r[:batch.size]
+        last_load, last_theta, last_root = loads[-1], t[-1], r[-1]
+        heavy = heavy[batch.size:]
+    return theta, root
+
+
+def _interpolation(model: Elastica, grid: _Grid, stations: np.ndarray, piece_of: np.ndarray) -> np.ndarray:
+    """The matrix from node values to station values, each station from its own piece's polynomial, shape (n, N)."""
+    out = np.zeros((stations.size, grid.s.size))
+    for k, (p, r, i) in enumerate(zip(model.pieces, grid.rules, grid.first)):
+        mine = np.flatnonzero(piece_of == k)
+        t = np.clip(2.0 * (stations[mine] - p.s0) / (p.s1 - p.s0) - 1.0, -1.0, 1.0)
+        out[mine, i:i + r.x.size] = r.interpolation(t)
+    return out
 
 
 def solve(model: Elastica, forces: np.ndarray, stations: np.ndarray, piece_of: np.ndarray,
@@ -353,49 +348,55 @@ def solve(model: Elastica, forces: np.ndarray, stations: np.ndarray, piece_of: n
     forces : np.ndarray — end loads P [N], any sign, shape (J,)
     stations : np.ndarray — arc length of each station from the clamp [m], shape (n,) (a discontinuity twice)
     piece_of : np.ndarray — the segment (piece) index of each station, shape (n,)
-    near : Shapes | None — solved levels, ascending in force, whose range holds every force here: the shooting
-        starts between the two levels around each force (the unknown is monotonic in the load)
+    near : Shapes | None — solved levels, ascending in force, whose range holds every force here: Newton's method
+        starts from the shapes interpolated between them
+
+    Notes
+    -----
+    The problem is odd in the load (the section law is symmetric): |P| is solved and θ, M̃₀ take its sign.
+    Positions ξ = ∫ξ', η = ∫η' and the energy per EI_ref/L, Ũ = ∫M̃²/(2e) + φ·(P̃·cos θ)²/2, are integrated by
+    the same Chebyshev rules (spectral accuracy).
     """
     forces = np.asarray(forces, float)
     L = model.length
     load = forces / model.load_scale()
-    unknown = _unknowns(model, load, near)
-    from_tip = model.beam.support == "cantilever"
-    start = np.zeros((5, load.size))
-    if from_tip:
-        start[0] = unknown
-        origin_moment = np.zeros_like(load)
-    else:
-        origin_moment = unknown * load
-    far, at = _integrate(model, load, start, origin_moment, from_tip, np.asarray(stations, float) / L, piece_of)
+    size = np.abs(load)
+    heaviest = float(size.max(initial=0.0)) * _flexibility(model)
+    if heaviest > MAX_LOAD:
+        raise InputError(
+            f"an end load of {heaviest:.3g} EI/L² (EI of the most flexible section) is beyond what the elastica here "
+            f"solves ({MAX_LOAD:g}); no structural part strains so little under such a load — check the drive "
+            "values and their unit"
+        )
+    grid = _grid(model, heaviest)
+    theta, root = _shapes_at_nodes(model, grid, size, near)
+    if np.abs(theta).max(initial=0.0) >= 0.5 * np.pi:
+        raise InputError("the elastica's solution turned a section past 90° from the clamp: not the stable shape "
+                         "under an end load of fixed direction; the load lies beyond what this model solves")
+    sign = np.where(load < 0, -1.0, 1.0)
+    theta, root = theta * sign[:, None], root * sign
+    rate, lift, _ = _axis_rates(grid, load, theta)
+    xi, eta = rate @ grid.integrate.T, lift @ grid.integrate.T
+    moment = root[:, None] - load[:, None] * xi
+    bending = 0.5 * moment**2 / grid.stiffness
+    shear = 0.5 * grid.shear_compliance * (load[:, None] * np.cos(theta)) ** 2
+    at = _interpolation(model, grid, np.asarray(stations, float) / L, np.asarray(piece_of)).T
     scale = model.bending_ref / L  # M = M̃·EI_ref/L, U = Ũ·EI_ref/L
-    theta = at[0]
-    if from_tip:  # positions measured from the tip: shift them to the clamp; energies integrated backward
-        xi = at[1] - far[1][:, None]
-        eta = at[2] - far[2][:, None]
-        moment = -load[:, None] * at[1] * scale
-        energy, bending = -far[3] * scale, -far[4] * scale
-        tip = (-far[1], -far[2], start[0])
-    else:
-        xi, eta = at[1], at[2]
-        moment = (origin_moment[:, None] - load[:, None] * at[1]) * scale
-        energy, bending = far[3] * scale, far[4] * scale
-        tip = (far[1], far[2], far[0])
+    theta_at = theta @ at
     return Shapes(
         force=forces,
-        deflection=tip[1] * L,
-        pull_in=(1.0 - tip[0]) * L,
-        tip_rotation=tip[2],
-        energy=energy,
-        bending_energy=bending,
+        deflection=eta[:, -1] * L,
+        pull_in=(1.0 - xi[:, -1]) * L,
+        tip_rotation=theta[:, -1],
+        energy=(bending + shear) @ grid.integrate[-1] * scale,
+        bending_energy=bending @ grid.integrate[-1] * scale,
         s=np.asarray(stations, float),
-        x=xi * L,
-        y=eta * L,
-        theta=theta,
-        moment=moment,
-        shear=forces[:, None] * np.cos(theta),
+        x=xi @ at * L,
+        y=eta @ at * L,
+        theta=theta_at,
+        moment=moment @ at * scale,
+        shear=forces[:, None] * np.cos(theta_at),
     )
-
 
 
 def per_section_load(response: BeamResponse) -> BeamResponse:

@@ -171,7 +171,7 @@ def test_absurd_loads_are_refused():
 
 
 def test_heavy_loads_keep_the_stable_branch():
-    """At P·L²/EI = 80 the shooting bounds also hold looped (unstable) shapes; continuation keeps the stable one,
+    """At P·L²/EI = 80 the equations also hold looped (unstable) shapes; continuation keeps the stable one,
     whose end turns almost into the load (θ_L → 90°) and whose root moment keeps growing with the load."""
     beam = uniform_beam("cantilever")
     model = prepare(replace(beam), segments(beam))

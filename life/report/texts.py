@@ -29,9 +29,9 @@ METHODS = [
     ("Large deflection", "theory = \"large-deflection\": the inextensible elastica in arc length with small strains "
      "(each section keeps the laminate's linear moment–curvature law, EI varying with taper and ply drops), an end "
      "load of fixed direction perpendicular to the unloaded beam, shear flexibility as Reissner's beam "
-     "(ZAMP 23, 1972); solved by shooting (scipy solve_ivp, Chandrupatla's bracketed root) and tabulated against "
-     "the drive until interpolated section loads are within 0.1 %; checked against Bisshopp & Drucker, Q. Appl. "
-     "Math. 3 (1945); energy U = ∫F dδ"),
+     "(ZAMP 23, 1972); solved by Chebyshev collocation of its integral equations with Newton's method (Greengard "
+     "1991) and tabulated against the drive until interpolated section loads are within 0.1 %; checked against "
+     "Bisshopp & Drucker, Q. Appl. Math. 3 (1945); energy U = ∫F dδ"),
 ]
 
 LIMITS = [

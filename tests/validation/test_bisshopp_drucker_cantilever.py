@@ -23,6 +23,7 @@ from dataclasses import replace
 import numpy as np
 import pytest
 
+import flexcycle.mechanics.elastica as elastica_module
 from flexcycle.mechanics.beam import Beam, Ply, segments
 from flexcycle.mechanics.elastica import prepare, solve
 
@@ -66,6 +67,30 @@ def test_tip_deflection_and_pull_in_against_bisshopp_drucker(isotropic):
         assert shapes.deflection[k] / L == pytest.approx(deflection, rel=PUBLISHED), alpha
         assert shapes.pull_in[k] / L == pytest.approx(pull_in, rel=PUBLISHED), alpha
     assert np.degrees(shapes.tip_rotation[0]) == pytest.approx(TIP_ROTATION_AT_1_DEG, abs=0.05)  # printed to 0.1°
+
+
+def test_heavy_levels_solved_with_an_unloaded_one(isotropic):
+    """α = 10 is reached by continuation in the load; an unloaded level in the same call stays straight."""
+    model, stations, piece_of = elastica(isotropic)
+    shapes = solve(model, np.array([0.0, 10.0]) * EI / L**2, stations, piece_of)
+    assert shapes.deflection[0] == 0.0 and np.all(shapes.moment[0] == 0.0)
+    assert shapes.deflection[1] / L == pytest.approx(BISSHOPP_DRUCKER_1945[10.0][0], rel=PUBLISHED)
+    assert shapes.pull_in[1] / L == pytest.approx(BISSHOPP_DRUCKER_1945[10.0][1], rel=PUBLISHED)
+
+
+def test_a_misleading_first_guess_still_gives_the_published_shape(isotropic, monkeypatch):
+    """Solved levels around a load give Newton's method its first guess; a guess that leads it to a looped shape
+    (a section turned past 90°) or nowhere is solved again from the small-load shape: the published values hold."""
+    model, stations, piece_of = elastica(isotropic)
+    near = solve(model, np.array([0.0, 20.0]) * EI / L**2, stations, piece_of)
+    monkeypatch.setattr(elastica_module, "_from_near",
+                        lambda model, grid, load, near: (np.full((load.size, grid.s.size), -3.0), -50.0 * load))
+    alphas = np.array([2.0, 5.0, 10.0])
+    shapes = solve(model, alphas * EI / L**2, stations, piece_of, near)
+    for k, alpha in enumerate(alphas):
+        deflection, pull_in = BISSHOPP_DRUCKER_1945[alpha]
+        assert shapes.deflection[k] / L == pytest.approx(deflection, rel=PUBLISHED), alpha
+        assert shapes.pull_in[k] / L == pytest.approx(pull_in, rel=PUBLISHED), alpha
 
 
 def test_shape_meets_the_elastica_equations(isotropic):
