@@ -316,3 +316,21 @@ def test_worst_pass_finds_the_largest_damage_of_every_location(seed, drive):
         assert exact.static_failure.any()
     else:
         assert not exact.static_failure.any() and 0 < marked.sum() < 40 < marked.size  # few tops evaluated
+
+
+@pytest.mark.parametrize("seed", [5, 6])
+def test_worst_pass_with_its_tops_bracketed(monkeypatch, seed):
+    """Reference: every location cycle by cycle (miner_damage). With TOP_PAIRS = 1 the tops are bounded on the
+    coarse grid first and only those whose bound reaches D* evaluated exactly: the same largest damage (rel
+    1e-12), the same location, and every bound at least the damage it bounds."""
+    resp, locs = _example_locations()
+    cycles = rainflow_cycles(_ride(4_000, seed))
+    fpd = 1.0 / resp.compliance
+    exact = miner_damage(locs, cycles, fpd, 1.0)
+    monkeypatch.setattr(damage_module, "TOP_PAIRS", 1)
+    worst = worst_damage(locs, cycles, fpd, 1.0)
+    assert worst.aggregation == "bracketed"
+    k = int(np.argmax(exact.damage))
+    assert worst.largest() == k and worst.exact[k]
+    assert worst.damage[k] == pytest.approx(exact.damage[k], rel=1e-12)
+    assert np.all(exact.damage <= worst.damage * (1 + 1e-12))

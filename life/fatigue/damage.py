@@ -43,6 +43,8 @@ CHUNK = 32_768  # local (location × cycle) pairs evaluated at once: 256 kB temp
 EXACT_PAIRS = 20_000_000  # location × cycle pairs evaluated one by one; beyond, cycles are aggregated
 BRACKET_LEVELS = 256  # drive levels across the duty's span for the bracketing grid (aggregation at scale)
 BRACKET_RULES = ("goodman", "gerber", "none")  # rules whose lives fall when a local cycle's interval grows
+TOP_PAIRS = 200_000  # the worst pass: beyond this many top × cycle pairs the tops are bounded first (bracketed)
+TOP_LEVELS = 64  # ... on a grid of this many drive levels (coarse: only the tops whose bound reaches D* count)
 
 
 @dataclass(frozen=True)
@@ -325,17 +327,18 @@ def miner_damage(locations: Locations, cycles: Cycles, force_per_drive: float, s
     model; D = Σ count/N (Palmgren–Miner). Every location and cycle is evaluated in numpy, in blocks of CHUNK
     pairs; no Python loop runs over cycles.
 
-    At scale (more than EXACT_PAIRS location × cycle pairs) the cycles are aggregated, exactly first:
-    identical extremes are merged (counts summed), which changes no damage beyond round-off. If that is still
-    too many, the damage is bounded from above (rules in BRACKET_RULES; "cld" stays exact): every cycle is
-    widened to the grid of BRACKET_LEVELS drive levels across the duty's span (min rounded down, max up) and
-    the widened cycles merged on the grid. Under these rules a local cycle whose interval contains another's
-    has no more cycles to failure (the tests check it on every rule and library material), and the map from
-    drive to local stress is monotonic, so at every location D <= D(widened). The location of the largest upper
-    bound is then evaluated exactly, cycle by cycle; its damage D* is at most the largest damage of all, so
-    every location whose upper bound reaches D* — the critical one among them — and every location where a
-    widened cycle passes the static strength is evaluated exactly too: the life, the critical location and
-    the static-failure flags are exact. The others report the upper bound (conservative); ``exact`` says which.
+    At scale (more than EXACT_PAIRS location × cycle pairs) the damage is bounded from above first (rules in
+    BRACKET_RULES): every cycle is widened to the grid of BRACKET_LEVELS drive levels across the duty's span
+    (min rounded down, max up) and the widened cycles merged on the grid (a count per pair of levels). Under
+    these rules a local cycle whose interval contains another's has no more cycles to failure (the tests check
+    it on every rule and library material), and the map from drive to local stress is monotonic, so at every
+    location D <= D(widened). The location of the largest upper bound is then evaluated exactly, cycle by
+    cycle; its damage D* is at most the largest damage of all, so every location whose upper bound reaches
+    D* — the critical one among them — and every location where a widened cycle passes the static strength
+    is evaluated exactly too (identical cycles merged first if they are still too many: exact, counts
+    summed): the life, the critical location and the static-failure flags are exact. The others report the
+    upper bound (conservative); ``exact`` says which. A "cld" rule is not bracketed (its diagram may fold
+    back): identical cycles are merged and every location evaluated.
 
     Locations with the same model and the same map have the same damage: each is evaluated once.
     """
@@ -358,8 +361,10 @@ def worst_damage(locations: Locations, cycles: Cycles, force_per_drive: float, s
     drive itself under linear theory (scale: the response per unit drive), its channel's section load under
     large deflection (scale: the response per unit load). So among locations of one model, one such function
     and one sign of the scale, the damage grows with |scale|: the location of largest |scale| — the group's
-    top — has the group's largest damage, and bounds every other's from above. Only the tops are evaluated
-    (as ``miner_damage`` evaluates its locations, aggregated at scale); the largest of them is the largest
+    top — has the group's largest damage, and bounds every other's from above. Only the tops are evaluated,
+    as ``miner_damage`` evaluates its locations (beyond TOP_PAIRS top × cycle pairs bracketed on a grid of
+    TOP_LEVELS drive levels: many tops under large deflection, whose groups are one station's section load
+    each, or millions of cycles); the largest of them is the largest
     damage of all, at the location of the lowest index among equals, as ``miner_damage`` finds it. A top
     whose cycles pass the static strength sends the whole evaluation to ``miner_damage``: the static-failure
     flags are then exact everywhere. ``exact`` marks the locations evaluated exactly.
@@ -373,7 +378,7 @@ def worst_damage(locations: Locations, cycles: Cycles, force_per_drive: float, s
     tops = rows[order[first]]
     top_of = np.empty(rows.size, int)
     top_of[order] = np.cumsum(first) - 1  # each row's group, numbered as the tops
-    damage, failed, exact, aggregation = _evaluate(local_map, np.sort(tops), cycles)
+    damage, failed, exact, aggregation = _evaluate(local_map, np.sort(tops), cycles, TOP_LEVELS, TOP_PAIRS)
     if failed.any():
         return miner_damage(locations, cycles, force_per_drive, stress_factor)
     evaluated = np.zeros(damage.size, bool)
@@ -388,7 +393,8 @@ class _LocalMap:
 
     keys : np.ndarray — what makes two locations' local histories equal: the local quantity per unit drive
         (k,), or the channel and the quantity per unit section load (k, 2)
-    prepare(drives) — once per chunk of cycles: the drives (linear) or the section loads there (large deflection)
+    prepare(drives, rows) — once per chunk of cycles: the drives (linear) or the section loads of the rows'
+        channels there (large deflection)
     values(rows, prepared) — the local quantity of the locations ``rows`` there, shape (len(rows), len(drives))
     """
 
@@ -405,15 +411,21 @@ class _LocalMap:
     def local(self, rows: np.ndarray, drive: np.ndarray) -> np.ndarray:
         return self.locations.local(rows, drive, self.force_per_drive, self.stress_factor)
 
-    def prepare(self, drive: np.ndarray) -> np.ndarray:
+    def prepare(self, drive: np.ndarray, rows: np.ndarray):
+        """What ``values`` reads for the locations ``rows`` at the drives: the drives themselves (linear), or the
+        section loads of the rows' channels there and those channels (large deflection)."""
         drive_map = self.locations.drive_map
-        return drive if drive_map is None else drive_map.loads_at(drive)
+        if drive_map is None:
+            return drive
+        used = np.unique(drive_map.channel[rows])
+        return drive_map.loads_at(drive, used), used
 
-    def values(self, rows: np.ndarray, prepared: np.ndarray) -> np.ndarray:
+    def values(self, rows: np.ndarray, prepared) -> np.ndarray:
         drive_map = self.locations.drive_map
         if drive_map is None:
             return self.keys[rows, None] * prepared[None, :]
-        return (drive_map.unit[rows] * self.stress_factor)[:, None] * prepared[drive_map.channel[rows]]
+        loads, used = prepared
+        return (drive_map.unit[rows] * self.stress_factor)[:, None] * loads[np.searchsorted(used, drive_map.channel[rows])]
 
     def scales(self, rows: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """Each location's scale, and its group: the same model, the same shared function, the same sign."""
@@ -453,27 +465,33 @@ def _extremes(local_map: _LocalMap, cycles: Cycles) -> tuple[np.ndarray, np.ndar
     return amp, mean, utilisation, np.flatnonzero(rows)
 
 
-def _evaluate(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles
-              ) -> tuple[np.ndarray, np.ndarray, np.ndarray | None, str]:
+def _evaluate(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles, levels: int = BRACKET_LEVELS,
+              exact_pairs: int | None = None) -> tuple[np.ndarray, np.ndarray, np.ndarray | None, str]:
     """Damage, static-failure flags, the exact mask (None: exact everywhere) and the aggregation at ``rows``:
-    every cycle, identical cycles merged, or bracketed at scale (the Notes of ``miner_damage``)."""
+    every cycle; or beyond ``exact_pairs`` (default EXACT_PAIRS) location × cycle pairs, bracketed on a grid of
+    ``levels`` drive levels (the Notes of ``miner_damage``), or identical cycles merged where the bracket does
+    not hold (a "cld" rule)."""
     locations = local_map.locations
-    aggregation = "each cycle"
-    if rows.size * cycles.lo.size > EXACT_PAIRS:
-        cycles = merge_identical(cycles)
-        aggregation = "identical cycles merged"
-    bracket = rows.size * cycles.lo.size > EXACT_PAIRS and cycles.hi.max() > cycles.lo.min() and all(
+    nc = cycles.lo.size
+    limit = EXACT_PAIRS if exact_pairs is None else exact_pairs
+    if nc == 0 or rows.size * nc <= limit:
+        damage, failed = _damage(local_map, rows, cycles)
+        return damage, failed, None, "each cycle"
+    bracket = cycles.hi.max() > cycles.lo.min() and all(
         locations.models[m].rule in BRACKET_RULES for m in np.unique(locations.model[rows]))
     if not bracket:
-        damage, failed = _damage(local_map, rows, cycles)
-        return damage, failed, None, aggregation
-    upper, failed_wide = _damage(local_map, rows, _widened(cycles))
+        damage, failed = _damage(local_map, rows, merge_identical(cycles))
+        return damage, failed, None, "identical cycles merged"
+    upper, failed_wide = _damage(local_map, rows, _widened(cycles, levels))
     top = rows[[int(np.argmax(upper[rows]))]]
-    damage_top, failed_top = _damage(local_map, top, cycles)
+    exact_cycles = cycles if nc <= EXACT_PAIRS else merge_identical(cycles)  # one location: every cycle fits
+    damage_top, failed_top = _damage(local_map, top, exact_cycles)
     reached = damage_top[top[0]]  # D* <= the largest damage of all
     exact = rows[(upper[rows] >= reached) | failed_wide[rows]]
     rest = exact[exact != top[0]]  # the top location is evaluated already
-    damage_exact, failed = _damage(local_map, rest, cycles)
+    if rest.size * exact_cycles.lo.size > EXACT_PAIRS and exact_cycles is cycles:
+        exact_cycles = merge_identical(cycles)
+    damage_exact, failed = _damage(local_map, rest, exact_cycles)
     damage_exact[top], failed[top] = damage_top[top], failed_top[top]
     upper[exact] = damage_exact[exact]
     evaluated = np.zeros(upper.size, bool)
@@ -481,20 +499,25 @@ def _evaluate(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles
     return upper, failed, evaluated, "bracketed"
 
 
-def _widened(cycles: Cycles) -> Cycles:
-    """The cycles widened to a grid of BRACKET_LEVELS drive levels (min down, max up), merged on the grid.
+def _widened(cycles: Cycles, levels: int = BRACKET_LEVELS) -> Cycles:
+    """The cycles widened to a grid of ``levels`` drive levels (min down, max up), merged on the grid.
 
     The grid runs from the smallest to the largest drive of the cycles; a widened cycle contains the cycle.
+    Merging on the grid is a count per pair of grid indices (``numpy.bincount``): linear in the cycles, no sort.
     """
     base, top = float(cycles.lo.min()), float(cycles.hi.max())
-    step = (top - base) / BRACKET_LEVELS
+    step = (top - base) / levels
     grid = lambda i: np.minimum(base + i * step, top)  # noqa: E731 — level i of the grid [drive unit]
     # the level at or below lo and at or above hi (checked against the drive itself: no round-off inside)
     i_lo = np.floor((cycles.lo - base) / step)
     i_lo -= grid(i_lo) > cycles.lo
     i_hi = np.ceil((cycles.hi - base) / step)
     i_hi += grid(i_hi) < cycles.hi
-    return merge_identical(Cycles(np.minimum(grid(i_lo), cycles.lo), np.maximum(grid(i_hi), cycles.hi), cycles.count))
+    side = levels + 2  # indices 0 … levels + 1 (round-off may put the top one level past ``levels``)
+    code = i_lo.astype(np.int64) * side + i_hi.astype(np.int64)
+    count = np.bincount(code, weights=cycles.count, minlength=side * side)
+    held = np.flatnonzero(count)
+    return Cycles(grid(held // side), grid(held % side), count[held])
 
 
 def _damage(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles) -> tuple[np.ndarray, np.ndarray]:
@@ -521,7 +544,7 @@ def _damage(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles) -> tuple[np.
     cycles_at_once = min(nc, CHUNK)
     for c0 in range(0, nc, cycles_at_once):
         c = slice(c0, c0 + cycles_at_once)
-        at_lo, at_hi = prepare(dlo[c]), prepare(dhi[c])
+        at_lo, at_hi = prepare(dlo[c], rows), prepare(dhi[c], rows)
         for (model, _, unique, _), d, f in zip(groups, sums, flags):
             rows_at_once = max(1, CHUNK // nc)
             for r0 in range(0, unique.size, rows_at_once):
