@@ -14,7 +14,7 @@ import numpy as np
 
 from .cycles import Cycles
 from .errors import InputError
-from .merging import merge_parts
+from .merging import join_parts, merge_parts
 from .rainflow import RESIDUE_MODES, rainflow_cycles, take_full_cycles
 from .reversals import as_signal
 
@@ -132,26 +132,54 @@ def rainflow_chunks(
             f"rainflow_chunks: residue must be one of {', '.join(repr(m) for m in RESIDUE_MODES)}, got {residue!r}"
         )
     state = OPEN
-    parts: list[Cycles] = []
+    held = HeldCycles()
     for chunk in chunks:
         step = count_chunk(state, chunk)
         state = step.open
-        parts = hold(parts, step.full)
+        held.add(step.full)
         if on_chunk is not None:
             on_chunk(state.samples)
-    parts.append(close_count(state, residue))
-    return merge_parts(parts)
+    held.add(close_count(state, residue))
+    return held.cycles(merge=True)
 
 
-MERGE_EVERY = 4_000_000  # cycles held (about 100 MB) before the chunks' cycles are merged together
+MERGE_EVERY = 4_000_000  # new cycles held (about 100 MB) before they are merged with those held before
+MERGE_PAYS = 0.5  # a merge that keeps more than this share of its rows is the last: the cycles are distinct
 
 
-def hold(parts: list[Cycles], full: Cycles) -> list[Cycles]:
-    """The closed cycles held so far, with a chunk's full cycles added; past MERGE_EVERY rows all are merged
-    together (identical ones summed), which bounds the memory. Merging is exact, and done once for many
-    chunks: merging costs about the same per row whatever the number of rows."""
-    if full.lo.size:
-        parts = parts + [full]
-    if len(parts) > 1 and sum(p.lo.size for p in parts) > MERGE_EVERY:
-        parts = [merge_parts(parts)]
-    return parts
+class HeldCycles:
+    """The closed cycles of a history counted chunk by chunk.
+
+    Every MERGE_EVERY new rows the cycles held are merged (identical ones summed: exact), which bounds the memory
+    of a history that repeats its cycles (a signal of coarse resolution). A merge that keeps more than
+    MERGE_PAYS of its rows shows cycles that are mostly distinct (noise read at fine resolution); merging then
+    stops, for each later merge would sort the whole set again for little gain (about 1 s per 10⁷ rows), and
+    the memory grows with the cycles, 24 bytes each.
+    """
+
+    def __init__(self) -> None:
+        self._parts: list[Cycles] = []
+        self._new = 0
+        self.merged = False  # merged at least once
+        self.merging = True  # merging still pays
+
+    def add(self, full: Cycles) -> None:
+        """Hold a chunk's full cycles."""
+        if not full.lo.size:
+            return
+        self._parts.append(full)
+        self._new += full.lo.size
+        if self.merging and self._new > MERGE_EVERY and len(self._parts) > 1:
+            rows = sum(p.lo.size for p in self._parts)
+            self._parts = [merge_parts(self._parts)]
+            self._new = 0
+            self.merged = True
+            self.merging = self._parts[0].lo.size <= MERGE_PAYS * rows
+
+    def cycles(self, merge: bool = False) -> Cycles:
+        """Every cycle held (the holder is emptied): merged if ``merge`` or if merging has paid so far, else
+        joined in the order counted (the same cycles: a multiset)."""
+        parts, self._parts = self._parts, []
+        if merge or (self.merged and self.merging):
+            return merge_parts(parts)
+        return join_parts(parts)

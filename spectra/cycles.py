@@ -16,9 +16,14 @@ from .errors import InputError
 
 
 def _frozen_vector(values: object, name: str) -> np.ndarray:
-    """A read-only 1-D float copy of ``values``; InputError if it is not one."""
+    """A read-only 1-D float copy of ``values`` (a read-only float array is taken as it is: nothing writes to it,
+    and a copy of millions of cycles would double their memory); InputError if it is not one."""
+    if isinstance(values, np.ndarray) and values.dtype == np.float64 and not values.flags.writeable:
+        vector = values
+    else:
+        vector = None
     try:
-        vector = np.array(values, dtype=float)
+        vector = np.array(values, dtype=float) if vector is None else vector
     except (TypeError, ValueError) as exc:
         raise InputError(f"Cycles: {name} must be an array of numbers ({exc})") from None
     if vector.ndim != 1:
@@ -41,7 +46,8 @@ class Cycles:
     Notes
     -----
     The three arrays are 1-D, of equal length, finite, and read-only copies of what was
-    passed. Zero cycles (all arrays empty) is a valid result: a constant drive.
+    passed (a read-only float64 array is kept as it is). Zero cycles (all arrays empty) is a
+    valid result: a constant drive.
     """
 
     lo: np.ndarray

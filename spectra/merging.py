@@ -4,6 +4,7 @@ from __future__ import annotations
 import numpy as np
 
 from .cycles import Cycles, no_cycles
+from .errors import InputError
 
 
 def _merged_already(lo: np.ndarray, hi: np.ndarray) -> bool:
@@ -63,8 +64,106 @@ def merge_identical(cycles: Cycles, decimals: int | None = None) -> Cycles:
 
 def merge_parts(parts: list[Cycles]) -> Cycles:
     """`merge_identical` of several Cycles joined."""
+    if not parts:
+        return no_cycles()
     return merge_identical(Cycles(
         lo=np.concatenate([p.lo for p in parts]),
         hi=np.concatenate([p.hi for p in parts]),
         count=np.concatenate([p.count for p in parts]),
     ))
+
+
+def join_parts(parts: list[Cycles]) -> Cycles:
+    """Several Cycles joined in order, not merged. ``parts`` is emptied: each column is joined and its pieces
+    let go before the next, so that the parts and the joined arrays are not all held at once (about 4/3 of
+    the cycles' memory at the peak, not 2)."""
+    if not parts:
+        return no_cycles()
+    pieces = {name: [getattr(p, name) for p in parts] for name in ("lo", "hi", "count")}
+    parts.clear()
+    columns = []
+    for name in ("lo", "hi", "count"):
+        column = np.concatenate(pieces.pop(name))
+        column.flags.writeable = False
+        columns.append(column)
+    return Cycles(*columns)
+
+
+TABLE_BLOCK = 1 << 20  # cycles taken at once by ``table_of``
+_SHIFT = 1 << 24  # grid indices are kept as i + _SHIFT in 25 bits each of one int64 key (|i| < 2^24)
+
+
+def table_of(cycles: Cycles, max_rows: int, resolution: float) -> tuple[Cycles, float | None]:
+    """At most ``max_rows`` rows that hold the cycles: identical cycles merged, or, when more distinct cycles
+    than that remain, binned.
+
+    Parameters
+    ----------
+    cycles : Cycles — the cycles [unit of the drive, SI]
+    max_rows : int — rows allowed (>= 3: below and above zero, and across it, are never one bin)
+    resolution : float — the finest bin width as a share of the largest |drive| (> 0)
+
+    Returns
+    -------
+    (Cycles, float | None) — the rows, and the bin width [unit of the drive] (None: merged, not binned).
+
+    Notes
+    -----
+    Binning: each extreme goes to its bin ⌊x/w⌋ on a grid of width w and is written at the bin's centre; w
+    starts at ``resolution`` × the largest |drive| and doubles until the rows fit. Bins of width 2w are pairs
+    of bins of width w (⌊⌊x/w⌋/2⌋ = ⌊x/2w⌋), so a table already binned is coarsened without the cycles: the
+    cycles are read in blocks of TABLE_BLOCK, merged into the table (exactly while the distinct cycles fit),
+    and the memory stays that of one block whatever the number of cycles. The counts are kept.
+    """
+    # the bin indices must fit their 25 bits; bins never straddle zero, so three rows always suffice
+    if not (max_rows >= 3 and 2.0**-22 <= resolution):
+        raise InputError(f"table_of: max_rows must be >= 3 and resolution >= 2^-22, got {max_rows}, {resolution}")
+    n = cycles.lo.size
+    if n == 0:
+        return cycles, None
+    peak = float(max(np.abs(cycles.lo).max(), np.abs(cycles.hi).max())) or 1.0
+    exact: Cycles | None = no_cycles()
+    keys = np.zeros(0, np.int64)
+    counts = np.zeros(0)
+    width = resolution * peak
+    for start in range(0, n, TABLE_BLOCK):
+        block = Cycles(cycles.lo[start:start + TABLE_BLOCK], cycles.hi[start:start + TABLE_BLOCK],
+                       cycles.count[start:start + TABLE_BLOCK])
+        if exact is not None:
+            if np.unique(block.lo).size <= max_rows:  # else more distinct minima than rows: binned at once
+                merged = merge_parts([exact, block])
+                if merged.lo.size <= max_rows:
+                    exact = merged
+                    continue
+                block = merged
+            else:
+                block = join_parts([exact, block])
+            exact = None  # too many distinct cycles: binned from here on
+        keys, counts = _summed(np.concatenate([keys, _keys(block, width)]), np.concatenate([counts, block.count]))
+        while keys.size > max_rows:
+            i_lo, i_hi = _indices(keys)
+            keys, counts = _summed(_key(i_lo >> 1, i_hi >> 1), counts)  # floor(i / 2): the bins of width 2w
+            width *= 2.0
+    if exact is not None:
+        return exact, None
+    i_lo, i_hi = _indices(keys)
+    return Cycles((i_lo + 0.5) * width, (i_hi + 0.5) * width, counts), width
+
+
+def _key(i_lo: np.ndarray, i_hi: np.ndarray) -> np.ndarray:
+    return ((i_lo + _SHIFT) << 25) | (i_hi + _SHIFT)
+
+
+def _indices(keys: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    return (keys >> 25) - _SHIFT, (keys & ((1 << 25) - 1)) - _SHIFT
+
+
+def _keys(cycles: Cycles, width: float) -> np.ndarray:
+    """Each cycle's pair of bins on the grid of ``width`` as one integer."""
+    return _key(np.floor(cycles.lo / width).astype(np.int64), np.floor(cycles.hi / width).astype(np.int64))
+
+
+def _summed(keys: np.ndarray, counts: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Distinct keys, ascending, with their counts summed."""
+    unique, inverse = np.unique(keys, return_inverse=True)
+    return unique, np.bincount(inverse.reshape(-1), weights=counts, minlength=unique.size)

@@ -6,8 +6,9 @@ each chunk is rainflow-counted with the residue carried to the next
 (`flexcycle.spectra.chunked.count_chunk`), and the history is kept only as a min/max envelope for
 plots. A history of at most ``keep_signal`` samples is also kept whole, and counted at once
 with `flexcycle.spectra.rainflow.rainflow_cycles`;
-a longer one is counted in chunks, its identical cycles merged (the same cycles: the tests
-check it).
+a longer one is counted in chunks, its identical cycles merged while merging pays
+(`flexcycle.spectra.chunked.HeldCycles`; the same cycles as counting at once, as a multiset:
+the tests check it).
 
 The file format and every error message are those of `flexcycle.spectra.profiles.read_time_history`:
 when the fast reader meets anything it does not accept (a missing file or column, a cell
@@ -30,10 +31,9 @@ from pathlib import Path
 
 import numpy as np
 
-from .chunked import OPEN, close_count, count_chunk, hold
+from .chunked import OPEN, HeldCycles, close_count, count_chunk
 from .cycles import Cycles
 from .errors import InputError
-from .merging import merge_parts
 from .profiles import COMMENT, file_dialect, read_time_history
 from .rainflow import rainflow_cycles
 
@@ -68,7 +68,8 @@ class CountedHistory:
     Attributes
     ----------
     cycles : Cycles — the history's cycles [unit of the drive, SI]: for a kept history those of
-        `rainflow_cycles` in its order; for a longer one the same cycles with identical ones merged
+        `rainflow_cycles` in its order; for a longer one the same cycles (a multiset), identical ones
+        merged where that paid (``HeldCycles``)
     samples : int — samples read [-]
     signal : np.ndarray | None — the whole history [unit of the drive, SI], or None when it has
         more than ``keep_signal`` samples
@@ -345,7 +346,7 @@ def count_history(
     kept: list[np.ndarray] | None = []
     bins: list[tuple[np.ndarray, np.ndarray]] = []
     state = OPEN
-    parts: list[Cycles] = []
+    held = HeldCycles()
     samples = 0
     digest = hashlib.sha256()
     for values in _read_ahead(history_chunks(path, column, to_si, where, chunk_samples, progress, digest)):
@@ -361,7 +362,7 @@ def count_history(
         for chunk in pending:
             step = count_chunk(state, chunk)
             state = step.open
-            parts = hold(parts, step.full)
+            held.add(step.full)
     envelope = _envelope(bins, samples)
     name = Path(path).name
     if kept is not None:
@@ -369,5 +370,5 @@ def count_history(
         signal.flags.writeable = False
         return CountedHistory(rainflow_cycles(signal, residue), samples, signal, envelope, name, column,
                               digest.hexdigest())
-    parts.append(close_count(state, residue))
-    return CountedHistory(merge_parts(parts), samples, None, envelope, name, column, digest.hexdigest())
+    held.add(close_count(state, residue))
+    return CountedHistory(held.cycles(), samples, None, envelope, name, column, digest.hexdigest())
