@@ -23,8 +23,7 @@ from flexcycle.fatigue.damage import FACES
 from flexcycle.mechanics.energy import cycle_energy
 from flexcycle.report.figures import FIGURES
 from flexcycle.report.page import figure_svgs, report_html
-from flexcycle.spectra.cycles import Cycles
-from flexcycle.spectra.merging import merge_identical
+from flexcycle.spectra.merging import table_of
 
 if TYPE_CHECKING:  # flexcycle.sizing loads scipy.optimize (0.3 s): only `flexcycle size` needs it
     from flexcycle.sizing import SizingAnswer
@@ -33,36 +32,23 @@ MAX_CYCLE_ROWS = 20_000  # beyond this many distinct cycles, cycles.csv holds th
 BIN_RESOLUTION = 1e-4  # bin width as a fraction of the largest |drive| when binning
 
 
-def _distinct_on_grid(cycles: Cycles, width: float) -> int:
-    """How many distinct (lo, hi) the cycles have, each rounded to a multiple of ``width`` (numpy.round, as in
-    cycle_table): grid indices as one integer key, sorted (no merge needed only to count)."""
-    i_lo, i_hi = np.round(cycles.lo / width), np.round(cycles.hi / width)
-    span = i_hi.max() - i_lo.min() + 1.0
-    key = np.sort(((i_lo - i_lo.min()) * span + (i_hi - i_lo.min())).astype(np.int64))  # exact below 2⁵³
-    return int(np.count_nonzero(key[1:] != key[:-1])) + 1
-
-
 def cycle_table(result: LifeResult) -> tuple[pd.DataFrame, str]:
     """Counted drive cycles, identical ones merged; binned at scale. Returns the table and a note on its form.
 
-    At most MAX_CYCLE_ROWS rows: with more distinct cycles, min and max are rounded to a grid of width
-    BIN_RESOLUTION × the largest |drive|, the width doubled until the binned cycles fit (the note says so and
-    gives the width; the counts are kept). The note also says how the damage treated the cycles.
+    At most MAX_CYCLE_ROWS rows: with more distinct cycles, min and max are binned on a grid of width
+    BIN_RESOLUTION × the largest |drive|, the width doubled until the binned cycles fit, each extreme written at
+    the centre of its bin (``flexcycle.spectra.merging.table_of``; the note says so and gives the width; the
+    counts are kept). The note also says how the damage treated the cycles.
     """
-    cycles: Cycles = merge_identical(result.design.duty.cycles)
+    counted = result.design.duty.cycles
+    cycles, width = table_of(counted, MAX_CYCLE_ROWS, BIN_RESOLUTION)
     note = f"{cycles.lo.size} distinct cycles, identical cycles merged"
-    if cycles.lo.size > MAX_CYCLE_ROWS:
-        distinct = cycles.lo.size
-        peak = float(max(np.abs(cycles.lo).max(), np.abs(cycles.hi).max()))
-        width = BIN_RESOLUTION * peak
-        while _distinct_on_grid(cycles, width) > MAX_CYCLE_ROWS:
-            width *= 2.0
-        cycles = merge_identical(Cycles(np.round(cycles.lo / width) * width, np.round(cycles.hi / width) * width,
-                                        cycles.count))
+    if width is not None:
+        peak = float(max(np.abs(counted.lo).max(), np.abs(counted.hi).max()))
         note = (
-            f"{cycles.lo.size} binned cycles: min and max rounded to {width:.3g} (SI), "
-            f"{width / peak:.2g} of the largest drive, as the duty has {distinct} distinct cycles "
-            f"(more than {MAX_CYCLE_ROWS}); the damage uses the cycles as counted"
+            f"{cycles.lo.size} binned cycles: min and max each at the centre of its bin of {width:.3g} (SI), "
+            f"{width / peak:.2g} of the largest drive, as the duty has more than {MAX_CYCLE_ROWS} distinct "
+            "cycles; the damage uses the cycles as counted"
         )
     aggregation = getattr(result.damage, "aggregation", "each cycle")
     if aggregation == "identical cycles merged":

@@ -2,6 +2,7 @@
 from __future__ import annotations
 
 import numpy as np
+import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 from rainflow_oracle import (
@@ -64,3 +65,49 @@ def test_merging_a_merged_set_changes_nothing(rows):
 def test_merge_of_no_cycles_is_empty():
     empty = rainflow_cycles(np.array([1.0, 1.0]))
     assert merge_identical(empty).lo.size == 0
+
+
+# --- table_of: merged or binned rows, block by block ------------------------------------------------------
+
+from flexcycle.spectra import merging as merging_module  # noqa: E402
+from flexcycle.spectra.merging import table_of  # noqa: E402
+
+
+def _binned_by_definition(cycles, width):
+    """(lo, hi) -> count with each extreme at the centre of its bin floor(x / width): a plain dict."""
+    out: dict = {}
+    for lo, hi, n in zip(cycles.lo, cycles.hi, cycles.count):
+        key = ((np.floor(lo / width) + 0.5) * width, (np.floor(hi / width) + 0.5) * width)
+        out[key] = out.get(key, 0.0) + n
+    return out
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.lists(st.tuples(st.floats(-50, 50), st.floats(0, 40), st.sampled_from([0.5, 1.0, 2.0])),
+                min_size=1, max_size=300),
+       st.integers(3, 40), st.sampled_from([7, 64, 1 << 20]))
+def test_table_of_is_the_binning_by_definition(history, max_rows, block):
+    """Reference: the definition (merge_identical while the distinct cycles fit; else each extreme at the centre
+    of its bin floor(x/w), a plain dict of counts) at the width the table reports — which is the finest of the
+    doubling sequence whose binning fits (the one before it does not). Any block size gives the same table;
+    the total count is kept exactly (multiples of 0.5)."""
+    lo = np.array([a for a, _, _ in history])
+    cycles = Cycles(lo, lo + np.array([r for _, r, _ in history]), np.array([c for _, _, c in history]))
+    old = merging_module.TABLE_BLOCK
+    merging_module.TABLE_BLOCK = block
+    try:
+        table, width = table_of(cycles, max_rows, 1e-4)
+    finally:
+        merging_module.TABLE_BLOCK = old
+    assert table.lo.size <= max_rows and table.n_total == cycles.n_total
+    distinct = merge_identical(cycles)
+    if width is None:
+        assert as_dict(table) == as_dict(distinct)
+        return
+    assert distinct.lo.size > max_rows
+    got = {k: v for k, v in zip(zip(table.lo, table.hi), table.count)}
+    want = _binned_by_definition(cycles, width)
+    assert set(got) == set(want) and all(got[k] == pytest.approx(want[k]) for k in want)
+    peak = max(np.abs(cycles.lo).max(), np.abs(cycles.hi).max())
+    if width > 1e-4 * peak * 1.5:  # not the finest width: half of it would not fit
+        assert len(_binned_by_definition(cycles, width / 2)) > max_rows

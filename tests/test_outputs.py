@@ -343,5 +343,5 @@ def test_cycles_csv_at_scale_holds_at_most_max_rows_and_says_binned(monkeypatch)
     table, note = outputs.cycle_table(result)
     assert len(table) <= 100
     assert float(table["count"].sum()) == result.design.duty.cycles.n_total
-    assert "binned cycles" in note and "rounded to" in note
+    assert "binned cycles" in note and "at the centre of its bin of" in note
     assert (table["max"] >= table["min"]).all()
