@@ -21,9 +21,10 @@ from flexcycle.fatigue.curves import DATA_CYCLES_MAX
 from flexcycle.fatigue.damage import (
     FACES,
     DamageResult,
+    LifeShares,
     Locations,
     build_models,
-    cycle_lives,
+    life_shares,
     miner_damage,
     worst_damage,
 )
@@ -215,7 +216,7 @@ def estimate(design: Design, compare_theories: bool = True) -> LifeResult:
     at_survival = materials_at_survival(design.materials.values(), design.survival)
     models = build_models(list(at_survival.materials), design.mean_stress)
     locations = mapped_locations(mapping, models, dominant_drive)
-    damage = worst_damage(locations, cycles, force_per_drive, design.stress_factor)
+    damage = worst_damage(locations, cycles, force_per_drive, design.stress_factor, DATA_CYCLES_MAX)
     static, static_notes = static_check(design, response, force_per_drive,
                                         mapping.fields if mapping.large else None)
 
@@ -251,8 +252,13 @@ def estimate(design: Design, compare_theories: bool = True) -> LifeResult:
             k = int(np.argmax(np.where(locations.model >= 0, damage.utilisation, -np.inf)))
         else:
             k = damage.largest()
-            warnings += _extrapolation_notes(locations, k, cycles, force_per_drive, design.stress_factor)
-        warnings += _below_limit_notes(locations, k, cycles, force_per_drive, design.stress_factor)
+        if damage.damage_past is not None and damage.exact[k]:  # from the pass that found the life
+            shares = LifeShares(float(damage.damage[k]), float(damage.damage_past[k]), float(damage.below_limit[k]))
+        else:
+            shares = life_shares(locations, k, cycles, force_per_drive, design.stress_factor, DATA_CYCLES_MAX)
+        if not (fatigue_failure or unbounded):
+            warnings += _extrapolation_notes(shares)
+        warnings += _below_limit_notes(locations, k, shares, cycles)
         critical = Critical(
             x_m=float(response.x[locations.station[k]]),
             ply=int(locations.ply[k]) + 1,
@@ -401,15 +407,11 @@ def _largest_cycle(cycles) -> int:
 EXTRAPOLATED_SHARE = 0.1  # warn when more than this share of the critical damage is read past the data
 
 
-def _extrapolation_notes(locations: Locations, k: int, cycles, force_per_drive: float, stress_factor: float
-                         ) -> list[str]:
+def _extrapolation_notes(shares: LifeShares) -> list[str]:
     """A warning when much of the critical location's damage comes from lives beyond typical test data."""
-    N = cycle_lives(locations, k, cycles, force_per_drive, stress_factor)
-    d = np.where(np.isfinite(N) & (N > 0), cycles.count / np.where(N > 0, N, 1.0), 0.0)
-    total = float(d.sum())
-    if total <= 0:
+    if shares.damage <= 0:
         return []
-    share = float(d[N > DATA_CYCLES_MAX].sum()) / total
+    share = shares.damage_past / shares.damage
     if share <= EXTRAPOLATED_SHARE:
         return []
     return [
@@ -419,15 +421,10 @@ def _extrapolation_notes(locations: Locations, k: int, cycles, force_per_drive: 
     ]
 
 
-def _below_limit_notes(locations: Locations, k: int, cycles, force_per_drive: float, stress_factor: float
-                       ) -> list[str]:
+def _below_limit_notes(locations: Locations, k: int, shares: LifeShares, cycles) -> list[str]:
     """A warning naming how many cycles per block the fatigue limit leaves out at the critical location."""
     m = int(locations.model[k])
-    if m < 0 or not any(c.limit for c in locations.models[m].curves):
+    if m < 0 or not any(c.limit for c in locations.models[m].curves) or shares.below_limit == 0.0:
         return []
-    N = cycle_lives(locations, k, cycles, force_per_drive, stress_factor)
-    ignored = float(cycles.count[np.isinf(N) & (cycles.hi > cycles.lo)].sum())
-    if ignored == 0.0:
-        return []
-    return [f"{ignored:g} of {float(cycles.n_total):g} cycles per block are below the fatigue limit at the critical "
-            "location and ignored (no damage counted for them)"]
+    return [f"{shares.below_limit:g} of {float(cycles.n_total):g} cycles per block are below the fatigue limit at "
+            "the critical location and ignored (no damage counted for them)"]

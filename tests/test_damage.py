@@ -334,3 +334,32 @@ def test_worst_pass_with_its_tops_bracketed(monkeypatch, seed):
     assert worst.largest() == k and worst.exact[k]
     assert worst.damage[k] == pytest.approx(exact.damage[k], rel=1e-12)
     assert np.all(exact.damage <= worst.damage * (1 + 1e-12))
+
+
+@pytest.mark.parametrize("seed, top_pairs", [(7, None), (8, 1)])
+def test_worst_pass_gives_the_critical_shares_of_a_cycle_by_cycle_sum(monkeypatch, seed, top_pairs):
+    """The damage from lives past N and the cycles below the fatigue limit, summed in the worst pass (with its
+    tops evaluated directly, and bracketed), equal the same sums over the critical location's cycle lives
+    (life_shares over cycle_lives, block by block), rel 1e-12. Every curve is given a fatigue limit at 0.4 of
+    the largest local amplitude among its locations, which leaves some cycles below it; N at the median life
+    of the critical location's cycles splits its damage."""
+    resp, locs = _example_locations()
+    cycles = rainflow_cycles(_ride(4_000, seed))
+    fpd = 1.0 / resp.compliance
+    first = worst_damage(locs, cycles, fpd, 1.0)
+    models = tuple(dataclasses.replace(model, curves=tuple(
+        dataclasses.replace(c, limit=0.4 * first.amplitude[locs.model == m].max()) for c in model.curves))
+        for m, model in enumerate(locs.models))
+    locs = dataclasses.replace(locs, models=models)
+    k0 = worst_damage(locs, cycles, fpd, 1.0).largest()
+    lives = damage_module.cycle_lives(locs, k0, cycles, fpd, 1.0)
+    past = float(np.median(lives[np.isfinite(lives)]))
+    if top_pairs is not None:
+        monkeypatch.setattr(damage_module, "TOP_PAIRS", top_pairs)
+    worst = worst_damage(locs, cycles, fpd, 1.0, past=past)
+    k = worst.largest()
+    reference = damage_module.life_shares(locs, k, cycles, fpd, 1.0, past)
+    assert worst.damage[k] == pytest.approx(reference.damage, rel=1e-12)
+    assert worst.damage_past[k] == pytest.approx(reference.damage_past, rel=1e-12, abs=1e-300)
+    assert worst.below_limit[k] == reference.below_limit
+    assert 0 < reference.damage_past < reference.damage and reference.below_limit > 0

@@ -43,6 +43,7 @@ CHUNK = 32_768  # local (location × cycle) pairs evaluated at once: 256 kB temp
 EXACT_PAIRS = 20_000_000  # location × cycle pairs evaluated one by one; beyond, cycles are aggregated
 BRACKET_LEVELS = 256  # drive levels across the duty's span for the bracketing grid (aggregation at scale)
 BRACKET_RULES = ("goodman", "gerber", "none")  # rules whose lives fall when a local cycle's interval grows
+WIDEN_BLOCK = 1 << 20  # cycles widened at once (``_widened``)
 TOP_PAIRS = 200_000  # the worst pass: beyond this many top × cycle pairs the tops are bounded first (bracketed)
 TOP_LEVELS = 64  # ... on a grid of this many drive levels (coarse: only the tops whose bound reaches D* count)
 
@@ -295,6 +296,9 @@ class DamageResult:
         ``miner_damage``; the tops of ``worst_damage``)
         shape (k,) bool: elsewhere ``damage`` is an upper bound of the damage per block
     aggregation : str — how the cycles were evaluated: "each cycle", "identical cycles merged" or "bracketed"
+    damage_past : np.ndarray | None — where evaluated exactly (``worst_damage`` with ``past``): the part of the
+        damage from cycles whose lives lie past that many cycles, shape (k,) [-]
+    below_limit : np.ndarray | None — there, the cycles per block below the fatigue limit, shape (k,) [-]
     """
 
     damage: np.ndarray
@@ -304,6 +308,8 @@ class DamageResult:
     utilisation: np.ndarray
     exact: np.ndarray | None = None
     aggregation: str = "each cycle"
+    damage_past: np.ndarray | None = None
+    below_limit: np.ndarray | None = None
 
     def largest(self) -> int:
         """Index of the largest damage evaluated exactly (of equals, the lowest index)."""
@@ -344,13 +350,17 @@ def miner_damage(locations: Locations, cycles: Cycles, force_per_drive: float, s
     """
     local_map = _LocalMap(locations, force_per_drive, stress_factor)
     amp, mean, utilisation, rows = _extremes(local_map, cycles)
-    damage, failed, exact, aggregation = _evaluate(local_map, rows, cycles)
+    damage, failed, exact, aggregation, _ = _evaluate(local_map, rows, cycles)
     return DamageResult(damage, failed, amp, mean, utilisation, exact, aggregation)
 
 
-def worst_damage(locations: Locations, cycles: Cycles, force_per_drive: float, stress_factor: float) -> DamageResult:
+def worst_damage(locations: Locations, cycles: Cycles, force_per_drive: float, stress_factor: float,
+                 past: float | None = None) -> DamageResult:
     """The largest damage per block, exact, with an upper bound of the damage everywhere else (arguments as
     ``miner_damage``); what the life needs, without evaluating every location.
+
+    past : float | None — also give, where evaluated exactly, the damage from lives past this many cycles and
+        the cycles below the fatigue limit (``DamageResult.damage_past``, ``below_limit``), from the same pass
 
     Notes
     -----
@@ -378,14 +388,16 @@ def worst_damage(locations: Locations, cycles: Cycles, force_per_drive: float, s
     tops = rows[order[first]]
     top_of = np.empty(rows.size, int)
     top_of[order] = np.cumsum(first) - 1  # each row's group, numbered as the tops
-    damage, failed, exact, aggregation = _evaluate(local_map, np.sort(tops), cycles, TOP_LEVELS, TOP_PAIRS)
+    damage, failed, exact, aggregation, shares = _evaluate(local_map, np.sort(tops), cycles, TOP_LEVELS, TOP_PAIRS,
+                                                           past)
     if failed.any():
         return miner_damage(locations, cycles, force_per_drive, stress_factor)
     evaluated = np.zeros(damage.size, bool)
     evaluated[tops] = True if exact is None else exact[tops]
     bound = damage[tops][top_of]
     damage[rows] = np.where(evaluated[rows], damage[rows], bound)
-    return DamageResult(damage, failed, amp, mean, utilisation, evaluated, aggregation)
+    past_share, below = (None, None) if shares is None else shares
+    return DamageResult(damage, failed, amp, mean, utilisation, evaluated, aggregation, past_share, below)
 
 
 class _LocalMap:
@@ -466,37 +478,39 @@ def _extremes(local_map: _LocalMap, cycles: Cycles) -> tuple[np.ndarray, np.ndar
 
 
 def _evaluate(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles, levels: int = BRACKET_LEVELS,
-              exact_pairs: int | None = None) -> tuple[np.ndarray, np.ndarray, np.ndarray | None, str]:
-    """Damage, static-failure flags, the exact mask (None: exact everywhere) and the aggregation at ``rows``:
-    every cycle; or beyond ``exact_pairs`` (default EXACT_PAIRS) location × cycle pairs, bracketed on a grid of
-    ``levels`` drive levels (the Notes of ``miner_damage``), or identical cycles merged where the bracket does
-    not hold (a "cld" rule)."""
+              exact_pairs: int | None = None, past: float | None = None):
+    """Damage, static-failure flags, the exact mask (None: exact everywhere), the aggregation and the shares
+    (``_damage``'s third value, at the locations evaluated exactly) at ``rows``: every cycle; or beyond
+    ``exact_pairs`` (default EXACT_PAIRS) location × cycle pairs, bracketed on a grid of ``levels`` drive levels
+    (the Notes of ``miner_damage``), or identical cycles merged where the bracket does not hold ("cld")."""
     locations = local_map.locations
     nc = cycles.lo.size
     limit = EXACT_PAIRS if exact_pairs is None else exact_pairs
     if nc == 0 or rows.size * nc <= limit:
-        damage, failed = _damage(local_map, rows, cycles)
-        return damage, failed, None, "each cycle"
+        damage, failed, shares = _damage(local_map, rows, cycles, past)
+        return damage, failed, None, "each cycle", shares
     bracket = cycles.hi.max() > cycles.lo.min() and all(
         locations.models[m].rule in BRACKET_RULES for m in np.unique(locations.model[rows]))
     if not bracket:
-        damage, failed = _damage(local_map, rows, merge_identical(cycles))
-        return damage, failed, None, "identical cycles merged"
-    upper, failed_wide = _damage(local_map, rows, _widened(cycles, levels))
+        damage, failed, shares = _damage(local_map, rows, merge_identical(cycles), past)
+        return damage, failed, None, "identical cycles merged", shares
+    upper, failed_wide, _ = _damage(local_map, rows, _widened(cycles, levels))
     top = rows[[int(np.argmax(upper[rows]))]]
     exact_cycles = cycles if nc <= EXACT_PAIRS else merge_identical(cycles)  # one location: every cycle fits
-    damage_top, failed_top = _damage(local_map, top, exact_cycles)
+    damage_top, failed_top, shares_top = _damage(local_map, top, exact_cycles, past)
     reached = damage_top[top[0]]  # D* <= the largest damage of all
     exact = rows[(upper[rows] >= reached) | failed_wide[rows]]
     rest = exact[exact != top[0]]  # the top location is evaluated already
     if rest.size * exact_cycles.lo.size > EXACT_PAIRS and exact_cycles is cycles:
         exact_cycles = merge_identical(cycles)
-    damage_exact, failed = _damage(local_map, rest, exact_cycles)
+    damage_exact, failed, shares = _damage(local_map, rest, exact_cycles, past)
     damage_exact[top], failed[top] = damage_top[top], failed_top[top]
+    if shares is not None:
+        shares[0][top], shares[1][top] = shares_top[0][top], shares_top[1][top]
     upper[exact] = damage_exact[exact]
     evaluated = np.zeros(upper.size, bool)
     evaluated[exact] = True
-    return upper, failed, evaluated, "bracketed"
+    return upper, failed, evaluated, "bracketed", shares
 
 
 def _widened(cycles: Cycles, levels: int = BRACKET_LEVELS) -> Cycles:
@@ -508,29 +522,71 @@ def _widened(cycles: Cycles, levels: int = BRACKET_LEVELS) -> Cycles:
     base, top = float(cycles.lo.min()), float(cycles.hi.max())
     step = (top - base) / levels
     grid = lambda i: np.minimum(base + i * step, top)  # noqa: E731 — level i of the grid [drive unit]
-    # the level at or below lo and at or above hi (checked against the drive itself: no round-off inside)
-    i_lo = np.floor((cycles.lo - base) / step)
-    i_lo -= grid(i_lo) > cycles.lo
-    i_hi = np.ceil((cycles.hi - base) / step)
-    i_hi += grid(i_hi) < cycles.hi
     side = levels + 2  # indices 0 … levels + 1 (round-off may put the top one level past ``levels``)
-    code = i_lo.astype(np.int64) * side + i_hi.astype(np.int64)
-    count = np.bincount(code, weights=cycles.count, minlength=side * side)
+    count = np.zeros(side * side)
+    for start in range(0, cycles.lo.size, WIDEN_BLOCK):  # blocks: temporaries of a few MB at any size
+        lo, hi = cycles.lo[start:start + WIDEN_BLOCK], cycles.hi[start:start + WIDEN_BLOCK]
+        # the level at or below lo and at or above hi (checked against the drive itself: no round-off inside)
+        i_lo = np.floor((lo - base) / step)
+        i_lo -= grid(i_lo) > lo
+        i_hi = np.ceil((hi - base) / step)
+        i_hi += grid(i_hi) < hi
+        code = i_lo.astype(np.int64) * side + i_hi.astype(np.int64)
+        count += np.bincount(code, weights=cycles.count[start:start + WIDEN_BLOCK], minlength=side * side)
     held = np.flatnonzero(count)
     return Cycles(grid(held // side), grid(held % side), count[held])
 
 
-def _damage(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles) -> tuple[np.ndarray, np.ndarray]:
-    """Miner damage and static-failure flags at the locations ``rows`` (others 0 and False), cycle by cycle."""
+def _damage(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles, past: float | None = None):
+    """Miner damage and static-failure flags at the locations ``rows`` (others 0 and False), cycle by cycle.
+
+    past : float | None — also sum, per location, the damage of cycles whose lives lie past this many cycles
+        and the cycles below the fatigue limit (an infinite life, a range above zero): returned as a third
+        value (two arrays), or None
+    """
     locations, keys = local_map.locations, local_map.keys
     prepare, values = local_map.prepare, local_map.values
     k = locations.response.size
     damage = np.zeros(k)
     failed = np.zeros(k, bool)
+    shares = None if past is None else (np.zeros(k), np.zeros(k))
     dlo, dhi, count = cycles.lo, cycles.hi, cycles.count
     nc = dlo.size
     if nc == 0 or rows.size == 0:
-        return damage, failed
+        return damage, failed, shares
+    groups = []
+    for m, model in enumerate(locations.models):
+        mine = rows[locations.model[rows] == m]
+        if not mine.size:
+            continue
+        # equal map, equal damage: one location of each
+        _, first, back = np.unique(keys[mine], axis=0, return_index=True, return_inverse=True)
+        groups.append((model, mine, mine[first], back.reshape(-1)))
+    sums = [np.zeros((3, unique.size)) for _, _, unique, _ in groups]  # damage, damage past, below the limit
+    flags = [np.zeros(unique.size, bool) for _, _, unique, _ in groups]
+    cycles_at_once = min(nc, CHUNK)
+    for c0 in range(0, nc, cycles_at_once):
+        c = slice(c0, c0 + cycles_at_once)
+        at_lo, at_hi = prepare(dlo[c], rows), prepare(dhi[c], rows)
+        for (model, _, unique, _), d, f in zip(groups, sums, flags):
+            rows_at_once = max(1, CHUNK // nc)
+            for r0 in range(0, unique.size, rows_at_once):
+                some = unique[r0 : r0 + rows_at_once]
+                a, b = values(some, at_lo), values(some, at_hi)
+                N = model.cycles_to_failure(np.minimum(a, b), np.maximum(a, b))
+                zero = N <= 0
+                f[r0 : r0 + rows_at_once] |= zero.any(axis=1)
+                each = count[None, c] / np.where(zero, FIRST_LOAD_FAILURE, N)
+                d[0, r0 : r0 + rows_at_once] += each.sum(axis=1)
+                if past is not None:
+                    d[1, r0 : r0 + rows_at_once] += np.where(N > past, each, 0.0).sum(axis=1)
+                    d[2, r0 : r0 + rows_at_once] += np.where(np.isinf(N) & (a != b), count[None, c], 0.0).sum(axis=1)
+    for (_, mine, _, back), d, f in zip(groups, sums, flags):
+        damage[mine] = d[0, back]
+        failed[mine] = f[back]
+        if shares is not None:
+            shares[0][mine], shares[1][mine] = d[1, back], d[2, back]
+    return damage, failed, shares
     groups = []
     for m, model in enumerate(locations.models):
         mine = rows[locations.model[rows] == m]
@@ -572,3 +628,35 @@ def cycle_lives(locations: Locations, k: int, cycles: Cycles, force_per_drive: f
     a = locations.local(np.array([k]), cycles.lo, force_per_drive, stress_factor)[0]
     b = locations.local(np.array([k]), cycles.hi, force_per_drive, stress_factor)[0]
     return locations.models[m].cycles_to_failure(np.minimum(a, b), np.maximum(a, b))
+
+
+@dataclass(frozen=True)
+class LifeShares:
+    """What the cycles do at one location, summed over the duty (``life_shares``).
+
+    damage : float — Miner damage per block (cycles past the static strength at N = FIRST_LOAD_FAILURE) [-]
+    damage_past : float — the part of it from cycles whose lives lie past the given number of cycles [-]
+    below_limit : float — cycles per block below the fatigue limit there (infinite life, a range above zero) [-]
+    """
+
+    damage: float
+    damage_past: float
+    below_limit: float
+
+
+def life_shares(locations: Locations, k: int, cycles: Cycles, force_per_drive: float, stress_factor: float,
+                past: float) -> LifeShares:
+    """The damage at location ``k``, the part from lives past ``past`` cycles and the cycles below the fatigue
+    limit, summed over the cycles block by block (WIDEN_BLOCK at a time: the temporaries of a few MB whatever
+    the number of cycles, where ``cycle_lives`` holds a life per cycle)."""
+    damage = damage_past = below = 0.0
+    for start in range(0, cycles.lo.size, WIDEN_BLOCK):
+        part = slice(start, start + WIDEN_BLOCK)
+        block = Cycles(cycles.lo[part], cycles.hi[part], cycles.count[part])
+        N = cycle_lives(locations, k, block, force_per_drive, stress_factor)
+        finite = np.isfinite(N) & (N > 0)
+        d = np.where(finite, block.count / np.where(finite, N, 1.0), 0.0)
+        damage += float(d.sum())
+        damage_past += float(d[N > past].sum())
+        below += float(block.count[np.isinf(N) & (block.hi > block.lo)].sum())
+    return LifeShares(damage, damage_past, below)
