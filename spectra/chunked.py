@@ -14,7 +14,7 @@ import numpy as np
 
 from .cycles import Cycles
 from .errors import InputError
-from .merging import join_parts, merge_parts
+from .merging import merge_identical
 from .rainflow import RESIDUE_MODES, rainflow_cycles, take_full_cycles
 from .reversals import as_signal
 
@@ -144,42 +144,66 @@ def rainflow_chunks(
 
 
 MERGE_EVERY = 4_000_000  # new cycles held (about 100 MB) before they are merged with those held before
-MERGE_PAYS = 0.5  # a merge that keeps more than this share of its rows is the last: the cycles are distinct
+MERGE_PAYS = 0.5  # a chunk whose merge keeps more than this share of its rows ends merging: the cycles are distinct
+CAPACITY_CAP = 1 << 27  # rows a holder allocates at most at first (1 GB per column, virtual until written)
 
 
 class HeldCycles:
-    """The closed cycles of a history counted chunk by chunk.
+    """The closed cycles of a history counted chunk by chunk, held in three columns that grow in place.
 
     Every MERGE_EVERY new rows the cycles held are merged (identical ones summed: exact), which bounds the memory
-    of a history that repeats its cycles (a signal of coarse resolution). A merge that keeps more than
-    MERGE_PAYS of its rows shows cycles that are mostly distinct (noise read at fine resolution); merging then
-    stops, for each later merge would sort the whole set again for little gain (about 1 s per 10⁷ rows), and
-    the memory grows with the cycles, 24 bytes each.
+    of a history that repeats its cycles (a signal of coarse resolution) — if the newest chunk's cycles, merged
+    alone, keep at most MERGE_PAYS of their rows. Otherwise the cycles are mostly distinct (noise read at fine
+    resolution) and merging stops: it would sort millions of rows for little gain. The columns are allocated
+    once at ``capacity`` rows (an upper bound known from the file's size: only the rows written take memory)
+    and doubled if a history outgrows them; the cycles handed out are views of them, not copies, for at this
+    scale each fresh copy costs as much time as counting (every page of it is touched anew).
     """
 
-    def __init__(self) -> None:
-        self._parts: list[Cycles] = []
+    def __init__(self, capacity: int = 0) -> None:
+        self._columns = [np.empty(capacity) for _ in range(3)]  # lo, hi, count
+        self._size = 0
         self._new = 0
         self.merged = False  # merged at least once
         self.merging = True  # merging still pays
 
     def add(self, full: Cycles) -> None:
         """Hold a chunk's full cycles."""
-        if not full.lo.size:
+        n = full.lo.size
+        if not n:
             return
-        self._parts.append(full)
-        self._new += full.lo.size
-        if self.merging and self._new > MERGE_EVERY and len(self._parts) > 1:
-            rows = sum(p.lo.size for p in self._parts)
-            self._parts = [merge_parts(self._parts)]
+        self._reserve(self._size + n)
+        for column, values in zip(self._columns, (full.lo, full.hi, full.count)):
+            column[self._size:self._size + n] = values
+        self._size += n
+        self._new += n
+        if self.merging and self._new > MERGE_EVERY:
+            if merge_identical(full).lo.size > MERGE_PAYS * n:  # the newest chunk alone: does merging pay?
+                self.merging = False
+                return
+            merged = merge_identical(self._view())
+            self._size = 0
             self._new = 0
             self.merged = True
-            self.merging = self._parts[0].lo.size <= MERGE_PAYS * rows
+            self.add(merged)
+            self._new = 0
+
+    def _reserve(self, rows: int) -> None:
+        if rows > self._columns[0].size:
+            grown = [np.empty(max(rows, 2 * column.size)) for column in self._columns]
+            for new, old in zip(grown, self._columns):
+                new[:self._size] = old[:self._size]
+            self._columns = grown
+
+    def _view(self) -> Cycles:
+        columns = [column[:self._size] for column in self._columns]
+        for column in columns:
+            column.flags.writeable = False  # the view, read-only: Cycles takes it without a copy
+        return Cycles(*columns)
 
     def cycles(self, merge: bool = False) -> Cycles:
-        """Every cycle held (the holder is emptied): merged if ``merge`` or if merging has paid so far, else
-        joined in the order counted (the same cycles: a multiset)."""
-        parts, self._parts = self._parts, []
+        """Every cycle held: merged if ``merge`` or if merging has paid so far, else in the order counted (the same
+        cycles: a multiset). The holder must not be added to afterwards (its columns are handed out)."""
         if merge or (self.merged and self.merging):
-            return merge_parts(parts)
-        return join_parts(parts)
+            return merge_identical(self._view())
+        return self._view()

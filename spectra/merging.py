@@ -90,6 +90,7 @@ def join_parts(parts: list[Cycles]) -> Cycles:
 
 
 TABLE_BLOCK = 1 << 20  # cycles taken at once by ``table_of``
+DENSE_CELLS = 1 << 22  # a grid of at most this many bin pairs is counted densely (32 MB of counts)
 _SHIFT = 1 << 24  # grid indices are kept as i + _SHIFT in 25 bits each of one int64 key (|i| < 2^24)
 
 
@@ -113,7 +114,10 @@ def table_of(cycles: Cycles, max_rows: int, resolution: float) -> tuple[Cycles, 
     starts at ``resolution`` × the largest |drive| and doubles until the rows fit. Bins of width 2w are pairs
     of bins of width w (⌊⌊x/w⌋/2⌋ = ⌊x/2w⌋), so a table already binned is coarsened without the cycles: the
     cycles are read in blocks of TABLE_BLOCK, merged into the table (exactly while the distinct cycles fit),
-    and the memory stays that of one block whatever the number of cycles. The counts are kept.
+    and the memory stays that of one block whatever the number of cycles; once the grid is coarse, a block
+    is counted on it densely (linear time, no sort). A grid finer than the finest dense one is skipped when
+    one block's cycles on that dense grid already take more rows than allowed (every finer grid then holds
+    more: its bins are parts of the dense grid's). The counts are kept.
     """
     # the bin indices must fit their 25 bits; bins never straddle zero, so three rows always suffice
     if not (max_rows >= 3 and 2.0**-22 <= resolution):
@@ -139,7 +143,13 @@ def table_of(cycles: Cycles, max_rows: int, resolution: float) -> tuple[Cycles, 
             else:
                 block = join_parts([exact, block])
             exact = None  # too many distinct cycles: binned from here on
-        keys, counts = _summed(np.concatenate([keys, _keys(block, width)]), np.concatenate([counts, block.count]))
+            coarse = width  # the finest width of the sequence whose grid is counted densely
+            while (2 * peak / coarse + 4) ** 2 > DENSE_CELLS:
+                coarse *= 2.0
+            if _binned(block, coarse, peak)[0].size > max_rows:  # then every finer grid holds more rows too
+                width = coarse
+        block_keys, block_counts = _binned(block, width, peak)
+        keys, counts = _summed(np.concatenate([keys, block_keys]), np.concatenate([counts, block_counts]))
         while keys.size > max_rows:
             i_lo, i_hi = _indices(keys)
             keys, counts = _summed(_key(i_lo >> 1, i_hi >> 1), counts)  # floor(i / 2): the bins of width 2w
@@ -158,9 +168,17 @@ def _indices(keys: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return (keys >> 25) - _SHIFT, (keys & ((1 << 25) - 1)) - _SHIFT
 
 
-def _keys(cycles: Cycles, width: float) -> np.ndarray:
-    """Each cycle's pair of bins on the grid of ``width`` as one integer."""
-    return _key(np.floor(cycles.lo / width).astype(np.int64), np.floor(cycles.hi / width).astype(np.int64))
+def _binned(cycles: Cycles, width: float, peak: float) -> tuple[np.ndarray, np.ndarray]:
+    """The cycles' distinct bin pairs on the grid of ``width`` as keys, ascending, and their counts: counted on a
+    dense grid (``numpy.bincount``, linear) when it has at most DENSE_CELLS cells, else sorted (``_summed``)."""
+    i_lo, i_hi = np.floor(cycles.lo / width).astype(np.int64), np.floor(cycles.hi / width).astype(np.int64)
+    first = int(np.floor(-peak / width)) - 1  # every index lies in first … first + side - 1
+    side = int(np.floor(peak / width)) + 2 - first
+    if side * side > DENSE_CELLS:
+        return _summed(_key(i_lo, i_hi), cycles.count)
+    dense = np.bincount((i_lo - first) * side + (i_hi - first), weights=cycles.count, minlength=side * side)
+    cells = np.flatnonzero(dense)
+    return _key(cells // side + first, cells % side + first), dense[cells]
 
 
 def _summed(keys: np.ndarray, counts: np.ndarray) -> tuple[np.ndarray, np.ndarray]:

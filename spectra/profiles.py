@@ -243,7 +243,10 @@ def read_time_history(path: Path, column: str, to_si: float, where: str) -> Time
     if dialect.decimal != ".":
         cells = cells.str.replace(dialect.decimal, ".", regex=False)
 
-    values = pd.to_numeric(cells, errors="coerce").to_numpy(dtype=float)
+    try:  # Python's float() on each cell: correctly rounded (pandas' own converter may miss by a few ulps)
+        values = cells.to_numpy(dtype=object).astype(np.float64)
+    except ValueError:  # a cell that is not a number: found below, with its line
+        values = pd.to_numeric(cells, errors="coerce").to_numpy(dtype=float)
     bad = np.flatnonzero(~np.isfinite(values))
     if bad.size:
         k = int(bad[0])

@@ -62,26 +62,26 @@ def test_rainflow_chunks_reports_progress_in_samples():
 
 
 def test_held_cycles_stop_merging_when_it_does_not_pay(monkeypatch):
-    """HeldCycles (MERGE_EVERY lowered to 10 rows): cycles that repeat are merged as they come (the rows held stay
-    at the distinct ones); distinct cycles end merging after the first merge that keeps more than MERGE_PAYS of
-    its rows. Either way the cycles are the multiset added (a plain dict of counts, rainflow_oracle)."""
+    """HeldCycles (MERGE_EVERY lowered to 10 rows, no capacity: the columns grow): cycles that repeat are merged
+    as they come (the rows held stay at the distinct ones); distinct cycles are never merged, for the newest
+    chunk alone keeps more than MERGE_PAYS of its rows. Either way the cycles are the multiset added (a plain
+    dict of counts, rainflow_oracle)."""
     from flexcycle.spectra import chunked as chunked_module
     from flexcycle.spectra.chunked import HeldCycles
     from flexcycle.spectra.cycles import Cycles
 
     monkeypatch.setattr(chunked_module, "MERGE_EVERY", 10)
-    repeating, distinct = HeldCycles(), HeldCycles()
+    repeating, distinct = HeldCycles(), HeldCycles(capacity=7)
     added: dict = {}
     for k in range(20):
-        same = Cycles(np.array([0.0, 1.0, 0.0]), np.array([2.0, 3.0, 2.0]), np.ones(3))
-        repeating.add(same)
+        repeating.add(Cycles(np.array([0.0, 0.0, 0.0, 1.0]), np.array([2.0, 2.0, 2.0, 3.0]), np.ones(4)))
         fresh = Cycles(np.arange(4.0) + 10 * k, np.arange(4.0) + 10 * k + 5, np.ones(4))
         distinct.add(fresh)
         for lo, hi in zip(fresh.lo, fresh.hi):
             added[(lo, hi)] = added.get((lo, hi), 0.0) + 1.0
     assert repeating.merging and repeating.merged
-    assert not distinct.merging and distinct.merged  # merged once (12 rows kept 12 > 0.5 × 12), then no more
+    assert not distinct.merging and not distinct.merged
     merged = repeating.cycles()
-    assert as_dict(merged) == {(0.0, 2.0): 40.0, (1.0, 3.0): 20.0} and merged.lo.size == 2
+    assert as_dict(merged) == {(0.0, 2.0): 60.0, (1.0, 3.0): 20.0} and merged.lo.size == 2
     joined = distinct.cycles()
     assert joined.lo.size == 80 and as_dict(joined) == added

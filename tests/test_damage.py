@@ -363,3 +363,22 @@ def test_worst_pass_gives_the_critical_shares_of_a_cycle_by_cycle_sum(monkeypatc
     assert worst.damage_past[k] == pytest.approx(reference.damage_past, rel=1e-12, abs=1e-300)
     assert worst.below_limit[k] == reference.below_limit
     assert 0 < reference.damage_past < reference.damage and reference.below_limit > 0
+
+
+def test_refined_bounds_keep_the_largest_damage(monkeypatch):
+    """Reference: every location cycle by cycle (miner_damage). Forced to bracket (EXACT_PAIRS = 1) and to bound
+    the rows left once more on the finer grid (REFINE_PAIRS = 0): the largest damage and its location are the
+    exact ones, the bounds stay above the damage, and fewer or as many rows are evaluated as without it."""
+    resp, locs = _example_locations()
+    cycles = rainflow_cycles(_ride(20_000, 9))
+    fpd = 1.0 / resp.compliance
+    exact = miner_damage(locs, cycles, fpd, 1.0)
+    monkeypatch.setattr(damage_module, "EXACT_PAIRS", 1)
+    plain = miner_damage(locs, cycles, fpd, 1.0)
+    monkeypatch.setattr(damage_module, "REFINE_PAIRS", 0)
+    refined = miner_damage(locs, cycles, fpd, 1.0)
+    k = int(np.argmax(exact.damage))
+    assert refined.largest() == k and refined.damage[k] == pytest.approx(exact.damage[k], rel=1e-12)
+    assert np.all(exact.damage <= refined.damage * (1 + 1e-12))
+    assert refined.exact.sum() <= plain.exact.sum()
+    np.testing.assert_array_equal(refined.static_failure, exact.static_failure)

@@ -85,20 +85,20 @@ def _binned_by_definition(cycles, width):
 @settings(max_examples=60, deadline=None)
 @given(st.lists(st.tuples(st.floats(-50, 50), st.floats(0, 40), st.sampled_from([0.5, 1.0, 2.0])),
                 min_size=1, max_size=300),
-       st.integers(3, 40), st.sampled_from([7, 64, 1 << 20]))
-def test_table_of_is_the_binning_by_definition(history, max_rows, block):
+       st.integers(3, 40), st.sampled_from([7, 64, 1 << 20]), st.sampled_from([0, 1 << 22]))
+def test_table_of_is_the_binning_by_definition(history, max_rows, block, dense):
     """Reference: the definition (merge_identical while the distinct cycles fit; else each extreme at the centre
     of its bin floor(x/w), a plain dict of counts) at the width the table reports — which is the finest of the
-    doubling sequence whose binning fits (the one before it does not). Any block size gives the same table;
-    the total count is kept exactly (multiples of 0.5)."""
+    doubling sequence whose binning fits (the one before it does not). Any block size gives the same table,
+    counted by sorting or on a dense grid; the total count is kept exactly (multiples of 0.5)."""
     lo = np.array([a for a, _, _ in history])
     cycles = Cycles(lo, lo + np.array([r for _, r, _ in history]), np.array([c for _, _, c in history]))
-    old = merging_module.TABLE_BLOCK
-    merging_module.TABLE_BLOCK = block
+    old = merging_module.TABLE_BLOCK, merging_module.DENSE_CELLS
+    merging_module.TABLE_BLOCK, merging_module.DENSE_CELLS = block, dense
     try:
         table, width = table_of(cycles, max_rows, 1e-4)
     finally:
-        merging_module.TABLE_BLOCK = old
+        merging_module.TABLE_BLOCK, merging_module.DENSE_CELLS = old
     assert table.lo.size <= max_rows and table.n_total == cycles.n_total
     distinct = merge_identical(cycles)
     if width is None:

@@ -46,6 +46,11 @@ BAD_FILES = {
     "no header": "# nothing but comments\n\n",
     "twice": "time_s,deflection_mm,deflection_mm\n0,1,2\n1,2,3\n",
     "wrong column": "time_s,deflection\n0,1.0\n1,2.0\n",
+    # without a '#': read by Arrow's reader (the others with a comment by pandas')
+    "short row, no comment": "time_s,deflection_mm\n0,1.0\n0.1,2.0\n0.2\n",
+    "extra fields, no comment": "time_s,deflection_mm\n0,1.0\n0.1,2.0,7\n",
+    "non-numeric, no comment": "time_s,deflection_mm\n0,1.0\n0.2,abc\n0.3,1.0\n",
+    "overflow, no comment": "time_s,deflection_mm\n0,1.0\n0.1,1e400\n",
 }
 
 
@@ -79,16 +84,22 @@ def test_missing_file_and_overflow_messages(tmp_path):
     assert str(caught.value) == expected
 
 
-def test_values_are_those_of_the_exact_reader(tmp_path):
+@pytest.mark.parametrize("comments, sep, decimal", [(True, ",", "."), (False, ",", "."), (False, ";", ",")])
+def test_values_are_those_of_the_exact_reader(tmp_path, comments, sep, decimal):
     """Reference: read_time_history. Decimal numbers of every magnitude, written with repr (17
-    significant digits), spaces after commas, a byte-order mark, comments and blank lines
-    between samples: the same doubles, bit for bit."""
+    significant digits), spaces after the delimiter, a byte-order mark and blank lines between samples,
+    with comments (pandas' reader) or without (Arrow's), commas or semicolons with a decimal comma: the same
+    doubles, bit for bit."""
     rng = np.random.default_rng(11)
     values = rng.normal(size=3000) * 10.0 ** rng.integers(-8, 9, 3000)
-    body = "\n".join(f"{k}, {float(v)!r}" + ("\n# a comment\n" if k % 500 == 7 else "") for k, v in enumerate(values))
+    note = "\n# a comment\n" if comments else "\n\n"
+    body = "\n".join(f"{k}{sep} {float(v)!r}".replace(".", decimal) + (note if k % 500 == 7 else "")
+                     for k, v in enumerate(values))
     path = tmp_path / "ride.csv"
-    path.write_text("\ufeff# demo\ntime_s, deflection_mm\n\n" + body + "\n", encoding="utf-8")
+    path.write_text("\ufeff" + ("# demo\n" if comments else "") + f"time_s{sep} deflection_mm\n\n" + body + "\n",
+                    encoding="utf-8")
     exact = read_time_history(path, "deflection_mm", 1e-3, WHERE).values
+    np.testing.assert_array_equal(exact, np.array([float(repr(float(v))) for v in values]) * 1e-3)  # Python's float()
     chunks = list(history_chunks(path, "deflection_mm", 1e-3, WHERE, chunk_samples=1024))
     assert [c.size for c in chunks] == [1024, 1024, 952]
     np.testing.assert_array_equal(np.concatenate(chunks), exact)

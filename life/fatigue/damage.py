@@ -44,6 +44,8 @@ EXACT_PAIRS = 20_000_000  # location × cycle pairs evaluated one by one; beyond
 BRACKET_LEVELS = 256  # drive levels across the duty's span for the bracketing grid (aggregation at scale)
 BRACKET_RULES = ("goodman", "gerber", "none")  # rules whose lives fall when a local cycle's interval grows
 WIDEN_BLOCK = 1 << 20  # cycles widened at once (``_widened``)
+REFINE_PAIRS = 2_000_000  # beyond this many location × cycle pairs left to evaluate exactly, bound them again
+REFINE = 8  # ... on a grid this many times finer
 TOP_PAIRS = 200_000  # the worst pass: beyond this many top × cycle pairs the tops are bounded first (bracketed)
 TOP_LEVELS = 64  # ... on a grid of this many drive levels (coarse: only the tops whose bound reaches D* count)
 
@@ -341,8 +343,8 @@ def miner_damage(locations: Locations, cycles: Cycles, force_per_drive: float, s
     location D <= D(widened). The location of the largest upper bound is then evaluated exactly, cycle by
     cycle; its damage D* is at most the largest damage of all, so every location whose upper bound reaches
     D* — the critical one among them — and every location where a widened cycle passes the static strength
-    is evaluated exactly too (identical cycles merged first if they are still too many: exact, counts
-    summed): the life, the critical location and the static-failure flags are exact. The others report the
+    is evaluated exactly too, cycle by cycle (bounded once more on a grid REFINE times finer first when they
+    would take more than REFINE_PAIRS location × cycle pairs): the life, the critical location and the static-failure flags are exact. The others report the
     upper bound (conservative); ``exact`` says which. A "cld" rule is not bracketed (its diagram may fold
     back): identical cycles are merged and every location evaluated.
 
@@ -496,14 +498,18 @@ def _evaluate(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles, levels: in
         return damage, failed, None, "identical cycles merged", shares
     upper, failed_wide, _ = _damage(local_map, rows, _widened(cycles, levels))
     top = rows[[int(np.argmax(upper[rows]))]]
-    exact_cycles = cycles if nc <= EXACT_PAIRS else merge_identical(cycles)  # one location: every cycle fits
-    damage_top, failed_top, shares_top = _damage(local_map, top, exact_cycles, past)
+    # the exact passes go through the cycles as counted, in chunks: a long history's cycles come merged already
+    # where merging paid (flexcycle.spectra.chunked.HeldCycles), and merging distinct ones would only cost
+    damage_top, failed_top, shares_top = _damage(local_map, top, cycles, past)
     reached = damage_top[top[0]]  # D* <= the largest damage of all
     exact = rows[(upper[rows] >= reached) | failed_wide[rows]]
     rest = exact[exact != top[0]]  # the top location is evaluated already
-    if rest.size * exact_cycles.lo.size > EXACT_PAIRS and exact_cycles is cycles:
-        exact_cycles = merge_identical(cycles)
-    damage_exact, failed, shares = _damage(local_map, rest, exact_cycles, past)
+    if rest.size * nc > REFINE_PAIRS:  # many cycles to go through again: first bound those rows more tightly
+        finer, failed_finer, _ = _damage(local_map, rest, _widened(cycles, REFINE * levels))
+        upper[rest] = np.minimum(upper[rest], finer[rest])
+        exact = exact[(upper[exact] >= reached) | failed_finer[exact] | (exact == top[0])]
+        rest = exact[exact != top[0]]
+    damage_exact, failed, shares = _damage(local_map, rest, cycles, past)
     damage_exact[top], failed[top] = damage_top[top], failed_top[top]
     if shares is not None:
         shares[0][top], shares[1][top] = shares_top[0][top], shares_top[1][top]
