@@ -144,7 +144,7 @@ def table_of(cycles: Cycles, max_rows: int, resolution: float) -> tuple[Cycles, 
                 block = join_parts([exact, block])
             exact = None  # too many distinct cycles: binned from here on
             coarse = width  # the finest width of the sequence whose grid is counted densely
-            while (2 * peak / coarse + 4) ** 2 > DENSE_CELLS:
+            while (2 * peak / coarse + 4) ** 2 > DENSE_CELLS and coarse < 4.0 * peak:
                 coarse *= 2.0
             if _binned(block, coarse, peak)[0].size > max_rows:  # then every finer grid holds more rows too
                 width = coarse
