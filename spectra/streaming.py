@@ -188,19 +188,16 @@ def history_chunks(
     size = path.stat().st_size
     read = 0
     with open(path, "rb", buffering=0) as raw:
+        commented = _has_comment(raw, offset, size)
+    if not commented:  # Arrow's reader (no comment lines to skip), the file hashed alongside
+        yield from _arrow_history(path, offset, names, column, to_si, dialect, chunk_samples, on_bytes, digest,
+                                  where)
+        return
+    with open(path, "rb", buffering=0) as raw:
         if digest is not None:
             digest.update(raw.read(offset))  # the header and the lines before it
         raw.seek(offset)
         fh = _Hashing(raw, digest)
-        if not _has_comment(raw, offset, size):  # Arrow's reader (no comment lines to skip)
-            for values in _arrow_chunks(fh, names, column, to_si, dialect, chunk_samples, path, where):
-                read += values.size
-                if on_bytes is not None:
-                    on_bytes(min(fh.position, size), size)
-                yield values
-            if read < 2:
-                _refuse(path, column, to_si, where)
-            return
         try:
             reader = pd.read_csv(
                 io.BufferedReader(fh, buffer_size=1 << 20), header=None, names=names, dtype={column: np.float64}, engine="c",
@@ -228,10 +225,46 @@ def history_chunks(
 ARROW_BLOCK = 4 << 20  # bytes Arrow's CSV reader parses at once
 
 
-def _arrow_chunks(fh, names: list[str], column: str, to_si: float, dialect, chunk_samples: int, path: Path,
+def _arrow_history(path: Path, offset: int, names: list[str], column: str, to_si: float, dialect, chunk_samples: int,
+                   on_bytes, digest, where: str) -> Iterator[np.ndarray]:
+    """``history_chunks`` for a file without comment lines: Arrow's reader from ``offset`` (past the header),
+    the file hashed by a second thread meanwhile (``_hash_file``: hashlib leaves the interpreter lock to the
+    others while it hashes), so that no byte passes through Python on its way to the parser."""
+    import pyarrow as pa
+
+    hashing = None
+    if digest is not None:
+        hashing = threading.Thread(target=_hash_file, args=(path, digest), name="flexcycle-hash", daemon=True)
+        hashing.start()
+    read = 0
+    size = path.stat().st_size
+    try:
+        with pa.OSFile(str(path)) as source:
+            source.seek(offset)
+            for values in _arrow_chunks(source, names, column, to_si, dialect, chunk_samples, path, where):
+                read += values.size
+                if on_bytes is not None:
+                    on_bytes(min(source.tell(), size), size)
+                yield values
+    finally:
+        if hashing is not None:
+            hashing.join()
+    if read < 2:
+        _refuse(path, column, to_si, where)
+
+
+def _hash_file(path: Path, digest) -> None:
+    """Every byte of the file added to ``digest``, in blocks of 16 MB."""
+    with open(path, "rb") as fh:
+        while block := fh.read(1 << 24):
+            digest.update(block)
+
+
+def _arrow_chunks(source, names: list[str], column: str, to_si: float, dialect, chunk_samples: int, path: Path,
                   where: str) -> Iterator[np.ndarray]:
-    """The drive column of a CSV file without comment lines, by Apache Arrow's streaming CSV reader, in chunks
-    of exactly ``chunk_samples`` samples (the last shorter), SI, read-only.
+    """The drive column of a CSV file without comment lines, from ``source`` (an Arrow file, at the first row
+    after the header), by Apache Arrow's streaming CSV reader, in chunks of exactly ``chunk_samples`` samples
+    (the last shorter), SI, read-only.
 
     Arrow parses every row (a ragged one is refused), converts the drive column to float64 (correctly
     rounded: the doubles Python's float() gives) and refuses an empty or non-numeric cell; blank lines are
@@ -243,7 +276,7 @@ def _arrow_chunks(fh, names: list[str], column: str, to_si: float, dialect, chun
 
     try:
         reader = pc.open_csv(
-            io.BufferedReader(fh, buffer_size=1 << 20),
+            source,
             read_options=pc.ReadOptions(column_names=names, block_size=ARROW_BLOCK, encoding="utf8"),
             parse_options=pc.ParseOptions(delimiter=dialect.sep, ignore_empty_lines=True),
             convert_options=pc.ConvertOptions(column_types={column: pa.float64()}, include_columns=[column],

@@ -199,8 +199,8 @@ def _ride(n: int, seed: int) -> np.ndarray:
     return np.round(x, 2) * 1e-3
 
 
-@pytest.mark.parametrize("seed", [1, 2, 3])
-def test_bracketed_damage_bounds_the_exact_damage_and_keeps_the_life(monkeypatch, seed):
+@pytest.mark.parametrize("seed, shared", [(1, False), (2, False), (3, False), (1, True), (3, True)])
+def test_bracketed_damage_bounds_the_exact_damage_and_keeps_the_life(monkeypatch, seed, shared):
     """Reference: the same damage evaluated cycle by cycle (EXACT_PAIRS unlimited). Forced to bracket
     (EXACT_PAIRS = 1): every location's damage is at least the exact one, and equal where it is marked exact;
     the largest damage, its location and every static-failure flag equal the exact ones (rel 1e-12: only the
@@ -210,6 +210,8 @@ def test_bracketed_damage_bounds_the_exact_damage_and_keeps_the_life(monkeypatch
     fpd = 1.0 / resp.compliance
     exact = miner_damage(locs, cycles, fpd, 1.0)
     monkeypatch.setattr(damage_module, "EXACT_PAIRS", 1)
+    if shared:  # the widening kept at the finest grid and coarsened (as for 200 000 cycles or more)
+        monkeypatch.setattr(damage_module, "SHARED_WIDENING", 0)
     bracketed = miner_damage(locs, cycles, fpd, 1.0)
     assert bracketed.aggregation == "bracketed"
     assert np.all(exact.damage <= bracketed.damage * (1 + 1e-12))

@@ -13,6 +13,7 @@ Palmgren–Miner: D = Σ nᵢ/Nᵢ per block of the duty, failure when D reaches
 """
 from __future__ import annotations
 
+import weakref
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
@@ -524,8 +525,35 @@ def _widened(cycles: Cycles, levels: int = BRACKET_LEVELS) -> Cycles:
 
     The grid runs from the smallest to the largest drive of the cycles; a widened cycle contains the cycle.
     Merging on the grid is a count per pair of grid indices (``numpy.bincount``): linear in the cycles, no sort.
+    Many cycles (SHARED_WIDENING or more) are widened once, to the FINEST grid, and kept with the cycles; a
+    coarser grid of ``levels`` (a power of two up to FINEST) is then that table coarsened — level I of it is
+    level I·f of the finest (f = FINEST / levels), the same number, so ⌊i/f⌋ and ⌈i/f⌉ still contain the cycle.
     """
     base, top = float(cycles.lo.min()), float(cycles.hi.max())
+    if cycles.lo.size < SHARED_WIDENING or FINEST % levels:
+        i_lo, i_hi, count = _grid_cells(cycles, base, top, levels)
+        f = 1
+    else:
+        if cycles not in _FINEST_CELLS:
+            _FINEST_CELLS[cycles] = _grid_cells(cycles, base, top, FINEST)
+        fine_lo, fine_hi, fine_count = _FINEST_CELLS[cycles]
+        f = FINEST // levels
+        side = levels + 2
+        count = np.bincount((fine_lo // f) * side + -(-fine_hi // f), weights=fine_count, minlength=side * side)
+        cells = np.flatnonzero(count)
+        i_lo, i_hi, count = (cells // side) * f, (cells % side) * f, count[cells]
+    step = (top - base) / (levels * f)  # the grid the indices count in
+    return Cycles(np.minimum(base + i_lo * step, top), np.minimum(base + i_hi * step, top), count)
+
+
+SHARED_WIDENING = 200_000  # cycles from which the finest widening is kept for the coarser grids
+FINEST = 512  # levels of the finest kept widening (every grid used is a power of two up to it; 2 MB of counts)
+_FINEST_CELLS: weakref.WeakKeyDictionary = weakref.WeakKeyDictionary()  # Cycles → their finest widening
+
+
+def _grid_cells(cycles: Cycles, base: float, top: float, levels: int) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Each cycle widened to the grid of ``levels`` levels from ``base`` to ``top``: the distinct pairs of grid
+    indices (at or below the minimum, at or above the maximum) and their summed counts."""
     step = (top - base) / levels
     grid = lambda i: np.minimum(base + i * step, top)  # noqa: E731 — level i of the grid [drive unit]
     side = levels + 2  # indices 0 … levels + 1 (round-off may put the top one level past ``levels``)
@@ -539,8 +567,8 @@ def _widened(cycles: Cycles, levels: int = BRACKET_LEVELS) -> Cycles:
         i_hi += grid(i_hi) < hi
         code = i_lo.astype(np.int64) * side + i_hi.astype(np.int64)
         count += np.bincount(code, weights=cycles.count[start:start + WIDEN_BLOCK], minlength=side * side)
-    held = np.flatnonzero(count)
-    return Cycles(grid(held // side), grid(held % side), count[held])
+    cells = np.flatnonzero(count)
+    return cells // side, cells % side, count[cells]
 
 
 def _damage(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles, past: float | None = None):
