@@ -9,8 +9,10 @@ unidirectional ply counts (a grid cut to ``--candidates``); the duty is read and
 is the bundled file with [beam] theory set to "linear", and as it is ("large-deflection"). Each round runs
 each sweep in this process without Dask (the floor), then on a LocalCluster of one worker and of two
 (single-threaded worker processes running this clone's code), interleaved round by round; the clusters are
-started before the clock starts. Figures are medians of the rounds. The machine is shared: the load average
-is printed beside the figures.
+started before the clock starts. Each Dask run gives two rates: the whole sweep (to sweep.html written) and the
+rows alone (to the last row on disk; the final table and the page are one process's work whatever the
+workers). Figures are medians of the rounds. The machine is shared: the load average is printed beside the
+figures.
 """
 from __future__ import annotations
 
@@ -76,20 +78,31 @@ def main() -> None:
                     rates.setdefault((theory, "this process, no Dask"), []).append(n / (time.perf_counter() - start))
                     for name, client in (("1 Dask worker", one), ("2 Dask workers", two)):
                         out = Path(folder) / f"out-{theory}-{name[0]}-{round_number}"
+                        last_row = []
+
+                        def progress(done, total, last_row=last_row):
+                            if done == total:
+                                last_row.append(time.perf_counter())
+
                         start = time.perf_counter()
-                        run_sweep(prepared, out, client)
+                        run_sweep(prepared, out, client, progress=progress)
                         rates.setdefault((theory, name), []).append(n / (time.perf_counter() - start))
+                        rates.setdefault((theory, name + ", rows"), []).append(n / (last_row[0] - start))
     load = os.getloadavg()[0]
     print(f"sweep of the bundled example, {n} candidates, {args.repeats} interleaved rounds; load average {load:.1f} "
           f"on {os.cpu_count()} cores (shared machine: medians)")
     print(f"{'candidates/s':<24}{'linear':>10}{'large defl.':>13}{'linear/large':>14}{'aim':>10}")
     median = {key: statistics.median(values) for key, values in rates.items()}
-    for name in ("this process, no Dask", "1 Dask worker", "2 Dask workers"):
+    for name in ("this process, no Dask", "1 Dask worker", "2 Dask workers", "1 Dask worker, rows",
+                 "2 Dask workers, rows"):
         a, b = median[("linear", name)], median[("large-deflection", name)]
         aim = f"{AIM_RATE:g}/s, <= {AIM_SLOWER:g}" if name == "2 Dask workers" else ""
         print(f"{name:<24}{a:>10.1f}{b:>13.1f}{a / b:>14.2f}{aim:>16}")
-    scaling = [median[(t, "2 Dask workers")] / median[(t, "1 Dask worker")] for t in theories]
-    print(f"{'2 workers / 1 worker':<24}{scaling[0]:>10.2f}{scaling[1]:>13.2f}{'':>14}{AIM_SCALING:>10g}")
+    for suffix in ("", ", rows"):
+        scaling = [median[(t, "2 Dask workers" + suffix)] / median[(t, "1 Dask worker" + suffix)] for t in theories]
+        print(f"{'2 workers / 1' + suffix:<24}{scaling[0]:>10.2f}{scaling[1]:>13.2f}{'':>14}{AIM_SCALING:>10g}")
+    print("(the whole sweep, start to sweep.html written; \", rows\": until the last row is on disk, before the "
+          "table and the page, which one process writes whatever the workers)")
 
 
 if __name__ == "__main__":
