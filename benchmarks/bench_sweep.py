@@ -9,7 +9,8 @@ unidirectional ply counts (a grid cut to ``--candidates``); the duty is read and
 is the bundled file with [beam] theory set to "linear", and as it is ("large-deflection"). Each round runs
 each sweep in this process without Dask (the floor), then on a LocalCluster of one worker and of two
 (single-threaded worker processes running this clone's code), interleaved round by round; the clusters are
-started before the clock starts. Each Dask run gives two rates: the whole sweep (to sweep.html written) and the
+started, and their workers warmed by a sweep of eight candidates (a worker's first task imports flexcycle),
+before the clock starts. Each Dask run gives two rates: the whole sweep (to sweep.html written) and the
 rows alone (to the last row on disk; the final table and the page are one process's work whatever the
 workers). Figures are medians of the rounds. The machine is shared: the load average is printed beside the
 figures.
@@ -71,6 +72,10 @@ def main() -> None:
             sweeps[theory] = replace(prepared, space=space)
         n = len(sweeps["linear"].space.candidates)
         with clone_cluster(1) as one, clone_cluster(2) as two:
+            for theory, prepared in sweeps.items():  # warm the workers (their first task imports flexcycle)
+                few = replace(prepared, space=replace(prepared.space, candidates=prepared.space.candidates[:8]))
+                for client in (one, two):
+                    run_sweep(few, Path(folder) / f"warm-{theory}-{id(client)}", client, batch=1)
             for round_number in range(args.repeats):
                 for theory, prepared in sweeps.items():
                     start = time.perf_counter()

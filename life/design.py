@@ -412,7 +412,7 @@ def _duty(doc: Mapping, name: str, base_dir: Path, notes: list[str],
         where_gauge = f"x = {gauge.x * 1e3:g} mm, {gauge.face} face" + (f", ply {gauge.ply}" if gauge.ply else "")
         source += f"; strain at a gauge ({where_gauge}) as load-point force"
         drive = "force"
-    if cycles.lo.size == 0 or (np.abs(cycles.lo).max() == 0 and np.abs(cycles.hi).max() == 0):
+    if cycles.lo.size == 0 or cycles.lo.min() == cycles.hi.max() == 0:  # lo <= hi: every extreme is zero
         raise InputError(f"{where}: the duty never loads the part (no cycles, or every drive is zero)")
     return Duty(drive, cycles, source, signal, per_day, residue, path, envelope, digest, spectral, sample_rate,
                 measured, gauge, mapping, peaks)

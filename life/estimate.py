@@ -396,12 +396,22 @@ def _first_factor(design: Design, key: str) -> float:
 def _largest_cycle(cycles) -> int:
     """Index of the cycle of largest range, of equal ranges the one of largest max, of those the last.
 
-    The same index as ``np.lexsort((hi, hi - lo))[-1]``, in linear time (no sort of millions of cycles).
+    The same index as ``np.lexsort((hi, hi - lo))[-1]``, in linear time (no sort of millions of cycles), block by
+    block (no temporary the size of the cycles).
     """
-    span = cycles.hi - cycles.lo
-    widest = np.flatnonzero(span == span.max())
-    top = cycles.hi[widest]
-    return int(widest[np.flatnonzero(top == top.max())[-1]])
+    best, at = (-np.inf, -np.inf), 0
+    for start in range(0, cycles.lo.size, LARGEST_BLOCK):
+        hi = cycles.hi[start:start + LARGEST_BLOCK]
+        span = hi - cycles.lo[start:start + LARGEST_BLOCK]
+        widest = np.flatnonzero(span == span.max())
+        top = hi[widest]
+        k = int(widest[np.flatnonzero(top == top.max())[-1]])
+        if (float(span[k]), float(hi[k])) >= best:  # a later equal one wins
+            best, at = (float(span[k]), float(hi[k])), start + k
+    return at
+
+
+LARGEST_BLOCK = 1 << 20  # cycles looked at once by ``_largest_cycle``
 
 
 EXTRAPOLATED_SHARE = 0.1  # warn when more than this share of the critical damage is read past the data

@@ -44,7 +44,7 @@ def cycle_table(result: LifeResult) -> tuple[pd.DataFrame, str]:
     cycles, width = table_of(counted, MAX_CYCLE_ROWS, BIN_RESOLUTION)
     note = f"{cycles.lo.size} distinct cycles, identical cycles merged"
     if width is not None:
-        peak = float(max(np.abs(counted.lo).max(), np.abs(counted.hi).max()))
+        peak = float(max(-counted.lo.min(), counted.hi.max(), counted.lo.max(), -counted.hi.min()))  # max |drive|
         note = (
             f"{cycles.lo.size} binned cycles: min and max each at the centre of its bin of {width:.3g} (SI), "
             f"{width / peak:.2g} of the largest drive, as the duty has more than {MAX_CYCLE_ROWS} distinct "

@@ -125,7 +125,7 @@ def table_of(cycles: Cycles, max_rows: int, resolution: float) -> tuple[Cycles, 
     n = cycles.lo.size
     if n == 0:
         return cycles, None
-    peak = float(max(np.abs(cycles.lo).max(), np.abs(cycles.hi).max())) or 1.0
+    peak = float(max(-cycles.lo.min(), cycles.hi.max(), cycles.lo.max(), -cycles.hi.min())) or 1.0  # max |x|, no copy
     exact: Cycles | None = no_cycles()
     keys = np.zeros(0, np.int64)
     counts = np.zeros(0)

@@ -384,3 +384,24 @@ def test_refined_bounds_keep_the_largest_damage(monkeypatch):
     assert np.all(exact.damage <= refined.damage * (1 + 1e-12))
     assert refined.exact.sum() <= plain.exact.sum()
     np.testing.assert_array_equal(refined.static_failure, exact.static_failure)
+
+
+@settings(max_examples=200)
+@given(st.lists(st.tuples(st.integers(-5, 5), st.integers(0, 4)), min_size=1, max_size=60), st.integers(1, 7))
+def test_blockwise_widest_cycles_match_numpy(monkeypatch_free_rows, block):
+    """Reference: numpy on the whole arrays. Block by block (blocks of 1-7 cycles, many ties): the first cycle of
+    largest range is np.argmax(hi - lo); the estimate's largest cycle (largest range, then largest max, then the
+    last) is np.lexsort((hi, hi - lo))[-1]."""
+    import importlib
+
+    estimate_module = importlib.import_module("flexcycle.estimate")  # the module (flexcycle.estimate is the function)
+    lo = np.array([float(a) for a, _ in monkeypatch_free_rows])
+    hi = lo + np.array([float(r) for _, r in monkeypatch_free_rows])
+    cycles = Cycles(lo, hi, np.ones(lo.size))
+    old = damage_module.WIDEN_BLOCK, estimate_module.LARGEST_BLOCK
+    damage_module.WIDEN_BLOCK, estimate_module.LARGEST_BLOCK = block, block
+    try:
+        assert damage_module._first_widest(cycles) == int(np.argmax(hi - lo))
+        assert estimate_module._largest_cycle(cycles) == int(np.lexsort((hi, hi - lo))[-1])
+    finally:
+        damage_module.WIDEN_BLOCK, estimate_module.LARGEST_BLOCK = old

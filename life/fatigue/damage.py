@@ -464,7 +464,7 @@ def _extremes(local_map: _LocalMap, cycles: Cycles) -> tuple[np.ndarray, np.ndar
     dlo, dhi = cycles.lo, cycles.hi
     nc = dlo.size
     if nc:  # the largest local amplitude is that of the largest drive range (a monotonic map)
-        big = int(np.argmax(dhi - dlo))
+        big = _first_widest(cycles)
         at_lo, at_hi = local_map.local(every, dlo[[big]])[:, 0], local_map.local(every, dhi[[big]])[:, 0]
         amp = np.abs(at_hi - at_lo) / 2.0
         mean = (at_hi + at_lo) / 2.0 + 0.0  # + 0.0: no "-0" in the outputs
@@ -478,6 +478,17 @@ def _extremes(local_map: _LocalMap, cycles: Cycles) -> tuple[np.ndarray, np.ndar
             utilisation[mine] = np.maximum(extremes.max(axis=1) / model.Xt, -extremes.min(axis=1) / model.Xc)
         rows |= mine & ~(peak < NEGLIGIBLE * min(model.Xt, model.Xc))
     return amp, mean, utilisation, np.flatnonzero(rows)
+
+
+def _first_widest(cycles: Cycles) -> int:
+    """Index of the first cycle of largest range, block by block (no temporary the size of the cycles)."""
+    best, at = -np.inf, 0
+    for start in range(0, cycles.lo.size, WIDEN_BLOCK):
+        span = cycles.hi[start:start + WIDEN_BLOCK] - cycles.lo[start:start + WIDEN_BLOCK]
+        k = int(np.argmax(span))
+        if span[k] > best:
+            best, at = float(span[k]), start + k
+    return at
 
 
 def _evaluate(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles, levels: int = BRACKET_LEVELS,
