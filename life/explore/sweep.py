@@ -153,9 +153,12 @@ def dask_client(scheduler: str | None = None, workers: int | None = None) -> Ite
 
 
 def batch_size(candidates: int, workers: int) -> int:
-    """Candidates per task: about eight tasks per worker, so that the load evens out, and at most 64, so that
-    a worker that dies loses little work (common practice for task-based schedulers)."""
-    return max(1, min(64, math.ceil(candidates / max(1, 8 * workers))))
+    """Candidates per task: about four tasks per worker, so that the load evens out while the scheduler, which
+    shares the machine's cores with the workers, has few tasks to hand out, and at most 100, so that a worker
+    that dies loses little work (about a second of estimates). Measured on the bundled example, 400
+    candidates, interleaved: 152 against 136 candidates/s on two workers with batches of 50 instead of 25
+    (about eight tasks per worker), 91 against 84 on one with 100 instead of 50."""
+    return max(1, min(100, math.ceil(candidates / max(1, 4 * workers))))
 
 
 @dataclass(frozen=True)
