@@ -632,33 +632,6 @@ def _damage(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles, past: float 
         if shares is not None:
             shares[0][mine], shares[1][mine] = d[1, back], d[2, back]
     return damage, failed, shares
-    groups = []
-    for m, model in enumerate(locations.models):
-        mine = rows[locations.model[rows] == m]
-        if not mine.size:
-            continue
-        # equal map, equal damage: one location of each
-        _, first, back = np.unique(keys[mine], axis=0, return_index=True, return_inverse=True)
-        groups.append((model, mine, mine[first], back.reshape(-1)))
-    sums = [np.zeros(unique.size) for _, _, unique, _ in groups]
-    flags = [np.zeros(unique.size, bool) for _, _, unique, _ in groups]
-    cycles_at_once = min(nc, CHUNK)
-    for c0 in range(0, nc, cycles_at_once):
-        c = slice(c0, c0 + cycles_at_once)
-        at_lo, at_hi = prepare(dlo[c], rows), prepare(dhi[c], rows)
-        for (model, _, unique, _), d, f in zip(groups, sums, flags):
-            rows_at_once = max(1, CHUNK // nc)
-            for r0 in range(0, unique.size, rows_at_once):
-                some = unique[r0 : r0 + rows_at_once]
-                a, b = values(some, at_lo), values(some, at_hi)
-                N = model.cycles_to_failure(np.minimum(a, b), np.maximum(a, b))
-                zero = N <= 0
-                f[r0 : r0 + rows_at_once] |= zero.any(axis=1)
-                d[r0 : r0 + rows_at_once] += (count[None, c] / np.where(zero, FIRST_LOAD_FAILURE, N)).sum(axis=1)
-    for (_, mine, _, back), d, f in zip(groups, sums, flags):
-        damage[mine] = d[back]
-        failed[mine] = f[back]
-    return damage, failed
 
 
 def cycle_lives(locations: Locations, k: int, cycles: Cycles, force_per_drive: float, stress_factor: float
