@@ -172,10 +172,7 @@ class HeldCycles:
         n = full.lo.size
         if not n:
             return
-        self._reserve(self._size + n)
-        for column, values in zip(self._columns, (full.lo, full.hi, full.count)):
-            column[self._size:self._size + n] = values
-        self._size += n
+        self._write(full)
         self._new += n
         if self.merging and self._new > MERGE_EVERY:
             if merge_identical(full).lo.size > MERGE_PAYS * n:  # the newest chunk alone: does merging pay?
@@ -183,10 +180,17 @@ class HeldCycles:
                 return
             merged = merge_identical(self._view())
             self._size = 0
+            self._write(merged)
             self._new = 0
             self.merged = True
-            self.add(merged)
-            self._new = 0
+
+    def _write(self, cycles: Cycles) -> None:
+        """Put ``cycles`` after the rows held."""
+        n = cycles.lo.size
+        self._reserve(self._size + n)
+        for column, values in zip(self._columns, (cycles.lo, cycles.hi, cycles.count)):
+            column[self._size:self._size + n] = values
+        self._size += n
 
     def _reserve(self, rows: int) -> None:
         if rows > self._columns[0].size:
