@@ -71,11 +71,6 @@ class DriveMap:
     channel: np.ndarray
     unit: np.ndarray
 
-    @property
-    def local(self) -> np.ndarray:
-        """The local quantity of every location at every level, shape (k, J) [Pa or -]."""
-        return self.unit[:, None] * self.loads[self.channel]
-
     def loads_at(self, drive: np.ndarray, channels: np.ndarray | None = None) -> np.ndarray:
         """The section loads at the drives, shape (c, len(drive)) — or of the given ``channels`` only, shape
         (len(channels), len(drive)) — linear between levels."""
