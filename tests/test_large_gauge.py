@@ -22,6 +22,7 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+from designs import ISOTROPIC
 from scipy.optimize import brentq
 
 from flexcycle.design import load_design
@@ -34,24 +35,6 @@ from flexcycle.mechanics.large_gauge import large_gauge_map
 
 E, B, H, L = 40e9, 0.030, 0.004, 0.200  # isotropic strip: 4 plies of 1 mm, EI = 6.4 N·m²
 X_GAUGE = 0.020  # the gauge 20 mm from the clamp, tension face
-ISOTROPIC = """
-[material.iso]
-E1 = "40 GPa"
-E2 = "40 GPa"
-G12 = "15.384615384615385 GPa"
-nu12 = 0.3
-density = "1800 kg/m^3"
-Xt = "1000 MPa"
-Xc = "800 MPa"
-Yt = "1000 MPa"
-Yc = "800 MPa"
-S12 = "400 MPa"
-[material.iso.fatigue]
-form = "power"
-R = -1
-S1 = "800 MPa"
-m = 10
-"""
 BEAM = f"""
 title = "large-deflection gauge check (demo)"
 [beam]

@@ -18,30 +18,13 @@ from pathlib import Path
 import numpy as np
 import pytest
 from cli_runner import run_cli
+from designs import ISOTROPIC
 
 from flexcycle.design import load_design
 from flexcycle.estimate import estimate
 from flexcycle.mechanics.beam import respond
 
 E, B, H, L = 40e9, 0.030, 0.004, 0.200  # isotropic strip of the strain-gauge check: 4 plies of 1 mm
-ISOTROPIC = """
-[material.iso]
-E1 = "40 GPa"
-E2 = "40 GPa"
-G12 = "15.384615384615385 GPa"
-nu12 = 0.3
-density = "1800 kg/m^3"
-Xt = "1000 MPa"
-Xc = "800 MPa"
-Yt = "1000 MPa"
-Yc = "800 MPa"
-S12 = "400 MPa"
-[material.iso.fatigue]
-form = "power"
-R = -1
-S1 = "800 MPa"
-m = 10
-"""
 BEAM = f"""
 title = "gauge check (demo)"
 [beam]
