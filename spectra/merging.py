@@ -171,7 +171,7 @@ def _indices(keys: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
 def _binned(cycles: Cycles, width: float, peak: float) -> tuple[np.ndarray, np.ndarray]:
     """The cycles' distinct bin pairs on the grid of ``width`` as keys, ascending, and their counts: counted on a
     dense grid (``numpy.bincount``, linear) when it has at most DENSE_CELLS cells, else sorted (``_summed``)."""
-    i_lo, i_hi = np.floor(cycles.lo / width).astype(np.int64), np.floor(cycles.hi / width).astype(np.int64)
+    i_lo, i_hi = _bin(cycles.lo, width), _bin(cycles.hi, width)
     first = int(np.floor(-peak / width)) - 1  # every index lies in first … first + side - 1
     side = int(np.floor(peak / width)) + 2 - first
     if side * side > DENSE_CELLS:
@@ -179,6 +179,14 @@ def _binned(cycles: Cycles, width: float, peak: float) -> tuple[np.ndarray, np.n
     dense = np.bincount((i_lo - first) * side + (i_hi - first), weights=cycles.count, minlength=side * side)
     cells = np.flatnonzero(dense)
     return _key(cells // side + first, cells % side + first), dense[cells]
+
+
+def _bin(x: np.ndarray, width: float) -> np.ndarray:
+    """⌊x/width⌋ as integers, also where x/width underflows to −0 (a subnormal x < 0 lies in bin −1, as it does
+    on every finer grid: the grids stay nested)."""
+    i = np.floor(x / width)
+    i[(x < 0) & (i == 0)] = -1.0
+    return i.astype(np.int64)
 
 
 def _summed(keys: np.ndarray, counts: np.ndarray) -> tuple[np.ndarray, np.ndarray]:

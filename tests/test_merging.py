@@ -3,7 +3,7 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
-from hypothesis import given, settings
+from hypothesis import example, given, settings
 from hypothesis import strategies as st
 from rainflow_oracle import (
     as_dict,
@@ -74,14 +74,20 @@ from flexcycle.spectra.merging import table_of  # noqa: E402
 
 
 def _binned_by_definition(cycles, width):
-    """(lo, hi) -> count with each extreme at the centre of its bin floor(x / width): a plain dict."""
+    """(lo, hi) -> count with each extreme at the centre of its bin floor(x / width): a plain dict. The floor of
+    the real quotient: a negative x whose quotient underflows to -0 lies in bin -1."""
+    def floor(x):
+        return -1.0 if x < 0 and np.floor(x / width) == 0 else np.floor(x / width)
+
     out: dict = {}
     for lo, hi, n in zip(cycles.lo, cycles.hi, cycles.count):
-        key = ((np.floor(lo / width) + 0.5) * width, (np.floor(hi / width) + 0.5) * width)
+        key = ((floor(lo) + 0.5) * width, (floor(hi) + 0.5) * width)
         out[key] = out.get(key, 0.0) + n
     return out
 
 
+@example(history=[(0.0, 0.0, 0.5), (0.0, 2.0, 0.5), (2.0, 0.0, 0.5), (-5e-324, 0.0, 0.5)], max_rows=3, block=7,
+         dense=0)  # a subnormal minimum: bin -1 on every grid
 @settings(max_examples=60, deadline=None)
 @given(st.lists(st.tuples(st.floats(-50, 50), st.floats(0, 40), st.sampled_from([0.5, 1.0, 2.0])),
                 min_size=1, max_size=300),
