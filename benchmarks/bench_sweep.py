@@ -7,10 +7,11 @@ theory, at most 3 times slower under large deflection; two workers at least 1.7 
 Not part of the test run. The sweep varies the bundled cargo-bike spring's span, root width and the two
 unidirectional ply counts (a grid cut to ``--candidates``); the duty is read and counted once. The base design
 is the bundled file with [beam] theory set to "linear", and as it is ("large-deflection"). Each round runs
-each sweep in this process without Dask (the floor), then on a LocalCluster of one worker and of two
-(single-threaded worker processes running this clone's code), interleaved round by round; the clusters are
-started, and their workers warmed by a sweep of eight candidates (a worker's first task imports flexcycle),
-before the clock starts. Each Dask run gives two rates: the whole sweep (to sweep.html written) and the
+each sweep in this process without Dask and with no cluster alive (the floor), then on a LocalCluster of one
+worker and on one of two (single-threaded worker processes running this clone's code), in alternating order
+round by round; only the cluster measured is alive (an idle cluster's scheduler, nannies and workers poll: 0.07
+CPU-seconds a second in this process and 0.03 in each worker, measured), and its workers are warmed by a
+sweep of eight candidates (a worker's first task imports flexcycle) before the clock starts. Each Dask run gives two rates: the whole sweep (to sweep.html written) and the
 rows alone (to the last row on disk; the final table and the page are one process's work whatever the
 workers). Figures are medians of the rounds. The machine is shared: the load average is printed beside the
 figures.
@@ -71,18 +72,20 @@ def main() -> None:
             space = replace(prepared.space, candidates=prepared.space.candidates[:args.candidates])
             sweeps[theory] = replace(prepared, space=space)
         n = len(sweeps["linear"].space.candidates)
-        with clone_cluster(1) as one, clone_cluster(2) as two:
-            for theory, prepared in sweeps.items():  # warm the workers (their first task imports flexcycle)
-                few = replace(prepared, space=replace(prepared.space, candidates=prepared.space.candidates[:8]))
-                for client in (one, two):
-                    run_sweep(few, Path(folder) / f"warm-{theory}-{id(client)}", client, batch=1)
-            for round_number in range(args.repeats):
-                for theory, prepared in sweeps.items():
-                    start = time.perf_counter()
-                    evaluate_batch(prepared.context, prepared.duty, list(enumerate(prepared.space.candidates, start=1)))
-                    rates.setdefault((theory, "this process, no Dask"), []).append(n / (time.perf_counter() - start))
-                    for name, client in (("1 Dask worker", one), ("2 Dask workers", two)):
-                        out = Path(folder) / f"out-{theory}-{name[0]}-{round_number}"
+        for round_number in range(args.repeats):
+            for theory, prepared in sweeps.items():  # no cluster alive: the floor
+                start = time.perf_counter()
+                evaluate_batch(prepared.context, prepared.duty, list(enumerate(prepared.space.candidates, start=1)))
+                rates.setdefault((theory, "this process, no Dask"), []).append(n / (time.perf_counter() - start))
+            order = (1, 2) if round_number % 2 == 0 else (2, 1)  # alternate, so that drift in the load evens out
+            for workers in order:
+                name = "1 Dask worker" if workers == 1 else f"{workers} Dask workers"
+                with clone_cluster(workers) as client:  # only the cluster measured is alive
+                    for theory, prepared in sweeps.items():  # warm the workers (their first task imports flexcycle)
+                        few = replace(prepared, space=replace(prepared.space, candidates=prepared.space.candidates[:8]))
+                        run_sweep(few, Path(folder) / f"warm-{theory}-{workers}-{round_number}", client, batch=1)
+                    for theory, prepared in sweeps.items():
+                        out = Path(folder) / f"out-{theory}-{workers}-{round_number}"
                         last_row = []
 
                         def progress(done, total, last_row=last_row):

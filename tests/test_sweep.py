@@ -13,13 +13,18 @@ import dask
 import pandas as pd
 import pytest
 from cli_runner import run_cli
+from hypothesis import given
+from hypothesis import strategies as st
 from sweep_cases import CLONE_PRELOAD, clone_cluster, write_case
 
 from flexcycle.errors import InputError
 from flexcycle.explore.sweep import (
     FIGURES,
+    LARGEST_BATCH,
     ROWS_FILE,
+    SMALLEST_BATCH,
     _cell,
+    batches,
     columns_of,
     evaluate_batch,
     prepare,
@@ -80,6 +85,28 @@ def test_the_candidates_are_the_grid(case):
     assert len(prepared.space.candidates) == 8
     assert prepared.space.candidates[0] == ("250 mm", "150 mm", 2)
     assert prepared.space.candidates[-1] == ("300 mm", "280 mm", 3)
+
+
+@given(st.integers(0, 20_000), st.integers(1, 64))
+def test_the_batches_cover_every_candidate_once_and_shrink(candidates, workers):
+    """Guided self-scheduling (Polychronopoulos & Kuck 1987): contiguous batches in order, each at most the
+    remaining candidates over twice the workers (and LARGEST_BATCH), never growing, none below SMALLEST_BATCH
+    but the last."""
+    cuts = batches(candidates, workers)
+    assert [k for cut in cuts for k in range(cut.start, cut.stop)] == list(range(candidates))
+    sizes = [cut.stop - cut.start for cut in cuts]
+    assert all(b <= a for a, b in zip(sizes, sizes[1:]))
+    assert all(SMALLEST_BATCH <= size <= LARGEST_BATCH for size in sizes[:-1])
+    for cut, size in zip(cuts, sizes):
+        remaining = candidates - cut.start
+        assert size <= max(SMALLEST_BATCH, -(-remaining // (2 * workers)))
+
+
+def test_the_batches_of_the_benchmark_sweep():
+    """400 candidates on 2 workers: 100, 75, 57, … down to 4 (ceil(remaining / 4), worked by hand)."""
+    sizes = [cut.stop - cut.start for cut in batches(400, 2)]
+    assert sizes[:6] == [100, 75, 57, 42, 32, 24]
+    assert sizes[-1] <= 4 and sum(sizes) == 400
 
 
 def test_rows_in_this_process_equal_flexcycle_run(case, runs):

@@ -196,7 +196,7 @@ def sweep(
     scheduler: str | None = typer.Option(None, "--scheduler", help="address of a running Dask scheduler, e.g. tcp://host:8786; default: a local cluster"),
     workers: int | None = typer.Option(None, "--workers", help="worker processes of the local cluster (default: one per core)"),
     resume: bool = typer.Option(False, "--resume", help="go on from the rows already in --out"),
-    batch: int | None = typer.Option(None, "--batch", help="candidates per Dask task (default: about four tasks per worker, at most 100)"),
+    batch: int | None = typer.Option(None, "--batch", help="candidates per Dask task (default: batches that shrink from at most 100 to 4 as the sweep nears its end, so that the workers finish together)"),
     candidate: int | None = typer.Option(None, "--candidate", help="write candidate N's design file into --out (no sweep)"),
 ) -> None:
     """Estimate every candidate of a design space on Dask; the Pareto front of life and mass (or the objectives)."""

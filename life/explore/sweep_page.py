@@ -5,6 +5,7 @@ from __future__ import annotations
 
 import html
 import shlex
+from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 import matplotlib
@@ -79,37 +80,62 @@ def _levels(values: pd.Series) -> tuple[list[str], np.ndarray]:
     return [str(v) for v in distinct], np.array([position[v] for v in values])
 
 
+@dataclass(frozen=True)
+class Effect:
+    """One varied key's effect: its levels (values, or bins of values) and, over the valid candidates at each
+    level, the median, smallest and largest of a figure (NaN where no valid candidate has that level)."""
+
+    key: str
+    labels: list[str]
+    median: np.ndarray
+    low: np.ndarray
+    high: np.ndarray
+
+
+def effects(table: pd.DataFrame, keys: tuple[str, ...], figure: np.ndarray) -> list[Effect]:
+    """The effect of each key on ``figure`` (one number per row of the table; non-finite values left out)."""
+    valid = (table["message"] == "").to_numpy() & np.isfinite(figure)
+    out = []
+    for key in keys:
+        labels, index = _levels(table[key])
+        median, low, high = (np.full(len(labels), np.nan) for _ in range(3))
+        for level in range(len(labels)):
+            values = figure[valid & (index == level)]
+            if values.size:
+                median[level], low[level], high[level] = np.median(values), values.min(), values.max()
+        out.append(Effect(key, labels, median, low, high))
+    return out
+
+
 def effect_figure(table: pd.DataFrame, keys: tuple[str, ...]) -> Figure:
-    """For each varied key: the median life and mass of the valid candidates at each of its values, with the
-    range from the smallest to the largest (the other keys vary underneath)."""
-    valid = (table["message"] == "").to_numpy()
-    life = _numbers(table, "life_blocks")
-    mass = _numbers(table, "mass_kg") * 1e3
-    columns = len(keys)
+    """For each varied key, side by side on shared axes (one for life, one for mass, so that the keys' effects
+    read against one scale): the median figure of the valid candidates at each of its values, with the range
+    from the smallest to the largest (the other keys vary underneath)."""
+    rows = [(effects(table, keys, _numbers(table, "life_blocks")), PALETTE[0], "life [blocks]"),
+            (effects(table, keys, _numbers(table, "mass_kg") * 1e3), PALETTE[2], "mass [g]")]
     with matplotlib.rc_context(STYLE):
-        fig, axes = figure_with_axes((max(3.0 * columns, 6.0), 4.6), 2, columns, squeeze=False)
-        for j, key in enumerate(keys):
-            labels, index = _levels(table[key])
-            for row, (figure, colour, name) in enumerate([(life, PALETTE[0], "life [blocks]"),
-                                                          (mass, PALETTE[2], "mass [g]")]):
-                ax = axes[row][j]
-                median, low, high = [], [], []
-                for level in range(len(labels)):
-                    values = figure[valid & (index == level)]
-                    values = values[np.isfinite(values)]
-                    median.append(np.median(values) if values.size else np.nan)
-                    low.append(values.min() if values.size else np.nan)
-                    high.append(values.max() if values.size else np.nan)
-                x = np.arange(len(labels))
-                ax.vlines(x, low, high, color=colour, alpha=0.4, lw=3)
-                ax.plot(x, median, "o-", color=colour, ms=4)
+        fig, axes = figure_with_axes((max(3.0 * len(keys), 6.0), 4.6), 2, 1, sharex=True)
+        ticks, labels, start = [], [], 0
+        for row, (ax, (groups, colour, name)) in enumerate(zip(axes, rows)):
+            start = 0
+            for group in groups:
+                x = start + np.arange(len(group.labels))
+                ax.vlines(x, group.low, group.high, color=colour, alpha=0.4, lw=3)
+                ax.plot(x, group.median, "o-", color=colour, ms=4)
+                if start:
+                    ax.axvline(start - 1, color="#cccccc", lw=0.8)
                 if row == 0:
-                    ax.set_yscale("log")
-                    ax.set_title(key)
-                ax.set_xticks(x, labels, rotation=30 if len(labels) > 3 else 0, fontsize=7)
-                if j == 0:
-                    ax.set_ylabel(name)
-        return arrange(fig, hspace=0.55, wspace=0.35, bottom=0.8)
+                    ax.text(x.mean(), 1.02, group.key, transform=ax.get_xaxis_transform(), ha="center",
+                            va="bottom", fontsize=8)
+                    ticks.extend(x)
+                    labels.extend(group.labels)
+                start += len(group.labels) + 1
+            ax.set_ylabel(name)
+        axes[0].set_yscale("log")
+        axes[1].set_xticks(ticks, labels, rotation=30 if len(labels) > 2 * len(keys) else 0, fontsize=7,
+                           ha="right" if len(labels) > 2 * len(keys) else "center")
+        axes[1].set_xlim(-0.6, start - 1.4)
+        return arrange(fig, hspace=0.25, bottom=0.8, top=0.5)
 
 
 def best_rows(table: pd.DataFrame, prepared: Prepared) -> pd.DataFrame:
