@@ -37,7 +37,7 @@ from .errors import InputError
 from .profiles import COMMENT, file_dialect, read_time_history
 from .rainflow import rainflow_cycles
 
-CHUNK_SAMPLES = 1 << 20  # samples per chunk read: 8 MB of floats, a few times that in parser buffers
+CHUNK_SAMPLES = 1 << 18  # samples per chunk read and counted: 2 MB of floats, whose temporaries stay in cache
 ENVELOPE_BIN = 1 << 10  # samples per envelope bin while reading; CHUNK_SAMPLES is a multiple of it
 ENVELOPE_BINS = 2000  # bins of the envelope kept for plots (a line plot of this many points is light)
 KEEP_SIGNAL = 1_000_000  # histories up to this many samples are also kept whole (8 MB) and counted at once
@@ -254,10 +254,16 @@ def _arrow_history(path: Path, offset: int, names: list[str], column: str, to_si
 
 
 def _hash_file(path: Path, digest) -> None:
-    """Every byte of the file added to ``digest``, in blocks of 16 MB."""
-    with open(path, "rb") as fh:
-        while block := fh.read(1 << 24):
-            digest.update(block)
+    """Every byte of the file added to ``digest``, read into one buffer of HASH_BLOCK bytes, used again for every
+    block (a fresh block each time would be fresh memory, every page of it touched anew)."""
+    block = bytearray(HASH_BLOCK)
+    view = memoryview(block)
+    with open(path, "rb", buffering=0) as fh:
+        while size := fh.readinto(block):
+            digest.update(view[:size])
+
+
+HASH_BLOCK = 1 << 22
 
 
 def _arrow_chunks(source, names: list[str], column: str, to_si: float, dialect, chunk_samples: int, path: Path,
