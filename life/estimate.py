@@ -88,10 +88,12 @@ class LifeResult(ResultViews):
     @cached_property
     def damage(self) -> DamageResult:
         """Miner damage per block at every location (``flexcycle.fatigue.damage.miner_damage``), evaluated when
-        first asked for: the estimate itself needs only ``worst`` (exact at the largest damage, bounds elsewhere)."""
+        first asked for: the estimate itself needs only ``worst`` (exact at the largest damage, bounds elsewhere),
+        whose exact locations are not evaluated again."""
         if self.worst.exact is None or self.worst.exact.all():
             return self.worst
-        return miner_damage(self.locations, self.design.duty.cycles, self.force_per_drive, self.design.stress_factor)
+        return miner_damage(self.locations, self.design.duty.cycles, self.force_per_drive, self.design.stress_factor,
+                            known=self.worst)
 
     @property
     def theory(self) -> str:

@@ -405,3 +405,37 @@ def test_blockwise_widest_cycles_match_numpy(monkeypatch_free_rows, block):
         assert estimate_module._largest_cycle(cycles) == int(np.lexsort((hi, hi - lo))[-1])
     finally:
         damage_module.WIDEN_BLOCK, estimate_module.LARGEST_BLOCK = old
+
+
+@pytest.mark.parametrize("seed", [7, 8])
+def test_every_location_pass_takes_the_worst_pass_as_it_is(monkeypatch, seed):
+    """Reference: every location cycle by cycle (miner_damage at EXACT_PAIRS unlimited). Forced to bracket
+    (EXACT_PAIRS = 1) and given the worst pass (``known``): the largest damage and its location are the exact
+    ones, every bound is at least the damage it bounds, exact values equal the reference (rel 1e-12: only the
+    order of summing differs), the static flags are the reference's — and no location the worst pass evaluated
+    exactly goes through the cycles again (counted at ``_damage``)."""
+    resp, locs = _example_locations()
+    cycles = rainflow_cycles(_ride(20_000, seed))
+    fpd = 1.0 / resp.compliance
+    exact = miner_damage(locs, cycles, fpd, 1.0)
+    monkeypatch.setattr(damage_module, "EXACT_PAIRS", 1)
+    worst = worst_damage(locs, cycles, fpd, 1.0)
+    evaluated: list[np.ndarray] = []
+    counting = damage_module._damage
+
+    def spy(local_map, rows, some, past=None):
+        if some is cycles:  # an exact pass (the bounds go through widened cycles)
+            evaluated.append(np.asarray(rows).copy())
+        return counting(local_map, rows, some, past)
+
+    monkeypatch.setattr(damage_module, "_damage", spy)
+    seeded = miner_damage(locs, cycles, fpd, 1.0, known=worst)
+    assert seeded.aggregation == "bracketed"
+    k = int(np.argmax(exact.damage))
+    assert seeded.largest() == k and seeded.exact[k]
+    assert seeded.damage[k] == worst.damage[k]  # taken as it is
+    assert np.all(exact.damage <= seeded.damage * (1 + 1e-12))
+    np.testing.assert_allclose(seeded.damage[seeded.exact], exact.damage[seeded.exact], rtol=1e-12, atol=0)
+    np.testing.assert_array_equal(seeded.static_failure, exact.static_failure)
+    again = np.concatenate(evaluated) if evaluated else np.zeros(0, int)
+    assert not np.intersect1d(again, np.flatnonzero(worst.exact)).size

@@ -316,12 +316,15 @@ class DamageResult:
         return int(np.argmax(np.where(self.exact, self.damage, -np.inf)))
 
 
-def miner_damage(locations: Locations, cycles: Cycles, force_per_drive: float, stress_factor: float) -> DamageResult:
+def miner_damage(locations: Locations, cycles: Cycles, force_per_drive: float, stress_factor: float,
+                 known: DamageResult | None = None) -> DamageResult:
     """Damage per block at every location for the counted drive cycles.
 
     force_per_drive : float — drive force per unit drive (1, or the stiffness for a deflection drive) [N per drive unit];
         unused when the locations carry a large-deflection ``drive_map``
     stress_factor : float — partial factor on every local stress or strain [-]
+    known : DamageResult | None — ``worst_damage`` of the same locations, cycles and factors (an estimate's
+        ``worst``): at scale its exact locations are not evaluated again, and its largest damage is the D* below
 
     Notes
     -----
@@ -337,7 +340,8 @@ def miner_damage(locations: Locations, cycles: Cycles, force_per_drive: float, s
     these rules a local cycle whose interval contains another's has no more cycles to failure (the tests check
     it on every rule and library material), and the map from drive to local stress is monotonic, so at every
     location D <= D(widened). The location of the largest upper bound is then evaluated exactly, cycle by
-    cycle; its damage D* is at most the largest damage of all, so every location whose upper bound reaches
+    cycle; its damage D* is at most the largest damage of all (with ``known``, D* is that largest damage itself,
+    and no location is evaluated twice), so every location whose upper bound reaches
     D* — the critical one among them — and every location where a widened cycle passes the static strength
     is evaluated exactly too, cycle by cycle (bounded once more on a grid REFINE times finer first when they
     would take more than REFINE_PAIRS location × cycle pairs): the life, the critical location and the static-failure flags are exact. The others report the
@@ -348,7 +352,7 @@ def miner_damage(locations: Locations, cycles: Cycles, force_per_drive: float, s
     """
     local_map = _LocalMap(locations, force_per_drive, stress_factor)
     amp, mean, utilisation, rows = _extremes(local_map, cycles)
-    damage, failed, exact, aggregation, _ = _evaluate(local_map, rows, cycles)
+    damage, failed, exact, aggregation, _ = _evaluate(local_map, rows, cycles, known=known)
     return DamageResult(damage, failed, amp, mean, utilisation, exact, aggregation)
 
 
@@ -487,11 +491,13 @@ def _first_widest(cycles: Cycles) -> int:
 
 
 def _evaluate(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles, levels: int = BRACKET_LEVELS,
-              exact_pairs: int | None = None, past: float | None = None):
+              exact_pairs: int | None = None, past: float | None = None, known: DamageResult | None = None):
     """Damage, static-failure flags, the exact mask (None: exact everywhere), the aggregation and the shares
     (``_damage``'s third value, at the locations evaluated exactly) at ``rows``: every cycle; or beyond
     ``exact_pairs`` (default EXACT_PAIRS) location × cycle pairs, bracketed on a grid of ``levels`` drive levels
-    (the Notes of ``miner_damage``), or identical cycles merged where the bracket does not hold ("cld")."""
+    (the Notes of ``miner_damage``), or identical cycles merged where the bracket does not hold ("cld").
+    ``known`` (without ``past``): when bracketed, the damage and flags of its exact locations are taken as they
+    are, and the largest of them is D*."""
     locations = local_map.locations
     nc = cycles.lo.size
     limit = EXACT_PAIRS if exact_pairs is None else exact_pairs
@@ -504,18 +510,24 @@ def _evaluate(local_map: _LocalMap, rows: np.ndarray, cycles: Cycles, levels: in
         damage, failed, shares = _damage(local_map, rows, merge_identical(cycles), past)
         return damage, failed, None, "identical cycles merged", shares
     upper, failed_wide, _ = _damage(local_map, rows, _widened(cycles, levels))
-    top = rows[[int(np.argmax(upper[rows]))]]
-    # the exact passes go through the cycles as counted, in chunks: a long history's cycles come merged already
-    # where merging paid (flexcycle.spectra.chunked.HeldCycles), and merging distinct ones would only cost
-    damage_top, failed_top, shares_top = _damage(local_map, top, cycles, past)
-    reached = damage_top[top[0]]  # D* <= the largest damage of all
-    exact = rows[(upper[rows] >= reached) | failed_wide[rows]]
-    rest = exact[exact != top[0]]  # the top location is evaluated already
+    if known is not None and past is None and known.exact is not None and known.exact[rows].any():
+        top = rows[known.exact[rows]]  # evaluated exactly already, the largest damage of all among them
+        damage_top, failed_top, shares_top = known.damage, known.static_failure, None
+    else:
+        top = rows[[int(np.argmax(upper[rows]))]]
+        # the exact passes go through the cycles as counted, in chunks: a long history's cycles come merged already
+        # where merging paid (flexcycle.spectra.chunked.HeldCycles), and merging distinct ones would only cost
+        damage_top, failed_top, shares_top = _damage(local_map, top, cycles, past)
+    reached = damage_top[top].max()  # D* <= the largest damage of all
+    done = np.zeros(upper.size, bool)
+    done[top] = True  # the locations evaluated exactly already
+    exact = rows[(upper[rows] >= reached) | failed_wide[rows] | done[rows]]
+    rest = exact[~done[exact]]
     if rest.size * nc > REFINE_PAIRS:  # many cycles to go through again: first bound those rows more tightly
         finer, failed_finer, _ = _damage(local_map, rest, _widened(cycles, REFINE * levels))
         upper[rest] = np.minimum(upper[rest], finer[rest])
-        exact = exact[(upper[exact] >= reached) | failed_finer[exact] | (exact == top[0])]
-        rest = exact[exact != top[0]]
+        exact = exact[(upper[exact] >= reached) | failed_finer[exact] | done[exact]]
+        rest = exact[~done[exact]]
     damage_exact, failed, shares = _damage(local_map, rest, cycles, past)
     damage_exact[top], failed[top] = damage_top[top], failed_top[top]
     if shares is not None:
