@@ -133,8 +133,9 @@ def table_of(cycles: Cycles, max_rows: int, resolution: float) -> tuple[Cycles, 
     for start in range(0, n, TABLE_BLOCK):
         block = Cycles(cycles.lo[start:start + TABLE_BLOCK], cycles.hi[start:start + TABLE_BLOCK],
                        cycles.count[start:start + TABLE_BLOCK])
+        binned = None  # the block on the grid of ``width``, when counted on it already
         if exact is not None:
-            if np.unique(block.lo).size <= max_rows:  # else more distinct minima than rows: binned at once
+            if _few_distinct(block.lo, max_rows):  # else more distinct minima than rows: binned at once
                 merged = merge_parts([exact, block])
                 if merged.lo.size <= max_rows:
                     exact = merged
@@ -146,9 +147,10 @@ def table_of(cycles: Cycles, max_rows: int, resolution: float) -> tuple[Cycles, 
             coarse = width  # the finest width of the sequence whose grid is counted densely
             while (2 * peak / coarse + 4) ** 2 > DENSE_CELLS and coarse < 4.0 * peak:
                 coarse *= 2.0
-            if _binned(block, coarse, peak)[0].size > max_rows:  # then every finer grid holds more rows too
-                width = coarse
-        block_keys, block_counts = _binned(block, width, peak)
+            on_coarse = _binned(block, coarse, peak)
+            if on_coarse[0].size > max_rows:  # then every finer grid holds more rows too
+                width, binned = coarse, on_coarse
+        block_keys, block_counts = binned if binned is not None else _binned(block, width, peak)
         keys, counts = _summed(np.concatenate([keys, block_keys]), np.concatenate([counts, block_counts]))
         while keys.size > max_rows:
             i_lo, i_hi = _indices(keys)
@@ -158,6 +160,14 @@ def table_of(cycles: Cycles, max_rows: int, resolution: float) -> tuple[Cycles, 
         return exact, None
     i_lo, i_hi = _indices(keys)
     return Cycles((i_lo + 0.5) * width, (i_hi + 0.5) * width, counts), width
+
+
+def _few_distinct(values: np.ndarray, most: int) -> bool:
+    """Whether ``values`` hold at most ``most`` distinct numbers; the first 2·most + 1 of them decide a "no"
+    without sorting them all."""
+    if np.unique(values[:2 * most + 1]).size > most:
+        return False
+    return np.unique(values).size <= most
 
 
 def _key(i_lo: np.ndarray, i_hi: np.ndarray) -> np.ndarray:
