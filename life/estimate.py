@@ -413,7 +413,7 @@ def _largest_cycle(cycles) -> int:
     return at
 
 
-LARGEST_BLOCK = 1 << 20  # cycles looked at once by ``_largest_cycle``
+LARGEST_BLOCK = 1 << 18  # cycles looked at once by ``_largest_cycle`` (2 MB temporaries: they stay in cache)
 
 
 EXTRAPOLATED_SHARE = 0.1  # warn when more than this share of the critical damage is read past the data
