@@ -222,7 +222,7 @@ def history_chunks(
         _refuse(path, column, to_si, where)
 
 
-ARROW_BLOCK = 4 << 20  # bytes Arrow's CSV reader parses at once
+ARROW_BLOCK = 1 << 20  # bytes Arrow's CSV reader parses at once: its arrays (1 MB) stay below numpy's huge-page size
 
 
 def _arrow_history(path: Path, offset: int, names: list[str], column: str, to_si: float, dialect, chunk_samples: int,
