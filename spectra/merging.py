@@ -165,9 +165,10 @@ def table_of(cycles: Cycles, max_rows: int, resolution: float) -> tuple[Cycles, 
 def _few_distinct(values: np.ndarray, most: int) -> bool:
     """Whether ``values`` hold at most ``most`` distinct numbers; the first 2·most + 1 of them decide a "no"
     without sorting them all."""
-    if np.unique(values[:2 * most + 1]).size > most:
+    head = values[:2 * most + 1]
+    if np.unique(head).size > most:
         return False
-    return np.unique(values).size <= most
+    return head.size == values.size or np.unique(values).size <= most
 
 
 def _key(i_lo: np.ndarray, i_hi: np.ndarray) -> np.ndarray:

@@ -263,7 +263,7 @@ def _hash_file(path: Path, digest) -> None:
             digest.update(view[:size])
 
 
-HASH_BLOCK = 1 << 22
+HASH_BLOCK = 1 << 22  # bytes hashed at once (one buffer, used again for every block)
 
 
 def _arrow_chunks(source, names: list[str], column: str, to_si: float, dialect, chunk_samples: int, path: Path,

@@ -27,11 +27,13 @@ class Intervals:
 
     def __init__(self, knots: np.ndarray):
         knots = np.asarray(knots, float)
-        if knots.ndim != 1 or knots.size < 2 or not np.all(np.diff(knots) > 0) or not np.isfinite(knots).all():
+        if knots.ndim != 1 or knots.size < 2 or not np.isfinite(knots).all():
+            raise ValueError("Intervals: the knots must be finite, strictly ascending and at least two")
+        self.width = np.diff(knots)  # knots[j + 1] - knots[j], as the interpolation divides by it
+        if not np.all(self.width > 0):
             raise ValueError("Intervals: the knots must be finite, strictly ascending and at least two")
         self.knots = knots
         self.last = knots.size - 2  # the last interval
-        self.width = np.diff(knots)  # knots[j + 1] - knots[j], as the interpolation divides by it
         self.base = float(knots[0])
         span = float(knots[-1]) - self.base
         narrowest = float(self.width.min())
